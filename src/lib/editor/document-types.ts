@@ -1,0 +1,28 @@
+/**
+ * The `brinkmap/network-1` document as the editor reads and writes it (field names fixed by issue 3).
+ * Kept structural here so the editor helpers do not depend on the validator's zod schema; the server's
+ * validator stays the authority on what is valid.
+ */
+export interface NetworkNodeDoc {
+  id: string;
+  parameters?: Record<string, number>;
+}
+
+export interface NetworkLinkDoc {
+  from: string;
+  to: string;
+  weight: number;
+  twoWay?: boolean;
+}
+
+export interface NetworkDocument {
+  format: 'brinkmap/network-1';
+  name: string;
+  description?: string;
+  element: { variable: string; rate: string; parameters: Record<string, number> };
+  nodes: NetworkNodeDoc[];
+  links: NetworkLinkDoc[];
+  coupling: { parameter: string; value: number; term?: string };
+  sweep: { parameter: string; from: number; to: number };
+  start?: number[][];
+}

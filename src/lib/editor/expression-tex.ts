@@ -1,0 +1,26 @@
+import { parse } from 'mathjs';
+
+export type TexResult = { ok: true; tex: string } | { ok: false; message: string };
+
+/**
+ * A rate expression as TeX for the typeset preview (mathjs's own printer, redundant parentheses dropped).
+ * Only for display: whether the expression is allowed is the server validator's decision.
+ */
+export function expressionToTex(expression: string): TexResult {
+  if (expression.trim() === '') return { ok: false, message: 'empty expression' };
+  try {
+    return { ok: true, tex: parse(expression).toTex({ parenthesis: 'auto', implicit: 'show' }) };
+  } catch (err) {
+    return { ok: false, message: err instanceof Error ? err.message : String(err) };
+  }
+}
+
+/** The full rate equation "dP/dt = …" for the preview header. */
+export function rateEquationTex(variable: string, expression: string): TexResult {
+  const r = expressionToTex(expression);
+  if (!r.ok) return r;
+  const v = variable.trim() === '' ? 'x' : variable.trim();
+  const name = expressionToTex(v);
+  const vt = name.ok ? name.tex.trim() : v;
+  return { ok: true, tex: `\\frac{\\mathrm{d}${vt}}{\\mathrm{d}t} = ${r.tex}` };
+}

@@ -1,0 +1,52 @@
+import { describe, it, expect } from 'vitest';
+import { parseAdjacencyCsv, describeCsvIssue, MAX_CSV_NODES } from '../../../src/lib/editor';
+
+describe('parseAdjacencyCsv', () => {
+  it('reads ids from the header row and weights by row = source, column = target', () => {
+    const r = parseAdjacencyCsv(',upper,middle,lower\nupper,0,1,\nmiddle,0,0,0.5\nlower,0,0.5,0\n');
+    expect(r).toEqual({ ok: true, nodeIds: ['upper', 'middle', 'lower'], matrix: [[0, 1, 0], [0, 0, 0.5], [0, 0.5, 0]] });
+  });
+
+  it('accepts rows in another order and semicolon delimiters', () => {
+    const r = parseAdjacencyCsv('id;a;b\nb;2;0\na;0;1\n');
+    expect(r).toEqual({ ok: true, nodeIds: ['a', 'b'], matrix: [[0, 1], [2, 0]] });
+  });
+
+  it('names row and column of a non-numeric weight', () => {
+    const r = parseAdjacencyCsv(',a,b\na,0,heavy\nb,0,0\n');
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.issues).toEqual([{ row: 2, column: 3, message: '"heavy" is not a number (link a → b)' }]);
+      expect(describeCsvIssue(r.issues[0])).toBe('row 2, column C: "heavy" is not a number (link a → b)');
+    }
+  });
+
+  it('reports ragged rows, unknown ids and missing rows together', () => {
+    const r = parseAdjacencyCsv(',a,b,c\na,0,1\nzz,0,0,0\nb,0,0,0\n');
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      const text = r.issues.map(describeCsvIssue);
+      expect(text).toContain('row 2: has 3 cells but the header has 4');
+      expect(text).toContain('row 3, column A: node "zz" is not in the header row');
+      expect(text.some((t) => t.includes('node "a" is in the header but has no row'))).toBe(true);
+      expect(text.some((t) => t.includes('node "c" is in the header but has no row'))).toBe(true);
+    }
+  });
+
+  it('refuses duplicate header ids and an empty file', () => {
+    const dup = parseAdjacencyCsv(',a,a\na,0,0\n');
+    expect(dup.ok === false && dup.issues[0]).toEqual({ row: 1, column: 3, message: 'node "a" appears twice in the header' });
+    const empty = parseAdjacencyCsv('\n\n');
+    expect(empty.ok === false && empty.issues[0].message).toBe('the file is empty');
+  });
+
+  it(`refuses more than ${MAX_CSV_NODES} nodes, naming the limit`, () => {
+    const ids = Array.from({ length: MAX_CSV_NODES + 1 }, (_, k) => `n${k}`);
+    const r = parseAdjacencyCsv(`,${ids.join(',')}\n`);
+    expect(r.ok === false && r.issues[0].message).toBe(`${MAX_CSV_NODES + 1} nodes is more than the limit of ${MAX_CSV_NODES}`);
+  });
+
+  it('describeCsvIssue numbers columns past Z like a spreadsheet (AA)', () => {
+    expect(describeCsvIssue({ row: 1, column: 27, message: 'x' })).toBe('row 1, column AA: x');
+  });
+});
