@@ -1,0 +1,98 @@
+import { bin, call, neg, num, sameExpr, type Expr, type UnaryFunction } from './expr';
+
+/** Real-valued implementations of the tree's functions, shared by folding and by codegen's semantics. */
+export const UNARY_IMPL: Readonly<Record<UnaryFunction, (x: number) => number>> = {
+  exp: Math.exp, log: Math.log, sqrt: Math.sqrt,
+  sin: Math.sin, cos: Math.cos, tan: Math.tan, asin: Math.asin, acos: Math.acos, atan: Math.atan,
+  sinh: Math.sinh, cosh: Math.cosh, tanh: Math.tanh, abs: Math.abs, sign: Math.sign,
+  sec: (x) => 1 / Math.cos(x), csc: (x) => 1 / Math.sin(x), cot: (x) => 1 / Math.tan(x),
+  sech: (x) => 1 / Math.cosh(x), csch: (x) => 1 / Math.sinh(x), coth: (x) => 1 / Math.tanh(x),
+};
+
+const isNum = (e: Expr, v?: number): e is Extract<Expr, { kind: 'num' }> =>
+  e.kind === 'num' && (v === undefined || e.value === v);
+
+/**
+ * Light algebraic clean-up of trees from mathjs `derivative` (run with simplify: false, whose output
+ * carries many `* 1`, `0 +`, `(8 - 1)`): folds constant subtrees whose value is finite and drops
+ * neutral elements. `0 * u -> 0` assumes u is finite where it is evaluated (it differs from IEEE only
+ * where u is infinite or NaN). `c * abs(u) / u -> c * sign(u)`, the derivative of |u| away from u = 0,
+ * taken as 0 at u = 0 (a subgradient) instead of mathjs's 0/0.
+ * mathjs `simplify` is not used: it is slow on these trees and may rewrite symbols it knows as
+ * constants (e, pi); this fold never touches symbols.
+ */
+export function fold(e: Expr): Expr {
+  switch (e.kind) {
+    case 'num': case 'sym': return e;
+    case 'neg': {
+      const a = fold(e.arg);
+      if (isNum(a)) return num(-a.value);
+      if (a.kind === 'neg') return a.arg;
+      return neg(a);
+    }
+    case 'call': {
+      const a = fold(e.arg);
+      if (isNum(a)) {
+        const v = UNARY_IMPL[e.fn](a.value);
+        if (Number.isFinite(v)) return num(v);
+      }
+      return call(e.fn, a);
+    }
+    case 'bin': {
+      const l = fold(e.left);
+      const r = fold(e.right);
+      if (isNum(l) && isNum(r)) {
+        const v = applyBinary(e.op, l.value, r.value);
+        if (Number.isFinite(v)) return num(v);
+      }
+      switch (e.op) {
+        case '+':
+          if (isNum(l, 0)) return r;
+          if (isNum(r, 0)) return l;
+          if (r.kind === 'neg') return bin('-', l, r.arg);
+          return bin('+', l, r);
+        case '-':
+          if (isNum(r, 0)) return l;
+          if (isNum(l, 0)) return fold(neg(r));
+          if (r.kind === 'neg') return bin('+', l, r.arg);
+          return bin('-', l, r);
+        case '*':
+          if (isNum(l, 0) || isNum(r, 0)) return num(0);
+          if (isNum(l, 1)) return r;
+          if (isNum(r, 1)) return l;
+          if (isNum(l, -1)) return fold(neg(r));
+          if (isNum(r, -1)) return fold(neg(l));
+          return bin('*', l, r);
+        case '/': {
+          if (isNum(r, 1)) return l;
+          const s = absOverSelf(l, r);
+          if (s) return s;
+          return bin('/', l, r);
+        }
+        case '^':
+          if (isNum(r, 1)) return l;
+          if (isNum(r, 0)) return num(1);
+          return bin('^', l, r);
+      }
+    }
+  }
+}
+
+function applyBinary(op: '+' | '-' | '*' | '/' | '^', a: number, b: number): number {
+  switch (op) {
+    case '+': return a + b;
+    case '-': return a - b;
+    case '*': return a * b;
+    case '/': return a / b;
+    case '^': return Math.pow(a, b);
+  }
+}
+
+/** abs(u) / u -> sign(u) and (c * abs(u)) / u -> c * sign(u). */
+function absOverSelf(l: Expr, r: Expr): Expr | null {
+  if (l.kind === 'call' && l.fn === 'abs' && sameExpr(l.arg, r)) return call('sign', r);
+  if (l.kind === 'bin' && l.op === '*' && l.right.kind === 'call' && l.right.fn === 'abs' && sameExpr(l.right.arg, r)) {
+    return fold(bin('*', l.left, call('sign', r)));
+  }
+  return null;
+}
