@@ -1,5 +1,7 @@
 /**
  * The `brinkmap/network-1` document as the editor reads and writes it (field names fixed by issue 3).
+ * The document has no description field (the schema is strict): a model's description lives on the
+ * model record, so the editor keeps it beside the document.
  * Kept structural here so the editor helpers do not depend on the validator's zod schema; the server's
  * validator stays the authority on what is valid.
  */
@@ -18,7 +20,6 @@ export interface NetworkLinkDoc {
 export interface NetworkDocument {
   format: 'brinkmap/network-1';
   name: string;
-  description?: string;
   element: { variable: string; rate: string; parameters: Record<string, number> };
   nodes: NetworkNodeDoc[];
   links: NetworkLinkDoc[];

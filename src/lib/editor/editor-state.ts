@@ -59,11 +59,11 @@ export function emptyEditorState(): EditorState {
   };
 }
 
-/** Document → form. Never mutates the input. */
-export function documentToState(doc: NetworkDocument): EditorState {
+/** Document (plus the model's description, which is not part of it) → form. Never mutates the input. */
+export function documentToState(doc: NetworkDocument, description = ''): EditorState {
   return {
     name: doc.name ?? '',
-    description: doc.description ?? '',
+    description,
     variable: doc.element?.variable ?? '',
     rate: doc.element?.rate ?? '',
     parameters: Object.entries(doc.element?.parameters ?? {}).map(([name, v]) => ({ name, value: formatNumber(v) })),
@@ -144,7 +144,6 @@ export function stateToDocument(state: EditorState): StateConversion {
   const document: NetworkDocument = {
     format: 'brinkmap/network-1',
     name: state.name.trim(),
-    ...(state.description.trim() !== '' ? { description: state.description.trim() } : {}),
     element: { variable: state.variable.trim(), rate: state.rate, parameters },
     nodes,
     links,

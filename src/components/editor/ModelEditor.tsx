@@ -1,0 +1,330 @@
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import {
+  documentToState, emptyEditorState, stateToDocument, type EditorState, type FieldIssue, type NetworkDocument,
+} from '../../lib/editor';
+import type { Diagram, Diagnostic } from '../../lib/atlas/types';
+import { api } from './api-client';
+import { TextField, FieldErrors, fieldDomId, issuesAt } from './fields';
+import { TexPreview, MarkedExpression } from './TexPreview';
+import { ParametersTable } from './ParametersTable';
+import { NetworkEditor } from './NetworkEditor';
+import { PreviewPlot } from './PreviewPlot';
+import { VersionHistory } from './VersionHistory';
+import './editor.css';
+
+/** Largest network the live preview computes inside a request (issue 6). */
+export const PREVIEW_MAX_NODES = 4;
+/** Quiet time after the last keystroke before validating and previewing. */
+const DEBOUNCE_MS = 300;
+
+export interface ModelEditorProps {
+  /** Absent for a new model. */
+  modelId?: string;
+  initialDocument?: NetworkDocument | null;
+  /** The model's description (kept on the model, not in the document). */
+  initialDescription?: string;
+  latestVersion?: number;
+}
+
+type PreviewState =
+  | { kind: 'idle'; message: string }
+  | { kind: 'busy' }
+  | { kind: 'done'; diagram: Diagram; diagnostics: Diagnostic[]; elapsedMs?: number; truncated?: boolean }
+  | { kind: 'error'; message: string };
+
+/** The model editor island: every field of a network document, live checks, preview and saving. */
+export default function ModelEditor({ modelId, initialDocument, initialDescription, latestVersion }: ModelEditorProps) {
+  const [state, setStateRaw] = useState<EditorState>(() => (initialDocument ? documentToState(initialDocument, initialDescription ?? '') : starterState()));
+  const [serverIssues, setServerIssues] = useState<FieldIssue[]>([]);
+  const [checking, setChecking] = useState(false);
+  const [preview, setPreview] = useState<PreviewState>({ kind: 'idle', message: 'The preview appears once the model is valid.' });
+  const [changeNote, setChangeNote] = useState(initialDocument ? '' : 'First version');
+  const [saving, setSaving] = useState(false);
+  const [saveError, setSaveError] = useState<{ message: string; issues: FieldIssue[] } | null>(null);
+  const [saved, setSaved] = useState('');
+  const [dirty, setDirty] = useState(false);
+  const [historyKey, setHistoryKey] = useState(0);
+  const [announcement, setAnnouncement] = useState('');
+  const [version, setVersion] = useState(latestVersion ?? 0);
+  const savedDescription = useRef((initialDescription ?? '').trim());
+
+  const setState = useCallback((f: (s: EditorState) => EditorState) => {
+    setStateRaw(f);
+    setDirty(true);
+    setSaved('');
+  }, []);
+  const announce = useCallback((m: string) => setAnnouncement(m), []);
+
+  const conversion = useMemo(() => stateToDocument(state), [state]);
+  const localIssues = conversion.ok ? [] : conversion.issues;
+  const issues = useMemo(() => {
+    const all = [...localIssues, ...serverIssues, ...(saveError?.issues ?? [])];
+    const seen = new Set<string>();
+    return all.filter((i) => {
+      const k = `${i.path}\u0000${i.message}`;
+      if (seen.has(k)) return false;
+      seen.add(k);
+      return true;
+    });
+  }, [localIssues, serverIssues, saveError]);
+
+  // Debounced server validation, then the live preview for small networks.
+  const abortRef = useRef<AbortController | null>(null);
+  useEffect(() => {
+    if (!conversion.ok) {
+      setServerIssues([]);
+      setPreview({ kind: 'idle', message: 'Fix the fields marked above to see a preview.' });
+      return;
+    }
+    const doc = conversion.document;
+    const timer = window.setTimeout(async () => {
+      abortRef.current?.abort();
+      const ctrl = new AbortController();
+      abortRef.current = ctrl;
+      setChecking(true);
+      try {
+        const v = await api.validate(doc, ctrl.signal);
+        if (ctrl.signal.aborted) return;
+        if (!v.ok) {
+          setServerIssues(v.issues);
+          setPreview({ kind: 'error', message: `Could not check the model: ${v.message}` });
+          return;
+        }
+        setServerIssues(v.data.issues ?? []);
+        if (!v.data.valid) {
+          setPreview({ kind: 'idle', message: 'Fix the fields marked above to see a preview.' });
+          return;
+        }
+        if (doc.nodes.length > PREVIEW_MAX_NODES) {
+          setPreview({ kind: 'idle', message: `The live preview covers networks of up to ${PREVIEW_MAX_NODES} nodes; save and start a run to see this one.` });
+          return;
+        }
+        setPreview({ kind: 'busy' });
+        const p = await api.preview(doc, ctrl.signal);
+        if (ctrl.signal.aborted) return;
+        if (!p.ok) setPreview({ kind: 'error', message: p.message });
+        else if (!p.data.valid || !p.data.diagram) {
+          setServerIssues(p.data.issues ?? []);
+          setPreview({ kind: 'idle', message: 'Fix the fields marked above to see a preview.' });
+        } else {
+          setPreview({ kind: 'done', diagram: p.data.diagram, diagnostics: p.data.diagnostics ?? p.data.diagram.diagnostics, elapsedMs: p.data.elapsedMs, truncated: p.data.truncated });
+        }
+      } catch (e) {
+        if ((e as Error).name !== 'AbortError') setPreview({ kind: 'error', message: 'The preview failed; your edits are unaffected.' });
+      } finally {
+        if (!ctrl.signal.aborted) setChecking(false);
+      }
+    }, DEBOUNCE_MS);
+    return () => window.clearTimeout(timer);
+  }, [conversion]);
+
+  useEffect(() => {
+    if (!dirty) return;
+    const warn = (e: BeforeUnloadEvent) => { e.preventDefault(); };
+    window.addEventListener('beforeunload', warn);
+    return () => window.removeEventListener('beforeunload', warn);
+  }, [dirty]);
+
+  const save = async () => {
+    setSaved('');
+    if (!conversion.ok) {
+      setSaveError({ message: 'Not saved: some fields cannot be read yet. They are marked above.', issues: [] });
+      announce('Not saved: some fields cannot be read yet.');
+      return;
+    }
+    if (changeNote.trim() === '') {
+      setSaveError({ message: 'Not saved: write a short change note saying what this version changes.', issues: [{ path: 'changeNote', message: 'write a short change note' }] });
+      return;
+    }
+    setSaving(true);
+    setSaveError(null);
+    if (modelId && state.description.trim() !== savedDescription.current) {
+      const d = await api.updateDescription(modelId, state.description.trim());
+      if (!d.ok) {
+        setSaving(false);
+        setSaveError({ message: `Not saved: the description could not be stored (${d.message}). Your edits are kept.`, issues: d.issues });
+        return;
+      }
+      savedDescription.current = state.description.trim();
+    }
+    const r = modelId
+      ? await api.saveVersion(modelId, conversion.document, changeNote.trim(), version || undefined)
+      : await api.createModel(conversion.document, state.description.trim(), changeNote.trim());
+    setSaving(false);
+    if (!r.ok) {
+      const message = r.issues.length > 0 ? `Not saved: ${r.issues.length} problem${r.issues.length === 1 ? '' : 's'} — see the marked fields. Your edits are kept.` : `Not saved: ${r.message} Your edits are kept.`;
+      setSaveError({ message, issues: r.issues });
+      announce(message);
+      return;
+    }
+    setDirty(false);
+    if (!modelId) {
+      const id = (r.data as { model: { id: number | string } }).model.id;
+      setSaved('Saved. Opening the model…');
+      announce('Model saved.');
+      window.location.assign(`/models/${encodeURIComponent(String(id))}`);
+      return;
+    }
+    const n = (r.data as { version?: { number: number } }).version?.number ?? version + 1;
+    setVersion(n);
+    setChangeNote('');
+    setHistoryKey((k) => k + 1);
+    const msg = `Saved as version ${n}.`;
+    setSaved(msg);
+    announce(msg);
+  };
+
+  const rateIssues = issuesAt(issues, 'element.rate');
+  const termIssues = issuesAt(issues, 'coupling.term');
+  const sweepChoices = [...new Set([state.coupling.parameter, ...state.parameters.map((p) => p.name)].filter(Boolean))];
+
+  return (
+    <form className="ed-root" onSubmit={(e) => { e.preventDefault(); void save(); }} noValidate aria-label="Model editor">
+      <div className="ed-sr" role="status" aria-live="polite">{announcement}</div>
+      <ErrorSummary issues={issues} checking={checking} />
+
+      <section className="ed-section" aria-labelledby="ed-basics-h">
+        <h2 id="ed-basics-h">Model</h2>
+        <TextField label="Name" path="name" value={state.name} onChange={(v) => setState((s) => ({ ...s, name: v }))} issues={issues} required />
+        <TextField label="Description" path="description" value={state.description} onChange={(v) => setState((s) => ({ ...s, description: v }))} issues={issues} multiline hint="What the model represents and where its numbers come from." />
+      </section>
+
+      <section className="ed-section" aria-labelledby="ed-element-h">
+        <h2 id="ed-element-h">Element</h2>
+        <div className="ed-two">
+          <div>
+            <TextField label="State variable" path="element.variable" value={state.variable} onChange={(v) => setState((s) => ({ ...s, variable: v }))} issues={issues} mono hint="One name, used in the rate expression." />
+            <TextField
+              label="Rate expression"
+              path="element.rate"
+              value={state.rate}
+              onChange={(v) => setState((s) => ({ ...s, rate: v }))}
+              issues={issues}
+              mono
+              placeholder="a - b * P + P^8 / (1 + P^8)"
+              hint="Arithmetic, ^ for powers, and exp, log, sqrt, sin, cos, tan, tanh, abs…"
+              after={<MarkedExpression id="ed-rate-marked" expression={state.rate} messages={rateIssues.map((i) => i.message)} />}
+            />
+          </div>
+          <TexPreview expression={state.rate} variable={state.variable} label="Typeset rate equation" />
+        </div>
+      </section>
+
+      <ParametersTable state={state} setState={setState} issues={issues} />
+      <NetworkEditor state={state} setState={setState} issues={issues} announce={announce} />
+
+      <section className="ed-section" aria-labelledby="ed-coupling-h">
+        <h2 id="ed-coupling-h">Coupling</h2>
+        <p className="ed-hint">Each link adds <em>coupling parameter × weight × term</em> to the rate of the node it points to. In the term, <code>source</code> is the linked node's state and <code>target</code> the node's own.</p>
+        <div className="ed-three">
+          <TextField label="Coupling parameter" path="coupling.parameter" value={state.coupling.parameter} onChange={(v) => setState((s) => ({ ...s, coupling: { ...s.coupling, parameter: v } }))} issues={issues} mono />
+          <TextField label="Coupling value" path="coupling.value" value={state.coupling.value} onChange={(v) => setState((s) => ({ ...s, coupling: { ...s.coupling, value: v } }))} issues={issues} mono inputMode="decimal" hint="Used when the sweep is over another parameter." />
+          <TextField
+            label="Coupling term"
+            path="coupling.term"
+            value={state.coupling.term}
+            onChange={(v) => setState((s) => ({ ...s, coupling: { ...s.coupling, term: v } }))}
+            issues={issues}
+            mono
+            placeholder="source - target"
+            after={<MarkedExpression id="ed-term-marked" expression={state.coupling.term} messages={termIssues.map((i) => i.message)} />}
+          />
+        </div>
+        <TexPreview expression={state.coupling.term} label="Typeset coupling term" />
+      </section>
+
+      <section className="ed-section" aria-labelledby="ed-sweep-h">
+        <h2 id="ed-sweep-h">Sweep</h2>
+        <div className="ed-three">
+          <div className="ed-field">
+            <label htmlFor={fieldDomId('sweep.parameter')} className="ed-label">Swept parameter</label>
+            <select
+              id={fieldDomId('sweep.parameter')}
+              className={`ed-input ed-mono${issuesAt(issues, 'sweep.parameter').length ? ' ed-invalid' : ''}`}
+              value={state.sweep.parameter}
+              onChange={(e) => setState((s) => ({ ...s, sweep: { ...s.sweep, parameter: e.target.value } }))}
+              aria-invalid={issuesAt(issues, 'sweep.parameter').length ? true : undefined}
+              aria-describedby={issuesAt(issues, 'sweep.parameter').length ? `${fieldDomId('sweep.parameter')}-errors` : undefined}
+            >
+              {!sweepChoices.includes(state.sweep.parameter) ? <option value={state.sweep.parameter}>{state.sweep.parameter || '(choose)'}</option> : null}
+              {sweepChoices.map((p) => <option key={p} value={p}>{p}{p === state.coupling.parameter ? ' (coupling)' : ''}</option>)}
+            </select>
+            <FieldErrors id={`${fieldDomId('sweep.parameter')}-errors`} issues={issuesAt(issues, 'sweep.parameter')} />
+          </div>
+          <TextField label="From" path="sweep.from" value={state.sweep.from} onChange={(v) => setState((s) => ({ ...s, sweep: { ...s.sweep, from: v } }))} issues={issues} mono inputMode="decimal" />
+          <TextField label="To" path="sweep.to" value={state.sweep.to} onChange={(v) => setState((s) => ({ ...s, sweep: { ...s.sweep, to: v } }))} issues={issues} mono inputMode="decimal" />
+        </div>
+      </section>
+
+      <section className="ed-section ed-preview" aria-labelledby="ed-preview-h" aria-busy={preview.kind === 'busy'}>
+        <h2 id="ed-preview-h">Live preview</h2>
+        <p className="ed-hint">Recomputed a moment after you stop typing, for networks of up to {PREVIEW_MAX_NODES} nodes. Indicative only: a saved run gives the full, stored diagram.</p>
+        <div aria-live="polite" className="ed-preview-status" data-testid="preview-status">
+          {preview.kind === 'busy' ? 'Computing the preview…' : preview.kind === 'idle' ? preview.message : preview.kind === 'error' ? preview.message : `${preview.diagram.branches.length} branches, ${preview.diagram.bifurcations.length} special points${preview.elapsedMs !== undefined ? ` in ${Math.round(preview.elapsedMs)} ms` : ''}${preview.truncated ? ' (cut short to stay fast — the run computes all of it)' : ''}.`}
+        </div>
+        {preview.kind === 'done' ? (
+          <>
+            <PreviewPlot diagram={preview.diagram} />
+            {preview.diagnostics.filter((d) => d.level !== 'info').length > 0 ? (
+              <ul className="ed-diagnostics">
+                {preview.diagnostics.filter((d) => d.level !== 'info').slice(0, 6).map((d, k) => <li key={k}>{d.message}</li>)}
+              </ul>
+            ) : null}
+          </>
+        ) : null}
+      </section>
+
+      <section className="ed-section ed-save" aria-labelledby="ed-save-h">
+        <h2 id="ed-save-h">{modelId ? 'Save as a new version' : 'Save the model'}</h2>
+        <TextField label="Change note" path="changeNote" value={changeNote} onChange={setChangeNote} issues={issues} hint="What this version changes, for the history." />
+        <div className="ed-row">
+          <button type="submit" className="ed-btn ed-btn-primary" disabled={saving} data-testid="save-model">
+            {saving ? 'Saving…' : modelId ? `Save version ${version + 1}` : 'Create model'}
+          </button>
+          {dirty ? <span className="ed-hint">Unsaved changes</span> : null}
+        </div>
+        {saveError ? <div className="ed-error-box" role="alert" data-testid="save-error">{saveError.message}</div> : null}
+        {saved ? <p className="ed-ok" role="status">{saved}</p> : null}
+      </section>
+
+      {modelId ? (
+        <VersionHistory
+          modelId={modelId}
+          refreshKey={historyKey}
+          onLoad={(doc, n) => {
+            setStateRaw((s) => documentToState(doc as NetworkDocument, s.description));
+            setDirty(true);
+            setChangeNote(`Restored from version ${n}`);
+            announce(`Version ${n} loaded into the editor. Save to make it the newest version.`);
+          }}
+        />
+      ) : null}
+    </form>
+  );
+}
+
+function ErrorSummary({ issues, checking }: { issues: readonly FieldIssue[]; checking: boolean }) {
+  return (
+    <div className="ed-summary" aria-live="polite" data-testid="issue-summary">
+      {issues.length === 0 ? (
+        <p className="ed-hint">{checking ? 'Checking the model…' : 'No problems found.'}</p>
+      ) : (
+        <div className="ed-error-box">
+          <p>{issues.length} problem{issues.length === 1 ? '' : 's'} to fix:</p>
+          <ul>
+            {issues.slice(0, 12).map((i, k) => (
+              <li key={k}>
+                <a href={`#${fieldDomId(i.path)}`} className="ed-mono">{i.path}</a>: {i.message}
+              </li>
+            ))}
+          </ul>
+        </div>
+      )}
+    </div>
+  );
+}
+
+/** A new model starts empty: the modeler types the element, nodes and links from scratch. */
+function starterState(): EditorState {
+  return emptyEditorState();
+}

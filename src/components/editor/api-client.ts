@@ -1,0 +1,92 @@
+/**
+ * Every request the editor island makes, in one place, so the API's JSON shape is known in one file.
+ * Errors come back as { ok: false, message, issues } in words a modeler reads, never as exceptions.
+ */
+import type { FieldIssue, NetworkDocument } from '../../lib/editor';
+import type { Diagram, Diagnostic } from '../../lib/atlas/types';
+
+export type ApiResult<T> = { ok: true; data: T } | { ok: false; status: number; message: string; issues: FieldIssue[] };
+
+const STATUS_WORDS: Record<number, string> = {
+  401: 'Your session has ended. Sign in again in another tab, then save once more — nothing here is lost.',
+  403: 'Your role in this workspace does not allow this change.',
+  404: 'This model no longer exists or was archived.',
+  409: 'Someone saved a newer version meanwhile. Reload the history, then save again.',
+  413: 'The model is too large to save.',
+  429: 'Too many requests in a short time. Wait a moment and try again.',
+};
+
+interface RawIssue { path?: string; field?: string; message?: string }
+
+function issuesOf(body: unknown): FieldIssue[] {
+  const err = (body as { error?: { issues?: unknown; details?: { issues?: unknown } } } | null)?.error;
+  const raw = (Array.isArray(err?.issues) ? err?.issues : Array.isArray(err?.details?.issues) ? err?.details?.issues : []) as RawIssue[];
+  return raw
+    .map((i) => ({ path: normalizePath(String(i.path ?? i.field ?? '(document)')), message: String(i.message ?? '') }))
+    .filter((i) => i.message !== '');
+}
+
+/** "document.nodes.1.parameters.a" or "nodes[1].parameters.a" → "nodes[1].parameters.a". */
+export function normalizePath(path: string): string {
+  return path.replace(/^document\./, '').replace(/\.(\d+)(?=\.|$)/g, '[$1]');
+}
+
+export async function request<T>(method: string, url: string, body?: unknown, signal?: AbortSignal): Promise<ApiResult<T>> {
+  let res: Response;
+  try {
+    res = await fetch(url, {
+      method,
+      headers: body === undefined ? { Accept: 'application/json' } : { 'Content-Type': 'application/json', Accept: 'application/json' },
+      body: body === undefined ? undefined : JSON.stringify(body),
+      credentials: 'same-origin',
+      signal,
+    });
+  } catch (e) {
+    if ((e as Error).name === 'AbortError') throw e;
+    return { ok: false, status: 0, message: 'The server could not be reached. Check your connection; your edits are still here.', issues: [] };
+  }
+  let data: unknown = null;
+  try {
+    data = res.status === 204 ? null : await res.json();
+  } catch {
+    data = null;
+  }
+  if (res.ok) return { ok: true, data: data as T };
+  const serverMessage = (data as { error?: { message?: string } } | null)?.error?.message;
+  const message = res.status === 400 || res.status === 422 ? (serverMessage ?? 'The model has problems.') : (STATUS_WORDS[res.status] ?? serverMessage ?? `The server answered ${res.status}.`);
+  return { ok: false, status: res.status, message, issues: issuesOf(data) };
+}
+
+export interface ValidateResponse { valid: boolean; issues: FieldIssue[] }
+export interface PreviewResponse {
+  valid: boolean;
+  issues?: FieldIssue[];
+  diagram?: Diagram;
+  diagnostics?: Diagnostic[];
+  elapsedMs?: number;
+  truncated?: boolean;
+}
+export interface VersionSummary { id?: number | string; number: number; hash?: string; changeNote?: string; createdAt?: string; createdBy?: string | null }
+
+export const api = {
+  validate: (document: NetworkDocument, signal?: AbortSignal) => request<ValidateResponse>('POST', '/api/validate', { document }, signal),
+  preview: (document: NetworkDocument, signal?: AbortSignal) => request<PreviewResponse>('POST', '/api/preview', { document }, signal),
+  createModel: (document: NetworkDocument, description: string, changeNote: string) =>
+    request<{ model: { id: number | string }; version?: { number: number } }>('POST', '/api/models', {
+      name: document.name,
+      description,
+      document,
+      changeNote,
+    }),
+  saveVersion: (modelId: string, document: NetworkDocument, changeNote: string, baseVersion?: number) =>
+    request<{ version: { number: number } }>('POST', `/api/models/${encodeURIComponent(modelId)}/versions`, {
+      document,
+      changeNote,
+      ...(baseVersion ? { baseVersion } : {}),
+    }),
+  updateDescription: (modelId: string, description: string) =>
+    request<unknown>('PATCH', `/api/models/${encodeURIComponent(modelId)}`, { description }),
+  listVersions: (modelId: string) => request<{ versions: VersionSummary[] }>('GET', `/api/models/${encodeURIComponent(modelId)}/versions`),
+  getVersion: (modelId: string, number: number) =>
+    request<{ version: VersionSummary & { document: unknown } }>('GET', `/api/models/${encodeURIComponent(modelId)}/versions/${number}`),
+};
