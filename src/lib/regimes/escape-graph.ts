@@ -1,0 +1,186 @@
+import type { CompiledSystem } from '../model/compiled-system';
+import type { Diagnostic } from '../atlas/types';
+import type { EscapeGraph, NodeState, SaddleEdge, StableState } from './types';
+import type { NodeRoles } from './element-roles';
+import type { RegimeOptions } from './options';
+import { describe, isIndexOneSaddle, isStable, sameState, type Equilibrium } from './equilibria-at';
+import { integrateFlow } from './flow';
+import { newtonAtFixedParameter } from './linear-algebra';
+import { countTipped, patternOf } from './pattern';
+import { fmt } from './element-roles';
+
+/** What the integration of one manifold branch found. */
+export interface ManifoldBranch {
+  /** Index into the graph's states, or -1 when unresolved. */
+  readonly reached: number;
+  readonly time: number;
+  /** Slow-passage time (see slowPassageTime). */
+  readonly slowTime: number;
+}
+
+/** An escape graph plus, per saddle, the saddle's equilibrium data and both branches (to `from`, to `to`). */
+export interface EscapeGraphResult {
+  readonly graph: EscapeGraph;
+  readonly saddles: readonly { readonly equilibrium: Equilibrium; readonly branches: readonly [ManifoldBranch, ManifoldBranch] }[];
+  readonly diagnostics: Diagnostic[];
+}
+
+type GraphSettings = Pick<RegimeOptions,
+  'manifoldOffset' | 'relativeTolerance' | 'absoluteTolerance' | 'timeCap' | 'maxSteps' | 'stateBound' |
+  'arrivalFraction' | 'arrivalRadius' | 'slowSpeedFraction' | 'slowExclusion' |
+  'newtonTolerance' | 'newtonMaxIterations' | 'duplicateTolerance' | 'hyperbolicTolerance'>;
+
+/**
+ * Escape graph at parameter p. Vertices: the stable equilibria among `equilibria`. Edges: every
+ * index-1 saddle (one real eigenvalue with Re > 0, none with |Re| <= hyperbolicTolerance) whose two
+ * unstable-manifold branches both reach a stable state. Each branch is integrated forward from
+ * x_s ± manifoldOffset (1 + |x_s|_inf) v (v the unit unstable eigenvector) until it enters the arrival
+ * ball of a stable state: radius min(arrivalRadius (1 + |x_k|_inf), arrivalFraction × distance from x_k
+ * to the nearest other equilibrium), max norm. A branch that stops elsewhere (time or step cap) is
+ * polished by Newton's method; if it lands on a stable equilibrium not yet known, that state is added
+ * with a warning, otherwise the saddle is left out with a "manifold-unresolved" diagnostic.
+ * `from` is the end with fewer tipped nodes (ties: lower index). Patterns use `roles`; without roles
+ * every node counts as base.
+ */
+export function buildEscapeGraph(
+  system: CompiledSystem,
+  p: number,
+  equilibria: readonly Equilibrium[],
+  roles: readonly NodeRoles[] | null,
+  settings: GraphSettings,
+): EscapeGraphResult {
+  const n = system.dimension;
+  const diagnostics: Diagnostic[] = [];
+  const pattern = (x: ArrayLike<number>): NodeState[] => roles ? patternOf(x, roles) : Array.from({ length: n }, () => 'base' as const);
+  const stable = equilibria.filter(isStable);
+  const states: StableState[] = stable.map((e) => ({ x: e.x.slice(), pattern: pattern(e.x) }));
+  const everyPoint = equilibria.map((e) => e.x);
+  const radii: number[] = [];
+  const radiusOf = (x: number[]) => {
+    let nearest = Infinity;
+    for (const y of everyPoint) {
+      const d = maxDist(x, y);
+      if (d > 0 && d < nearest) nearest = d;
+    }
+    return Math.min(settings.arrivalRadius * (1 + maxAbs(x)), settings.arrivalFraction * nearest);
+  };
+  for (const s of states) radii.push(radiusOf(s.x));
+
+  const neutral = equilibria.filter((e) => e.neutral > 0);
+  if (neutral.length > 0) {
+    diagnostics.push({ level: 'warning', code: 'non-hyperbolic', p,
+      message: `${neutral.length} equilibri${neutral.length === 1 ? 'um' : 'a'} at ${system.parameter} = ${fmt(p)} ha${neutral.length === 1 ? 's' : 've'} an eigenvalue with |Re| <= ${settings.hyperbolicTolerance} and ${neutral.length === 1 ? 'was' : 'were'} left out of the escape graph` });
+  }
+
+  const edges: SaddleEdge[] = [];
+  const saddleData: { equilibrium: Equilibrium; branches: [ManifoldBranch, ManifoldBranch] }[] = [];
+  for (const saddle of equilibria.filter(isIndexOneSaddle)) {
+    const v = saddle.unstableVector!;
+    const step = settings.manifoldOffset * (1 + maxAbs(saddle.x));
+    const found: ManifoldBranch[] = [];
+    let failed = false;
+    for (const sign of [1, -1]) {
+      const x0 = saddle.x.map((c, i) => c + sign * step * v[i]);
+      const samples: { t: number; x: number[] }[] = [];
+      let reached = -1;
+      const flow = integrateFlow(system, p, x0, settings, (t, x) => {
+        samples.push({ t, x: x.slice() });
+        for (let k = 0; k < states.length; k++) {
+          if (maxDist(x, states[k].x) < radii[k]) { reached = k; return true; }
+        }
+        return false;
+      });
+      if (reached < 0 && (flow.end === 'time-cap' || flow.end === 'step-cap')) {
+        const polished = newtonAtFixedParameter(system, flow.x, p, settings.newtonTolerance, settings.newtonMaxIterations);
+        if (polished.converged) {
+          const known = states.findIndex((s) => sameState(s.x, polished.x, settings.duplicateTolerance));
+          if (known >= 0) reached = known;
+          else {
+            const e = describe(system, polished.x, p, polished.residual, settings.hyperbolicTolerance);
+            if (isStable(e)) {
+              states.push({ x: e.x, pattern: pattern(e.x) });
+              everyPoint.push(e.x);
+              radii.push(radiusOf(e.x));
+              reached = states.length - 1;
+              diagnostics.push({ level: 'warning', code: 'state-not-in-diagram', p,
+                message: `the unstable manifold of the saddle at [${saddle.x.map(fmt).join(', ')}] reached a stable state [${e.x.map(fmt).join(', ')}] that no branch of the diagram passes through at ${system.parameter} = ${fmt(p)}; it was added to the escape graph` });
+            }
+          }
+        }
+      }
+      if (reached < 0) {
+        failed = true;
+        diagnostics.push({ level: 'warning', code: 'manifold-unresolved', p,
+          message: `the ${sign > 0 ? '+' : '-'} branch of the unstable manifold of the saddle at [${saddle.x.map(fmt).join(', ')}] (${system.parameter} = ${fmt(p)}) reached no stable state ` +
+            `(${flow.end === 'escaped' ? `left the box |x| <= ${settings.stateBound}` : flow.end === 'failed' ? 'the integrator failed' : flow.end === 'step-cap' ? `step cap ${settings.maxSteps} hit` : `time cap ${settings.timeCap} hit`} at t = ${fmt(flow.t)}); the saddle is left out of the escape graph` });
+        break;
+      }
+      found.push({ reached, time: samples.length ? samples[samples.length - 1].t : 0,
+        slowTime: slowPassageTime(system, p, saddle.x, states[reached].x, samples, settings) });
+    }
+    if (failed) continue;
+    let [a, b] = found;
+    if (a.reached === b.reached) {
+      diagnostics.push({ level: 'warning', code: 'manifold-same-end', p,
+        message: `both branches of the unstable manifold of the saddle at [${saddle.x.map(fmt).join(', ')}] (${system.parameter} = ${fmt(p)}) reach the same stable state; the saddle is left out of the escape graph` });
+      continue;
+    }
+    const ta = countTipped(states[a.reached].pattern);
+    const tb = countTipped(states[b.reached].pattern);
+    if (tb < ta || (tb === ta && b.reached < a.reached)) [a, b] = [b, a];
+    edges.push({
+      x: saddle.x.slice(), pattern: pattern(saddle.x), from: a.reached, to: b.reached,
+      eigenvalue: saddle.unstableValue, direction: v.slice(), travelTimes: [a.time, b.time],
+    });
+    saddleData.push({ equilibrium: saddle, branches: [a, b] });
+  }
+  return { graph: { p, states, saddles: edges }, saddles: saddleData, diagnostics };
+}
+
+/**
+ * Slow passage of a manifold branch from saddle x_s to stable state x_T: the time it spends with
+ * speed |F(x)|_2 below slowSpeedFraction × its peak speed, leaving out the parts within slowExclusion
+ * × |x_T - x_s|_inf of either end (there every trajectory is slow). A trajectory that passes a ghost
+ * of a vanished equilibrium (a bottleneck after a saddle-node; Strogatz, Nonlinear Dynamics and
+ * Chaos, section 4.3) spends a long time there; a direct one gives about 0. Left-point sum over the
+ * dense-output samples.
+ */
+export function slowPassageTime(
+  system: CompiledSystem,
+  p: number,
+  xs: readonly number[],
+  xt: readonly number[],
+  samples: readonly { t: number; x: number[] }[],
+  settings: Pick<RegimeOptions, 'slowSpeedFraction' | 'slowExclusion'>,
+): number {
+  if (samples.length < 2) return 0;
+  const n = system.dimension;
+  const f = new Float64Array(n);
+  const span = maxDist(xs, xt);
+  const speeds = samples.map((s) => {
+    system.rates(Float64Array.from(s.x), p, f);
+    let q = 0;
+    for (let i = 0; i < n; i++) q += f[i] * f[i];
+    return Math.sqrt(q);
+  });
+  const peak = Math.max(...speeds);
+  let slow = 0;
+  for (let j = 0; j + 1 < samples.length; j++) {
+    const x = samples[j].x;
+    if (maxDist(x, xs) < settings.slowExclusion * span || maxDist(x, xt) < settings.slowExclusion * span) continue;
+    if (speeds[j] < settings.slowSpeedFraction * peak) slow += samples[j + 1].t - samples[j].t;
+  }
+  return slow;
+}
+
+export function maxDist(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let d = 0;
+  for (let i = 0; i < a.length; i++) d = Math.max(d, Math.abs(a[i] - b[i]));
+  return d;
+}
+
+function maxAbs(a: ArrayLike<number>): number {
+  let m = 0;
+  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i]));
+  return m;
+}

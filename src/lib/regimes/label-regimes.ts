@@ -1,0 +1,186 @@
+import type { CompiledSystem } from '../model/compiled-system';
+import type { Diagnostic, Diagram } from '../atlas/types';
+import type { EdgeKind, EscapeGraph, NodeState, Regime, RegimeBand, SaddleEdge, StartState } from './types';
+import { resolveOptions, type RegimeOptions } from './options';
+import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles';
+import { equilibriaAt } from './equilibria-at';
+import { buildEscapeGraph, type EscapeGraphResult } from './escape-graph';
+import { classifyEdge, type EdgeClassification } from './classify-edge';
+import { cutName, cutPoints } from './intervals';
+import { mergeBands, type IntervalLabel } from './merge-bands';
+import { isAll } from './pattern';
+import { listNames, patternWords } from './reason';
+
+export interface RegimeResult {
+  readonly regimes: RegimeBand[];
+  readonly escapeGraphs: EscapeGraph[];
+  readonly diagnostics: Diagnostic[];
+}
+
+const MAX_DIAGNOSTICS = 60;
+
+/**
+ * Coupling regimes along the diagram's parameter. The range [from, to] is cut at every special
+ * point of the diagram; at the midpoint of each interval the equilibria shown by the diagram are
+ * refined, the escape graph is built (buildEscapeGraph) and every edge out of each start state
+ * (all-base, and all-tipped when options.starts asks) is classified (classifyEdge). An interval is
+ * weak when every such edge is contained, strong when every one is synchronous, intermediate
+ * otherwise; adjacent intervals with the same label are merged (mergeBands). Intervals where the
+ * element roles are undefined, the start state is missing or no edge leaves it get no label and a
+ * diagnostic. Method and tolerances: docs/regimes.md.
+ */
+export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?: Partial<RegimeOptions>): RegimeResult {
+  const o = resolveOptions(options);
+  const diagnostics: Diagnostic[] = [];
+  const seen = new Set<string>();
+  const note = (d: Diagnostic) => {
+    const key = `${d.code}|${d.message}`;
+    if (seen.has(key)) return;
+    seen.add(key);
+    diagnostics.push(d);
+  };
+  const n = system.dimension;
+  const names = system.network?.nodeIds ?? system.variables;
+  const settings = diagram.settings ?? {};
+  const from = o.from ?? (typeof settings.from === 'number' ? settings.from : system.sweep.from);
+  const to = o.to ?? (typeof settings.to === 'number' ? settings.to : system.sweep.to);
+  const starts: StartState[] = o.starts.includes('all-base') ? ['all-base', ...o.starts.filter((s) => s !== 'all-base')] : [...o.starts];
+
+  if (!system.network && !o.roles) {
+    note({ level: 'error', code: 'regimes-undefined',
+      message: 'regimes undefined: the model is not a network of elements and no base, threshold and tipped roles were given' });
+    return { regimes: [], escapeGraphs: [], diagnostics };
+  }
+  const ranges = stateRanges(diagram, n);
+  const fixedRoles = o.roles !== undefined || system.network?.sweepIsCoupling === true;
+  let roles0: (NodeRoles | null)[] | null = null;
+  if (fixedRoles) {
+    const r = elementRoles(system, from, ranges, o.scanPoints, o.roles);
+    r.diagnostics.forEach(note);
+    if (r.roles.some((x) => x === null)) return { regimes: [], escapeGraphs: [], diagnostics };
+    roles0 = r.roles;
+  }
+
+  const cuts = cutPoints(diagram, from, to);
+  const labels = new Map<StartState, IntervalLabel[]>(starts.map((s) => [s, []]));
+  const escapeGraphs: EscapeGraph[] = [];
+  for (let k = 0; k + 1 < cuts.length; k++) {
+    const a = cuts[k];
+    const b = cuts[k + 1];
+    if (b.p - a.p < o.minimumInterval) continue;
+    const p = 0.5 * (a.p + b.p);
+    const unlabelled = (reason: string) => {
+      for (const s of starts) labels.get(s)!.push({ from: a.p, to: b.p, fromBound: cutName(a), toBound: cutName(b), regime: null, reason, start: s });
+    };
+    let roles = roles0;
+    if (!roles) {
+      const r = elementRoles(system, p, ranges, o.scanPoints, o.roles);
+      r.diagnostics.forEach(note);
+      roles = r.roles;
+    }
+    if (roles.some((x) => x === null)) { unlabelled('regimes undefined'); continue; }
+    const nodeRoles = roles as NodeRoles[];
+    const eq = equilibriaAt(system, diagram, p, o);
+    eq.diagnostics.forEach(note);
+    const g = buildEscapeGraph(system, p, eq.equilibria, nodeRoles, o);
+    g.diagnostics.forEach(note);
+    const edges: SaddleEdge[] = g.graph.saddles.map((e) => ({ ...e }));
+    for (const start of starts) {
+      const lab = labelInterval(system, p, g, edges, nodeRoles, names, start, o, note);
+      labels.get(start)!.push({ from: a.p, to: b.p, fromBound: cutName(a), toBound: cutName(b), regime: lab.regime, reason: lab.reason, start });
+    }
+    escapeGraphs.push({ p, states: g.graph.states, saddles: edges });
+  }
+  const regimes = starts.flatMap((s) => mergeBands(labels.get(s)!));
+  if (diagnostics.length > MAX_DIAGNOSTICS) {
+    const extra = diagnostics.length - MAX_DIAGNOSTICS;
+    diagnostics.length = MAX_DIAGNOSTICS;
+    diagnostics.push({ level: 'info', code: 'diagnostics-truncated', message: `${extra} further diagnostics were left out` });
+  }
+  return { regimes, escapeGraphs, diagnostics };
+}
+
+/** Mirror x -> -x: turns the all-tipped start into an all-base one for classifyEdge. */
+function mirrorRoles(roles: readonly NodeRoles[]): NodeRoles[] {
+  return roles.map((r) => ({ base: -r.tipped, threshold: -r.threshold, tipped: -r.base }));
+}
+const flip = (p: readonly NodeState[]): NodeState[] => p.map((s) => (s === 'base' ? 'tipped' : 'base'));
+
+function labelInterval(
+  system: CompiledSystem,
+  p: number,
+  g: EscapeGraphResult,
+  edges: SaddleEdge[],
+  roles: NodeRoles[],
+  names: readonly string[],
+  start: StartState,
+  o: RegimeOptions,
+  note: (d: Diagnostic) => void,
+): { regime: Regime | null; reason: string } {
+  const recovery = start === 'all-tipped';
+  const startLevel: NodeState = recovery ? 'tipped' : 'base';
+  const states = g.graph.states;
+  const s0 = states.findIndex((s) => isAll(s.pattern, startLevel));
+  if (s0 < 0) {
+    note({ level: 'warning', code: 'no-start-state', p,
+      message: `no stable ${start} state at ${system.parameter} = ${fmt(p)}; the interval is not labelled for ${start}` });
+    return { regime: null, reason: `no stable ${start} state` };
+  }
+  const frameRoles = recovery ? mirrorRoles(roles) : roles;
+  const found: { edge: number; cls: EdgeClassification; target: number }[] = [];
+  edges.forEach((e, i) => {
+    if (e.from !== s0 && e.to !== s0) return;
+    const target = e.from === s0 ? e.to : e.from;
+    const tp = states[target].pattern;
+    const frameTarget = recovery ? flip(tp) : tp;
+    const x = recovery ? e.x.map((c) => -c) : e.x;
+    const v = recovery ? e.direction!.map((c) => -c) : e.direction!;
+    const cls = classifyEdge(x, v, frameTarget, frameRoles, o);
+    found.push({ edge: i, cls, target });
+    const branch = g.saddles[i].branches[e.from === s0 ? 1 : 0];
+    if (recovery) edges[i] = { ...edges[i], kinds: { ...(edges[i].kinds ?? {}), [start]: cls.kind } };
+    else edges[i] = { ...edges[i], kind: cls.kind, ...(cls.kind === 'cascading' ? { slowPassage: branch.slowTime } : {}) };
+  });
+  if (found.length === 0) {
+    note({ level: 'warning', code: 'no-escape-route', p,
+      message: `no index-1 saddle leads out of the ${start} state at ${system.parameter} = ${fmt(p)}; the interval is not labelled for ${start}` });
+    return { regime: null, reason: `no way out of ${start} found` };
+  }
+  const kinds = found.map((f) => f.cls.kind);
+  const regime: Regime = kinds.every((k) => k === 'contained') ? 'weak' : kinds.every((k) => k === 'synchronous') ? 'strong' : 'intermediate';
+  return { regime, reason: reasonFor(regime, found, states.map((s) => s.pattern), names, recovery) };
+}
+
+function reasonFor(
+  regime: Regime,
+  found: { cls: EdgeClassification; target: number }[],
+  patterns: NodeState[][],
+  names: readonly string[],
+  recovery: boolean,
+): string {
+  const startName = recovery ? 'all-tipped' : 'all-base';
+  const partial = recovery ? 'partially recovered' : 'partially tipped';
+  const verb = recovery ? 'recovering' : 'tipping';
+  const verbPlural = recovery ? 'recover' : 'tip';
+  const by = (kind: EdgeKind) => found.filter((f) => f.cls.kind === kind);
+  const uniq = (xs: string[]) => [...new Set(xs)];
+  const contained = uniq(by('contained').map((f) => patternWords(patterns[f.target], names)));
+  const containedText = `stable ${partial} state${contained.length > 1 ? 's' : ''} reached from ${startName}: ${contained.join('; ')}`;
+  const sync = uniq(by('synchronous').map((f) => listNames(f.cls.tipping.map((i) => names[i]))));
+  const syncText = `${sync.map((s) => `${s} ${verbPlural} together`).join('; ')} (saddle with every such node near its threshold, moving in step)`;
+  if (regime === 'weak') return containedText;
+  if (regime === 'strong') return `every way out of ${startName} is synchronous: ${syncText}`;
+  const cascades = uniq(by('cascading').map((f) => {
+    const target = patternWords(patterns[f.target], names);
+    if (f.cls.committed.length > 0) {
+      const leaders = f.cls.tipping.filter((i) => !f.cls.committed.includes(i)).map((i) => names[i]);
+      const lead = leaders.length > 0 ? listNames(leaders) : listNames(f.cls.engaged.map((i) => names[i]));
+      return `${lead} ${verb} first commits ${listNames(f.cls.committed.map((i) => names[i]))}, reaching ${target}`;
+    }
+    return `${listNames(f.cls.tipping.map((i) => names[i]))} ${verbPlural} one after another, not together, reaching ${target}`;
+  }));
+  const parts = [`cascade from ${startName}: ${cascades.join('; or ')}`];
+  if (contained.length > 0) parts.push(`still contained: ${contained.join('; ')}`);
+  if (sync.length > 0) parts.push(`also synchronous: ${syncText}`);
+  return parts.join('; ');
+}

@@ -1,0 +1,46 @@
+import type { Regime, RegimeBand, StartState } from './types';
+
+/** The label of one interval between consecutive cuts; regime null when it could not be labelled. */
+export interface IntervalLabel {
+  readonly from: number;
+  readonly to: number;
+  readonly fromBound: string;
+  readonly toBound: string;
+  readonly regime: Regime | null;
+  readonly reason: string;
+  readonly start: StartState;
+}
+
+/**
+ * Bands from interval labels (in increasing p): adjacent intervals of the same start with the same
+ * regime become one band from the first interval's lower edge to the last one's upper edge; bounds
+ * are the cut types at those two edges. Unlabelled intervals end a band and give none. Distinct
+ * reasons of the merged intervals are kept in order, joined by '; then '.
+ */
+export function mergeBands(labels: readonly IntervalLabel[]): RegimeBand[] {
+  const bands: RegimeBand[] = [];
+  let cur: { from: number; to: number; fromBound: string; toBound: string; regime: Regime; reasons: string[]; start: StartState } | null = null;
+  const flush = () => {
+    if (!cur) return;
+    const band: RegimeBand = {
+      from: cur.from, to: cur.to, regime: cur.regime, bounds: [cur.fromBound, cur.toBound],
+      reason: cur.reasons.join('; then '),
+      ...(cur.start === 'all-base' ? {} : { start: cur.start }),
+    };
+    bands.push(band);
+    cur = null;
+  };
+  for (const l of labels) {
+    if (l.regime === null) { flush(); continue; }
+    if (cur && cur.regime === l.regime && cur.start === l.start && cur.to === l.from) {
+      cur.to = l.to;
+      cur.toBound = l.toBound;
+      if (!cur.reasons.includes(l.reason)) cur.reasons.push(l.reason);
+    } else {
+      flush();
+      cur = { from: l.from, to: l.to, fromBound: l.fromBound, toBound: l.toBound, regime: l.regime, reasons: [l.reason], start: l.start };
+    }
+  }
+  flush();
+  return bands;
+}

@@ -1,0 +1,76 @@
+import type { StartState } from './types';
+
+/** Per-node roles given by the model instead of being derived from the uncoupled element. */
+export interface GivenRoles { readonly base: number; readonly threshold: number; readonly tipped: number }
+
+/**
+ * Settings of the regime analysis. Every tolerance is listed with its reason in docs/regimes.md.
+ * State-space distances are scaled by (1 + |x|) unless said otherwise.
+ */
+export interface RegimeOptions {
+  /** Analysed parameter range; defaults to the diagram's settings.from/to, else the model's sweep. */
+  readonly from?: number;
+  readonly to?: number;
+  /** Start states whose ways out are labelled. 'all-base' (tipping) always comes first. */
+  readonly starts: readonly StartState[];
+  /** Roles per node, overriding the uncoupled-element analysis (for elements of other shapes). */
+  readonly roles?: readonly GivenRoles[];
+  /** Grid points used to bracket the roots of each uncoupled element. */
+  readonly scanPoints: number;
+  /** Newton's method at fixed p: iteration cap and residual tolerance (max norm of F). */
+  readonly newtonMaxIterations: number;
+  readonly newtonTolerance: number;
+  /** Two equilibria closer than this (max norm, relative) are one. */
+  readonly duplicateTolerance: number;
+  /** Eigenvalues with |Re| below this count as zero: the equilibrium is not hyperbolic. */
+  readonly hyperbolicTolerance: number;
+  /** Initial offset along the unstable eigenvector, relative to 1 + |x_saddle|. */
+  readonly manifoldOffset: number;
+  /** ODE integration (Hairer's GBS extrapolation code, package odex). */
+  readonly relativeTolerance: number;
+  readonly absoluteTolerance: number;
+  readonly timeCap: number;
+  readonly maxSteps: number;
+  /** A trajectory leaving the box |x_i| <= stateBound has escaped. */
+  readonly stateBound: number;
+  /** Arrival ball around a stable state: this fraction of its distance to the nearest other equilibrium ... */
+  readonly arrivalFraction: number;
+  /** ... but never more than this (relative). */
+  readonly arrivalRadius: number;
+  /** Progress (0 at base, 1 at threshold) from which a node counts as engaged at a saddle. */
+  readonly engagedProgress: number;
+  /** Synchronous edges: smallest allowed ratio of eigenvector components on tipping nodes. */
+  readonly comparableRatio: number;
+  /** Slow passage: speed below this fraction of the trajectory's peak speed counts as slow. */
+  readonly slowSpeedFraction: number;
+  /** Slow passage: the first and last parts of the trajectory, as fractions of the saddle–target distance, are left out. */
+  readonly slowExclusion: number;
+  /** Intervals narrower than this (absolute in p) are not analysed. */
+  readonly minimumInterval: number;
+}
+
+export const defaultRegimeOptions: RegimeOptions = {
+  starts: ['all-base'],
+  scanPoints: 4001,
+  newtonMaxIterations: 40,
+  newtonTolerance: 1e-12,
+  duplicateTolerance: 1e-7,
+  hyperbolicTolerance: 1e-9,
+  manifoldOffset: 1e-6,
+  relativeTolerance: 1e-10,
+  absoluteTolerance: 1e-12,
+  timeCap: 1e6,
+  maxSteps: 200_000,
+  stateBound: 1e6,
+  arrivalFraction: 0.25,
+  arrivalRadius: 1e-4,
+  engagedProgress: 0.5,
+  comparableRatio: 1 / 3,
+  slowSpeedFraction: 0.1,
+  slowExclusion: 0.1,
+  minimumInterval: 1e-12,
+};
+
+export function resolveOptions(options: Partial<RegimeOptions> | undefined): RegimeOptions {
+  return { ...defaultRegimeOptions, ...(options ?? {}) };
+}
