@@ -52,25 +52,34 @@ bm_load_env() {
   done <"$file"
 }
 
-# Processes started by this script, stopped in reverse order by bm_stop_all.
+# Processes started by this script (each in its own process group), stopped in reverse order.
 BM_PIDS=()
 BM_DB_NAMES=()
 
-bm_track() { BM_PIDS+=("$1"); }
+# bm_spawn LOGFILE CMD...: starts CMD in the background in its own session/process group, so that
+# stopping it also stops whatever it spawned; LOGFILE "-" keeps output on the terminal.
+bm_spawn() {
+  local log="$1"; shift
+  if command -v setsid >/dev/null 2>&1; then
+    if [ "$log" = "-" ]; then setsid "$@" & else setsid "$@" >>"$log" 2>&1 & fi
+  else
+    if [ "$log" = "-" ]; then "$@" & else "$@" >>"$log" 2>&1 & fi
+  fi
+  BM_LAST_PID=$!
+  BM_PIDS+=("$BM_LAST_PID")
+}
 
 bm_stop_all() {
-  local i pid
+  local i pid n name
   for ((i=${#BM_PIDS[@]}-1; i>=0; i--)); do
     pid="${BM_PIDS[$i]}"
-    if kill -0 "$pid" 2>/dev/null; then
-      kill -TERM "$pid" 2>/dev/null || true
-    fi
+    kill -TERM -- "-$pid" 2>/dev/null || kill -TERM "$pid" 2>/dev/null || true
   done
   for ((i=${#BM_PIDS[@]}-1; i>=0; i--)); do
     pid="${BM_PIDS[$i]}"
-    local n=0
+    n=0
     while kill -0 "$pid" 2>/dev/null && [ $n -lt 40 ]; do sleep 0.25; n=$((n+1)); done
-    kill -KILL "$pid" 2>/dev/null || true
+    kill -KILL -- "-$pid" 2>/dev/null || kill -KILL "$pid" 2>/dev/null || true
   done
   BM_PIDS=()
   for name in "${BM_DB_NAMES[@]}"; do

@@ -107,7 +107,9 @@ mariadb_start() {
   fi
   local as_user=()
   [ "$(id -u)" -eq 0 ] && as_user=(--user=root)
-  "$MARIADBD" --no-defaults "${as_user[@]}" --datadir="$DB_DATADIR" --socket="$DB_SOCKET_PATH" \
+  local detach=()
+  command -v setsid >/dev/null 2>&1 && detach=(setsid)
+  "${detach[@]}" "$MARIADBD" --no-defaults "${as_user[@]}" --datadir="$DB_DATADIR" --socket="$DB_SOCKET_PATH" \
     --port="$port" --bind-address=127.0.0.1 --pid-file="$DB_PIDFILE" --log-error="$DB_LOGFILE" \
     --character-set-server=utf8mb4 --collation-server=utf8mb4_unicode_ci \
     --default-storage-engine=InnoDB --innodb-buffer-pool-size=64M --max-connections=200 \
