@@ -1,0 +1,55 @@
+/**
+ * The whole computation behind a trace run, from stored document text to the JSON text that is
+ * stored as the result: compile, trace the diagram, label the coupling regimes. No database and no
+ * I/O, so the worker thread, the demo seed and tests all run exactly this.
+ */
+import { compileModelJson } from '../../model/index.ts';
+import { traceDiagram } from '../../atlas/index.ts';
+import { labelRegimes } from '../../regimes/index.ts';
+import type { Diagram } from '../../atlas/types.ts';
+import type { RunSettings } from './schemas.ts';
+
+export interface ComputeHooks {
+  /** fraction in 0..1 of the whole run, and a short phrase saying what is being done. */
+  onProgress(fraction: number, phrase: string): void;
+  isCancelled(): boolean;
+}
+
+export interface ComputeOutput {
+  readonly diagramJson: string;
+  readonly regimesJson: string;
+  readonly branchCount: number;
+  readonly pointCount: number;
+  readonly specialPointCount: number;
+  readonly computeMs: number;
+  readonly cancelled: boolean;
+}
+
+/** Share of the progress bar given to tracing; the rest is regime labelling. */
+const TRACE_SHARE = 0.8;
+
+export function computeTrace(documentText: string, settings: RunSettings, hooks: ComputeHooks): ComputeOutput {
+  const started = performance.now();
+  hooks.onProgress(0, 'compiling the model');
+  const system = compileModelJson(JSON.parse(documentText));
+  const diagram: Diagram = traceDiagram(system, { ...settings }, {
+    onProgress: (f: number, phrase: string) => hooks.onProgress(TRACE_SHARE * Math.min(1, Math.max(0, f)), phrase),
+    isCancelled: () => hooks.isCancelled(),
+  });
+  let regimes: unknown = { regimes: [], escapeGraphs: [], diagnostics: [] };
+  if (!hooks.isCancelled()) {
+    hooks.onProgress(TRACE_SHARE, 'labelling coupling regimes');
+    regimes = labelRegimes(system, diagram);
+  }
+  const pointCount = diagram.branches.reduce((n, b) => n + b.points.length, 0);
+  hooks.onProgress(1, 'storing the result');
+  return {
+    diagramJson: JSON.stringify(diagram),
+    regimesJson: JSON.stringify(regimes),
+    branchCount: diagram.branches.length,
+    pointCount,
+    specialPointCount: diagram.bifurcations.length,
+    computeMs: Math.round(performance.now() - started),
+    cancelled: hooks.isCancelled(),
+  };
+}

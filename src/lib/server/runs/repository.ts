@@ -1,0 +1,194 @@
+/**
+ * Runs as the API and the pages see them: start (queue, or reuse a stored result), list, read,
+ * cancel. The worker side of the queue (claim, heartbeat, complete) is in ./queue.ts.
+ */
+import type { Knex } from 'knex';
+import { db } from '../db.ts';
+import { ENGINE_VERSION } from '../../atlas/engine-version.ts';
+import { recordAudit } from '../models/audit.ts';
+import { requireVersion } from '../models/repository.ts';
+import { conflict, notFound } from '../models/service-error.ts';
+import { resultCacheKey } from './cache-key.ts';
+import type { ListRunsQuery, RunSettings, RunStatus } from './schemas.ts';
+
+export interface RunInfo {
+  id: number;
+  modelId: number;
+  modelName: string;
+  versionId: number;
+  versionNumber: number;
+  versionHash: string;
+  kind: string;
+  settings: RunSettings;
+  status: RunStatus;
+  progress: number;
+  phrase: string;
+  createdBy: string | null;
+  createdByName: string | null;
+  notify: boolean;
+  attempts: number;
+  maxAttempts: number;
+  engineVersion: string;
+  resultId: number | null;
+  reused: boolean;
+  error: { code: string; message: string; [k: string]: unknown } | null;
+  queuedAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+  heartbeatAt: string | null;
+}
+
+type Row = Record<string, any>;
+const iso = (d: Date | string | null): string | null => (d === null || d === undefined ? null : new Date(d).toISOString());
+const parseJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v ?? null);
+
+export function toRunInfo(r: Row): RunInfo {
+  return {
+    id: r.id,
+    modelId: r.model_id,
+    modelName: r.model_name,
+    versionId: r.model_version_id,
+    versionNumber: r.version_number,
+    versionHash: r.version_hash,
+    kind: r.kind,
+    settings: parseJson(r.settings) ?? {},
+    status: r.status,
+    progress: Number(r.progress),
+    phrase: r.phrase,
+    createdBy: r.created_by,
+    createdByName: r.created_by_name ?? null,
+    notify: Boolean(r.notify),
+    attempts: r.attempts,
+    maxAttempts: r.max_attempts,
+    engineVersion: r.engine_version,
+    resultId: r.result_id,
+    reused: Boolean(r.reused),
+    error: parseJson(r.error),
+    queuedAt: iso(r.queued_at)!,
+    startedAt: iso(r.started_at),
+    finishedAt: iso(r.finished_at),
+    heartbeatAt: iso(r.heartbeat_at),
+  };
+}
+
+export function runQuery(k: Knex, workspaceId: string) {
+  return k('runs as r')
+    .join('model_versions as v', 'v.id', 'r.model_version_id')
+    .join('models as m', 'm.id', 'r.model_id')
+    .leftJoin('users as u', 'u.id', 'r.created_by')
+    .where('r.workspace_id', workspaceId)
+    .select('r.*', 'v.number as version_number', 'v.hash as version_hash', 'm.name as model_name', 'u.display_name as created_by_name');
+}
+
+export async function getRun(workspaceId: string, runId: number, k: Knex = db): Promise<RunInfo | null> {
+  if (!Number.isSafeInteger(runId)) return null;
+  const row = await runQuery(k, workspaceId).andWhere('r.id', runId).first();
+  return row ? toRunInfo(row) : null;
+}
+
+export async function requireRun(workspaceId: string, runId: number, k: Knex = db): Promise<RunInfo> {
+  const run = await getRun(workspaceId, runId, k);
+  if (!run) throw notFound('run');
+  return run;
+}
+
+export async function listRuns(
+  workspaceId: string,
+  query: Partial<ListRunsQuery> = {},
+): Promise<{ items: RunInfo[]; total: number; page: number; pageSize: number }> {
+  const page = query.page ?? 1;
+  const pageSize = query.pageSize ?? 20;
+  const filter = (qb: Knex.QueryBuilder) => {
+    if (query.modelId !== undefined) qb.andWhere('r.model_id', query.modelId);
+    if (query.status !== undefined) qb.andWhere('r.status', query.status);
+    return qb;
+  };
+  const [{ total }] = await filter(db('runs as r').where('r.workspace_id', workspaceId)).count({ total: '*' });
+  const rows = await filter(runQuery(db, workspaceId)).orderBy('r.id', 'desc').limit(pageSize).offset((page - 1) * pageSize);
+  return { items: rows.map(toRunInfo), total: Number(total), page, pageSize };
+}
+
+export interface StartRunInput {
+  modelId: number;
+  version?: number;
+  kind?: 'trace';
+  settings: RunSettings;
+  notify: boolean;
+  /** Worker queue name; the API always uses 'default' (tests and deployments may route elsewhere). */
+  queue?: string;
+  maxAttempts?: number;
+}
+
+/**
+ * Queues a run of one model version. When a result with the same (version hash, settings, engine
+ * version) is already stored, the run is created finished and points at that result: no recompute.
+ */
+export async function startRun(workspaceId: string, actorId: string | null, input: StartRunInput): Promise<RunInfo> {
+  const version = await requireVersion(workspaceId, input.modelId, input.version ?? 'latest');
+  const settings = input.settings;
+  const cacheKey = resultCacheKey(version.hash, settings, ENGINE_VERSION);
+  const runId = await db.transaction(async (trx) => {
+    const model = await trx('models').where({ id: input.modelId, workspace_id: workspaceId }).first();
+    if (!model) throw notFound('model');
+    if (model.archived_at) throw conflict('model is archived; unarchive it before starting runs');
+    const stored = await trx('results').where({ cache_key: cacheKey }).first('id');
+    const base = {
+      workspace_id: workspaceId,
+      model_id: input.modelId,
+      model_version_id: version.id,
+      kind: input.kind ?? 'trace',
+      settings: JSON.stringify(settings),
+      cache_key: cacheKey,
+      queue: input.queue ?? 'default',
+      created_by: actorId,
+      notify: input.notify,
+      max_attempts: input.maxAttempts ?? 3,
+      engine_version: ENGINE_VERSION,
+    };
+    const [id] = await trx('runs').insert(stored
+      ? { ...base, status: 'done', progress: 1, phrase: 'reused a stored result of identical inputs', result_id: stored.id, reused: true,
+          started_at: trx.raw('CURRENT_TIMESTAMP(3)'), finished_at: trx.raw('CURRENT_TIMESTAMP(3)') }
+      : { ...base, status: 'queued', phrase: 'waiting for a worker' });
+    await recordAudit(trx, { workspaceId, actorId, action: 'run.start', targetType: 'run', targetId: id,
+      details: { modelId: input.modelId, version: version.number, reusedResult: stored?.id ?? null } });
+    return id as number;
+  });
+  return (await getRun(workspaceId, runId))!;
+}
+
+/**
+ * Cancels a queued or running run. A running run is marked cancelled at once; its worker sees the
+ * status change at its next heartbeat, stops the computation and stores nothing.
+ */
+export async function cancelRun(workspaceId: string, actorId: string, runId: number): Promise<RunInfo> {
+  await db.transaction(async (trx) => {
+    const run = await trx('runs').where({ id: runId, workspace_id: workspaceId }).forUpdate().first();
+    if (!run) throw notFound('run');
+    if (run.status !== 'queued' && run.status !== 'running') throw conflict(`run is already ${run.status}`);
+    await trx('runs').where({ id: runId }).update({
+      status: 'cancelled', cancel_requested: true, phrase: 'cancelled', lease_owner: null, lease_expires_at: null,
+      finished_at: trx.raw('CURRENT_TIMESTAMP(3)'),
+    });
+    await recordAudit(trx, { workspaceId, actorId, action: 'run.cancel', targetType: 'run', targetId: runId, details: { was: run.status } });
+  });
+  return (await getRun(workspaceId, runId))!;
+}
+
+/** The fields a progress poll or event stream needs, in one cheap query. */
+export async function getRunProgress(workspaceId: string, runId: number) {
+  if (!Number.isSafeInteger(runId)) return null;
+  const r = await db('runs').where({ id: runId, workspace_id: workspaceId })
+    .first('id', 'status', 'progress', 'phrase', 'error', 'result_id', 'attempts', 'heartbeat_at', 'finished_at');
+  if (!r) return null;
+  return {
+    id: r.id as number,
+    status: r.status as RunStatus,
+    progress: Number(r.progress),
+    phrase: r.phrase as string,
+    error: parseJson(r.error),
+    resultId: r.result_id as number | null,
+    attempts: r.attempts as number,
+    heartbeatAt: iso(r.heartbeat_at),
+    finishedAt: iso(r.finished_at),
+  };
+}

@@ -1,0 +1,54 @@
+import { z } from 'zod';
+
+const finite = z.number().finite('must be a finite number');
+
+/**
+ * Settings a person may give a trace run, a subset of the engine's TraceSettings under the same
+ * names (src/lib/atlas/trace-settings.ts). Everything is optional: the model document's sweep range
+ * and the engine's defaults apply otherwise. The settings are part of the result's identity, so
+ * they are kept small and explicit (no free-form keys).
+ */
+export const runSettingsSchema = z.object({
+  from: finite.optional(),
+  to: finite.optional(),
+  /** Cap on points per branch (engine default 20000). */
+  maxPointsPerBranch: z.number().int().min(10, 'at least 10').max(100000, 'at most 100000').optional(),
+  /** Pseudo-arclength steps as fractions of the sweep width (engine defaults 2e-3, 1e-9, 2e-2). */
+  initialStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
+  minStep: z.number().positive('must be positive').max(0.1, 'at most 0.1').optional(),
+  maxStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
+  /** Largest parameter change per step, fraction of the sweep width (engine default 1/600). */
+  maxParameterStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
+}).strict().superRefine((s, ctx) => {
+  if (s.from !== undefined && s.to !== undefined && s.from === s.to) {
+    ctx.addIssue({ code: 'custom', path: ['to'], message: 'must differ from settings.from' });
+  }
+  if (s.minStep !== undefined && s.maxStep !== undefined && s.minStep > s.maxStep) {
+    ctx.addIssue({ code: 'custom', path: ['minStep'], message: 'must not exceed settings.maxStep' });
+  }
+});
+
+export type RunSettings = z.infer<typeof runSettingsSchema>;
+
+export const startRunSchema = z.object({
+  modelId: z.number().int().positive(),
+  /** Version number within the model; the latest when absent. */
+  version: z.number().int().positive().optional(),
+  kind: z.literal('trace').default('trace'),
+  settings: runSettingsSchema.default({}),
+  /** Send the person who started the run an e-mail when it finishes or fails. */
+  notify: z.boolean().default(false),
+}).strict();
+
+export const RUN_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+export type RunStatus = (typeof RUN_STATUSES)[number];
+export const TERMINAL_STATUSES: readonly RunStatus[] = ['done', 'failed', 'cancelled'];
+
+export const listRunsQuerySchema = z.object({
+  modelId: z.coerce.number().int().positive().optional(),
+  status: z.enum(RUN_STATUSES).optional(),
+  page: z.coerce.number().int().min(1).max(100000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(20),
+}).strict();
+
+export type ListRunsQuery = z.infer<typeof listRunsQuerySchema>;

@@ -1,0 +1,257 @@
+/**
+ * A worker process's loop: claim runs from the database queue, compute each in a piscina thread,
+ * keep the lease alive with progress heartbeats, store the result, repeat. Stateless: everything it
+ * knows about a run is in the runs row, so any number of these can share one database.
+ */
+import { hostname } from 'node:os';
+import { randomBytes } from 'node:crypto';
+import { MessageChannel } from 'node:worker_threads';
+import { Piscina } from 'piscina';
+import { ENGINE_VERSION } from '../lib/atlas/engine-version.ts';
+import {
+  claimRun, completeRun, failRun, findResultId, heartbeat, releaseRun, type ClaimedRun, type RunError,
+} from '../lib/server/runs/queue.ts';
+import type { ComputeOutput } from '../lib/server/runs/compute.ts';
+import type { ComputeTask, ProgressMessage, TaskResult } from './compute-task.ts';
+import { notifyRunFinished } from '../lib/server/runs/notify.ts';
+
+export interface WorkerOptions {
+  /** Queue name to take runs from. */
+  queue: string;
+  /** Runs computed at once (one thread each). */
+  concurrency: number;
+  /** How long a claim stays valid without a heartbeat. */
+  leaseMs: number;
+  /** Progress/lease write interval; must be well below leaseMs and at most 1000 for 1/s progress. */
+  heartbeatMs: number;
+  /** Idle wait between claim attempts when the queue is empty. */
+  pollMs: number;
+  /** Test-only: each computation waits this long first (makes kill and cancel tests deterministic). */
+  testDelayMs: number;
+  /** After cancellation, how long the thread gets to notice before it is terminated. */
+  cancelGraceMs: number;
+  log: (msg: string) => void;
+}
+
+function envInt(name: string, fallback: number): number {
+  const v = process.env[name];
+  if (v === undefined || v === '') return fallback;
+  const n = Number(v);
+  if (!Number.isFinite(n) || n < 0) throw new Error(`${name} must be a non-negative number, got "${v}"`);
+  return n;
+}
+
+export function workerOptionsFromEnv(): WorkerOptions {
+  const leaseMs = envInt('BRINKMAP_WORKER_LEASE_MS', 30_000);
+  return {
+    queue: process.env.BRINKMAP_WORKER_QUEUE || 'default',
+    concurrency: Math.max(1, envInt('BRINKMAP_WORKER_THREADS', 1)),
+    leaseMs,
+    heartbeatMs: Math.min(envInt('BRINKMAP_WORKER_HEARTBEAT_MS', 500), 1000, Math.floor(leaseMs / 3)),
+    pollMs: Math.max(20, envInt('BRINKMAP_WORKER_POLL_MS', 1000)),
+    testDelayMs: envInt('BRINKMAP_WORKER_TEST_DELAY_MS', 0),
+    cancelGraceMs: 2000,
+    log: (msg) => console.log(`[worker ${process.pid}] ${msg}`),
+  };
+}
+
+interface Active {
+  run: ClaimedRun;
+  cancelFlag: Int32Array;
+  abort: AbortController;
+  lost: boolean;
+}
+
+export class RunWorker {
+  readonly owner = `${hostname()}:${process.pid}:${randomBytes(4).toString('hex')}`;
+  private readonly pool: Piscina;
+  private readonly active = new Set<Active>();
+  private stopping = false;
+  private wake: (() => void) | null = null;
+  private loopDone: Promise<void> | null = null;
+
+  constructor(private readonly opts: WorkerOptions) {
+    this.pool = new Piscina({
+      filename: new URL('./compute-task.ts', import.meta.url).href,
+      minThreads: 0,
+      maxThreads: opts.concurrency,
+      idleTimeout: 60_000,
+      // Inherit `--import tsx` so the thread can load TypeScript.
+      execArgv: process.execArgv,
+    });
+  }
+
+  start(): void {
+    this.opts.log(`started as ${this.owner} on queue "${this.opts.queue}" (${this.opts.concurrency} thread(s), engine ${ENGINE_VERSION})`);
+    this.loopDone = this.loop();
+  }
+
+  /** Stops claiming, hands unfinished runs back to the queue, closes the thread pool. */
+  async stop(): Promise<void> {
+    if (this.stopping) return this.loopDone ?? undefined;
+    this.stopping = true;
+    this.wake?.();
+    for (const a of this.active) {
+      Atomics.store(a.cancelFlag, 0, 1);
+      Atomics.notify(a.cancelFlag, 0);
+      a.abort.abort();
+    }
+    await this.loopDone;
+    await this.pool.destroy();
+    this.opts.log('stopped');
+  }
+
+  private async sleep(ms: number): Promise<void> {
+    await new Promise<void>((resolve) => {
+      const t = setTimeout(() => { this.wake = null; resolve(); }, ms);
+      this.wake = () => { clearTimeout(t); this.wake = null; resolve(); };
+    });
+  }
+
+  private async loop(): Promise<void> {
+    const running = new Set<Promise<void>>();
+    while (!this.stopping) {
+      if (this.active.size >= this.opts.concurrency) {
+        await Promise.race(running);
+        continue;
+      }
+      let run: ClaimedRun | null = null;
+      try {
+        run = await claimRun(this.owner, this.opts.queue, this.opts.leaseMs);
+      } catch (e) {
+        this.opts.log(`claim failed (${(e as Error).message}); retrying`);
+      }
+      if (this.stopping) {
+        if (run) await releaseRun(run, this.owner).catch(() => undefined);
+        break;
+      }
+      if (!run) {
+        // Jitter keeps many idle workers from polling in lock-step.
+        await this.sleep(this.opts.pollMs * (0.75 + Math.random() * 0.5));
+        continue;
+      }
+      const p: Promise<void> = this.process(run).finally(() => running.delete(p));
+      running.add(p);
+    }
+    await Promise.allSettled([...running]);
+  }
+
+  private async process(run: ClaimedRun): Promise<void> {
+    const log = this.opts.log;
+    log(`run ${run.id}: claimed (attempt ${run.attempt})`);
+    const reuse = await findResultId(run.cacheKey).catch(() => null);
+    if (reuse !== null) {
+      const ok = await completeRun(run, this.owner, { reuse }, ENGINE_VERSION).catch(() => false);
+      log(`run ${run.id}: ${ok ? `reused stored result ${reuse}` : 'lost before reuse could be recorded'}`);
+      if (ok) await this.notify(run, 'done');
+      return;
+    }
+    const a: Active = {
+      run,
+      cancelFlag: new Int32Array(new SharedArrayBuffer(4)),
+      abort: new AbortController(),
+      lost: false,
+    };
+    this.active.add(a);
+    const { port1, port2 } = new MessageChannel();
+    let progress = { fraction: 0, phrase: 'starting' };
+    port1.on('message', (m: ProgressMessage) => { progress = m; });
+    port1.unref();
+
+    let beating = false;
+    const beat = async () => {
+      if (beating || a.lost) return;
+      beating = true;
+      try {
+        const ours = await heartbeat(run.id, this.owner, this.opts.leaseMs, progress.fraction, progress.phrase);
+        if (!ours) this.cancelThread(a, 'the run was cancelled or taken over');
+      } catch (e) {
+        log(`run ${run.id}: heartbeat failed (${(e as Error).message})`);
+      } finally {
+        beating = false;
+      }
+    };
+    const timer = setInterval(beat, this.opts.heartbeatMs);
+
+    let output: ComputeOutput | null = null;
+    let failure: unknown = null;
+    let deterministic = false;
+    try {
+      const task: ComputeTask = {
+        documentText: run.documentText,
+        settings: run.settings,
+        port: port2,
+        cancelFlag: a.cancelFlag.buffer as SharedArrayBuffer,
+        testDelayMs: this.opts.testDelayMs,
+      };
+      const result: TaskResult = await this.pool.run(task, { transferList: [port2], signal: a.abort.signal });
+      if ('failed' in result) {
+        failure = result.failed;
+        deterministic = result.failed.deterministic;
+      } else {
+        output = result;
+      }
+    } catch (e) {
+      failure = e;
+    } finally {
+      clearInterval(timer);
+      port1.close();
+      this.active.delete(a);
+    }
+
+    try {
+      if (this.stopping && (a.lost === false) && (output === null || output.cancelled)) {
+        await releaseRun(run, this.owner);
+        log(`run ${run.id}: handed back to the queue (worker stopping)`);
+        return;
+      }
+      if (a.lost || output?.cancelled) {
+        log(`run ${run.id}: stopped (cancelled or taken over); nothing stored`);
+        return;
+      }
+      if (output) {
+        const ok = await completeRun(run, this.owner, output, ENGINE_VERSION);
+        log(`run ${run.id}: ${ok ? `done (${output.branchCount} branches, ${output.pointCount} points, ${output.computeMs} ms)` : 'finished but no longer ours; discarded'}`);
+        if (ok) await this.notify(run, 'done');
+        return;
+      }
+      const error = describeFailure(failure);
+      const status = await failRun(run, this.owner, error, !deterministic);
+      log(`run ${run.id}: attempt failed (${error.message}); ${status === 'queued' ? 'queued for retry' : status === 'failed' ? 'ended failed' : 'no longer ours'}`);
+      if (status === 'failed') await this.notify(run, 'failed');
+    } catch (e) {
+      // The database went away while finishing: the lease will expire and another worker retries.
+      log(`run ${run.id}: could not record the outcome (${(e as Error).message}); the lease will lapse and the run be retried`);
+    }
+  }
+
+  private cancelThread(a: Active, why: string): void {
+    if (a.lost) return;
+    a.lost = true;
+    this.opts.log(`run ${a.run.id}: stopping the computation (${why})`);
+    Atomics.store(a.cancelFlag, 0, 1);
+    Atomics.notify(a.cancelFlag, 0);
+    // The engine polls isCancelled(); a thread that does not return in time is terminated.
+    setTimeout(() => a.abort.abort(), this.opts.cancelGraceMs).unref();
+  }
+
+  private async notify(run: ClaimedRun, status: 'done' | 'failed'): Promise<void> {
+    if (!run.notify || !run.createdBy) return;
+    try {
+      await notifyRunFinished(run.id, status);
+    } catch (e) {
+      this.opts.log(`run ${run.id}: e-mail notice failed (${(e as Error).message})`);
+    }
+  }
+}
+
+function describeFailure(e: unknown): RunError {
+  if (e && typeof e === 'object') {
+    const err = e as { name?: string; message?: string; code?: string; issues?: unknown; deterministic?: boolean };
+    if (typeof err.code === 'string' && typeof err.deterministic === 'boolean') {
+      return { code: err.code, message: err.message ?? 'computation failed', ...(err.issues ? { issues: err.issues } : {}) };
+    }
+    return { code: 'compute-error', message: `${err.name ?? 'Error'}: ${err.message ?? String(e)}`.slice(0, 500) };
+  }
+  return { code: 'compute-error', message: String(e).slice(0, 500) };
+}
