@@ -3,7 +3,7 @@ import { checkExpression } from './check-expression';
 import { compileFunction, emit } from './codegen';
 import { differentiate } from './differentiate';
 import { ModelError } from './errors';
-import { fold } from './fold';
+import { foldConstants } from './fold';
 import { num, renameSymbols, symbolsOf, type Expr } from './expr';
 import type { OdeDocument } from './schema';
 
@@ -16,7 +16,7 @@ export function internalTree(text: string, allowed: readonly string[], rename: (
   return renameSymbols(checked.expr, rename);
 }
 
-/** Replace symbols by numbers where `value` gives one, then fold constants. */
+/** Replace symbols by numbers where `value` gives one, then fold constant subtrees (IEEE-exact). */
 export function substitute(e: Expr, value: (name: string) => number | undefined): Expr {
   const walk = (x: Expr): Expr => {
     switch (x.kind) {
@@ -27,7 +27,7 @@ export function substitute(e: Expr, value: (name: string) => number | undefined)
       case 'bin': return { kind: 'bin', op: x.op, left: walk(x.left), right: walk(x.right) };
     }
   };
-  return fold(walk(e));
+  return foldConstants(walk(e));
 }
 
 /**

@@ -22,6 +22,20 @@ const isNum = (e: Expr, v?: number): e is Extract<Expr, { kind: 'num' }> =>
  * constants (e, pi); this fold never touches symbols.
  */
 export function fold(e: Expr): Expr {
+  return foldWith(e, false);
+}
+
+/**
+ * IEEE-exact folding for rate expressions: only subtrees made of numbers are evaluated (to the same
+ * double the generated code would compute); no neutral-element rules, so NaN, infinities and signed
+ * zeros propagate exactly as written.
+ */
+export function foldConstants(e: Expr): Expr {
+  return foldWith(e, true);
+}
+
+function foldWith(e: Expr, exact: boolean): Expr {
+  const fold = (x: Expr) => foldWith(x, exact);
   switch (e.kind) {
     case 'num': case 'sym': return e;
     case 'neg': {
@@ -45,6 +59,7 @@ export function fold(e: Expr): Expr {
         const v = applyBinary(e.op, l.value, r.value);
         if (Number.isFinite(v)) return num(v);
       }
+      if (exact) return bin(e.op, l, r);
       switch (e.op) {
         case '+':
           if (isNum(l, 0)) return r;
@@ -92,7 +107,7 @@ function applyBinary(op: '+' | '-' | '*' | '/' | '^', a: number, b: number): num
 function absOverSelf(l: Expr, r: Expr): Expr | null {
   if (l.kind === 'call' && l.fn === 'abs' && sameExpr(l.arg, r)) return call('sign', r);
   if (l.kind === 'bin' && l.op === '*' && l.right.kind === 'call' && l.right.fn === 'abs' && sameExpr(l.right.arg, r)) {
-    return fold(bin('*', l.left, call('sign', r)));
+    return foldWith(bin('*', l.left, call('sign', r)), false);
   }
   return null;
 }
