@@ -11,6 +11,8 @@ export interface EdgeClassification {
   readonly engaged: number[];
   /** Tipping nodes that were not engaged at the saddle: the ones committed by the others. */
   readonly committed: number[];
+  /** Progress of every node at the saddle (0 base, 1 threshold). */
+  readonly progress: number[];
   /** Why an all-tipped edge is not synchronous, in words (absent otherwise). */
   readonly notTogether?: string;
 }
@@ -45,7 +47,7 @@ export function classifyEdge(
   }
   const committed = tipping.filter((i) => s[i] < settings.engagedProgress);
   if (tipping.length < n) {
-    return { kind: committed.length === 0 ? 'contained' : 'cascading', tipping, engaged, committed };
+    return { kind: committed.length === 0 ? 'contained' : 'cascading', tipping, engaged, committed, progress: s };
   }
   const reasons: string[] = [];
   const nearBase = tipping.filter((i) => s[i] < settings.engagedProgress);
@@ -58,6 +60,6 @@ export function classifyEdge(
   const ratio = Math.min(...mags) / Math.max(...mags);
   if (!oneSign) reasons.push('mixed-sign');
   else if (!(ratio >= settings.comparableRatio)) reasons.push('uneven');
-  if (reasons.length === 0) return { kind: 'synchronous', tipping, engaged, committed: [] };
-  return { kind: 'cascading', tipping, engaged, committed, notTogether: reasons.join(',') };
+  if (reasons.length === 0) return { kind: 'synchronous', tipping, engaged, committed: [], progress: s };
+  return { kind: 'cascading', tipping, engaged, committed, progress: s, notTogether: reasons.join(',') };
 }

@@ -143,7 +143,7 @@ export function buildEscapeGraph(
  * × |x_T - x_s|_inf of either end (there every trajectory is slow). A trajectory that passes a ghost
  * of a vanished equilibrium (a bottleneck after a saddle-node; Strogatz, Nonlinear Dynamics and
  * Chaos, section 4.3) spends a long time there; a direct one gives about 0. Left-point sum over the
- * dense-output samples.
+ * integrator's step ends.
  */
 export function slowPassageTime(
   system: CompiledSystem,

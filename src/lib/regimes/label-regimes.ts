@@ -177,7 +177,8 @@ function reasonFor(
       const lead = leaders.length > 0 ? listNames(leaders) : listNames(f.cls.engaged.map((i) => names[i]));
       return `${lead} ${verb} first commits ${listNames(f.cls.committed.map((i) => names[i]))}, reaching ${target}`;
     }
-    return `${listNames(f.cls.tipping.map((i) => names[i]))} ${verbPlural} one after another, not together, reaching ${target}`;
+    const order = [...f.cls.tipping].sort((i, j) => f.cls.progress[j] - f.cls.progress[i]).map((i) => names[i]);
+    return `${listNames(order)} ${verbPlural} one after another, not together (${order[0]} furthest along at the saddle), reaching ${target}`;
   }));
   const parts = [`cascade from ${startName}: ${cascades.join('; or ')}`];
   if (contained.length > 0) parts.push(`still contained: ${contained.join('; ')}`);
