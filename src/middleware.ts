@@ -9,7 +9,7 @@ import { clientAddress } from './lib/server/auth/client-address.ts';
 import { listMemberships } from './lib/server/workspaces/repository.ts';
 import { jsonError } from './lib/server/http.ts';
 
-export const WORKSPACE_COOKIE = 'bm_workspace';
+import { WORKSPACE_COOKIE } from './lib/server/workspaces/cookie.ts';
 
 const PUBLIC_PAGES = [/^\/sign-in\/?$/, /^\/sign-up\/?$/, /^\/invitations\/[^/]+\/?$/, /^\/favicon\.(svg|ico)$/, /^\/_astro\//, /^\/fonts\//];
 const PUBLIC_API = [/^\/api\/auth\/sign-in\/?$/, /^\/api\/auth\/sign-up\/?$/, /^\/api\/health\/?$/];

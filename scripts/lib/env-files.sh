@@ -22,7 +22,7 @@ bm_write_dev_env() {
 }
 
 bm_write_test_env() {
-  local f="$BM_REPO_ROOT/.env.test"
+  local f="$BM_REPO_ROOT/.env.${TEST_DATA_NAME:-test}"
   cat >"$f" <<ENV
 # Written by scripts/test.sh / scripts/db.sh on every run; vitest.config.ts loads it.
 DB_HOST=127.0.0.1
@@ -33,7 +33,7 @@ DB_NAME=brinkmap_test
 HOST=127.0.0.1
 PORT=${TEST_APP_PORT:-4322}
 PUBLIC_ORIGIN=http://127.0.0.1:${TEST_APP_PORT:-4322}
-BASE_URL=http://127.0.0.1:${TEST_APP_PORT:-4322}
+TEST_BASE_URL=http://127.0.0.1:${TEST_APP_PORT:-4322}
 FAKE_SMTP_PORT=${TEST_SMTP_PORT:-2526}
 SMTP_URL=smtp://127.0.0.1:${TEST_SMTP_PORT:-2526}
 MAIL_FROM=Brinkmap Test <no-reply@brinkmap.invalid>

@@ -12,7 +12,7 @@ import { randomBytes } from 'node:crypto';
 import { db } from '../../src/lib/server/db.ts';
 import type { Role } from '../../src/lib/server/auth/roles.ts';
 
-export const BASE_URL = (process.env.BASE_URL ?? 'http://127.0.0.1:4322').replace(/\/$/, '');
+export const BASE_URL = (process.env.TEST_BASE_URL ?? 'http://127.0.0.1:4322').replace(/\/$/, '');
 export { db };
 
 export interface HttpResult<T = any> {
