@@ -26,7 +26,7 @@ export interface EscapeGraphResult {
 }
 
 type GraphSettings = Pick<RegimeOptions,
-  'manifoldOffset' | 'relativeTolerance' | 'absoluteTolerance' | 'timeCap' | 'maxSteps' | 'stateBound' |
+  'manifoldOffset' | 'settledSpeed' | 'relativeTolerance' | 'absoluteTolerance' | 'timeCap' | 'maxSteps' | 'stateBound' |
   'arrivalFraction' | 'arrivalRadius' | 'slowSpeedFraction' | 'slowExclusion' |
   'newtonTolerance' | 'newtonMaxIterations' | 'duplicateTolerance' | 'hyperbolicTolerance'>;
 
@@ -36,8 +36,8 @@ type GraphSettings = Pick<RegimeOptions,
  * unstable-manifold branches both reach a stable state. Each branch is integrated forward from
  * x_s ± manifoldOffset (1 + |x_s|_inf) v (v the unit unstable eigenvector) until it enters the arrival
  * ball of a stable state: radius min(arrivalRadius (1 + |x_k|_inf), arrivalFraction × distance from x_k
- * to the nearest other equilibrium), max norm. A branch that stops elsewhere (time or step cap) is
- * polished by Newton's method; if it lands on a stable equilibrium not yet known, that state is added
+ * to the nearest other equilibrium), max norm. A branch that settles elsewhere (max|F| < settledSpeed
+ * farther than 100 offsets from the saddle) or stops at the time or step cap is polished by Newton's method; if it lands on a stable equilibrium not yet known, that state is added
  * with a warning, otherwise the saddle is left out with a "manifold-unresolved" diagnostic.
  * `from` is the end with fewer tipped nodes (ties: lower index). Patterns use `roles`; without roles
  * every node counts as base.
@@ -83,14 +83,20 @@ export function buildEscapeGraph(
       const x0 = saddle.x.map((c, i) => c + sign * step * v[i]);
       const samples: { t: number; x: number[] }[] = [];
       let reached = -1;
+      let settled = false;
+      const fx = new Float64Array(n);
+      const xx = new Float64Array(n);
       const flow = integrateFlow(system, p, x0, settings, (t, x) => {
         samples.push({ t, x: x.slice() });
         for (let k = 0; k < states.length; k++) {
           if (maxDist(x, states[k].x) < radii[k]) { reached = k; return true; }
         }
+        xx.set(x);
+        system.rates(xx, p, fx);
+        if (maxAbs(fx) < settings.settledSpeed && maxDist(x, saddle.x) > 100 * step) { settled = true; return true; }
         return false;
       });
-      if (reached < 0 && (flow.end === 'time-cap' || flow.end === 'step-cap')) {
+      if (reached < 0 && (settled || flow.end === 'time-cap' || flow.end === 'step-cap')) {
         const polished = newtonAtFixedParameter(system, flow.x, p, settings.newtonTolerance, settings.newtonMaxIterations);
         if (polished.converged) {
           const known = states.findIndex((s) => sameState(s.x, polished.x, settings.duplicateTolerance));

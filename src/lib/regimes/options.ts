@@ -31,6 +31,8 @@ export interface RegimeOptions {
   readonly absoluteTolerance: number;
   readonly timeCap: number;
   readonly maxSteps: number;
+  /** A trajectory whose speed max|F| falls below this has settled on an equilibrium (checked away from the saddle). */
+  readonly settledSpeed: number;
   /** A trajectory leaving the box |x_i| <= stateBound has escaped. */
   readonly stateBound: number;
   /** Arrival ball around a stable state: this fraction of its distance to the nearest other equilibrium ... */
@@ -62,6 +64,7 @@ export const defaultRegimeOptions: RegimeOptions = {
   timeCap: 1e6,
   maxSteps: 200_000,
   stateBound: 1e6,
+  settledSpeed: 1e-10,
   arrivalFraction: 0.25,
   arrivalRadius: 1e-4,
   engagedProgress: 0.5,
