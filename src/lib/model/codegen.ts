@@ -31,8 +31,20 @@ export function numberLiteral(v: number): string {
   return v < 0 ? `(-${text})` : text;
 }
 
-/** Source of one expression; `symbolCode` maps every symbol of the tree to a reference like `x[2]`. */
-export function emit(e: Expr, symbolCode: (name: string) => string): string {
+/** Largest |k| of an integer power b^k compiled to multiplications instead of Math.pow. */
+export const MAX_MULTIPLIED_POWER = 32;
+
+/**
+ * Source of one expression; `symbolCode` maps every symbol of the tree to a reference like `x[2]`.
+ * Integer powers 2 <= |k| <= 32 become calls of `ipowK` helpers (square-and-multiply, a few ulp from
+ * Math.pow and several times faster); pass the same `powers` set to `compileFunction` so it defines them.
+ */
+export function emit(e: Expr, symbolCode: (name: string) => string, powers?: Set<number>): string {
+  return emitTree(e, symbolCode, powers ?? new Set());
+}
+
+function emitTree(e: Expr, symbolCode: (name: string) => string, powers: Set<number>): string {
+  const emit = (x: Expr) => emitTree(x, symbolCode, powers);
   switch (e.kind) {
     case 'num': return numberLiteral(e.value);
     case 'sym': {
@@ -40,24 +52,54 @@ export function emit(e: Expr, symbolCode: (name: string) => string): string {
       if (!SYMBOL_CODE.test(code)) throw new Error(`codegen: bad symbol reference for ${e.name}`);
       return code;
     }
-    case 'neg': return `(-(${emit(e.arg, symbolCode)}))`;
-    case 'call': return CALL_CODE[e.fn](emit(e.arg, symbolCode));
+    case 'neg': return `(-(${emit(e.arg)}))`;
+    case 'call': return CALL_CODE[e.fn](emit(e.arg));
     case 'bin': {
-      const l = emit(e.left, symbolCode);
+      const l = emit(e.left);
       if (e.op === '^') {
-        if (e.right.kind === 'num' && e.right.value === 2 && (e.left.kind === 'sym' || e.left.kind === 'num')) return `(${l} * ${l})`;
-        return `Math.pow(${l}, ${emit(e.right, symbolCode)})`;
+        const k = e.right.kind === 'num' ? e.right.value : NaN;
+        if (Number.isInteger(k) && Math.abs(k) >= 2 && Math.abs(k) <= MAX_MULTIPLIED_POWER) {
+          const m = Math.abs(k);
+          const base = m === 2 && e.left.kind === 'sym' ? `(${l} * ${l})` : (powers.add(m), `ipow${m}(${l})`);
+          return k > 0 ? base : `(1 / ${base})`;
+        }
+        return `Math.pow(${l}, ${emit(e.right)})`;
       }
-      return `(${l} ${e.op} ${emit(e.right, symbolCode)})`;
+      return `(${l} ${e.op} ${emit(e.right)})`;
     }
   }
 }
 
 const ARG_NAME = /^[a-z][a-z0-9]*$/;
 
-/** Compile a function body built from `emit` output; argument names must be plain lower-case names. */
-export function compileFunction<F>(argNames: readonly string[], body: string): F {
+/** b^m by square-and-multiply, as the body of a one-argument helper. */
+function powerHelper(m: number): string {
+  const lines: string[] = [];
+  let acc = '';
+  let square = 'b';
+  let bits = m;
+  let i = 0;
+  while (bits > 0) {
+    if (bits & 1) acc = acc === '' ? square : `${acc} * ${square}`;
+    bits >>= 1;
+    if (bits > 0) {
+      const next = `s${++i}`;
+      lines.push(`const ${next} = ${square} * ${square};`);
+      square = next;
+    }
+  }
+  return `function ipow${m}(b) { ${lines.join(' ')} return ${acc}; }`;
+}
+
+/**
+ * Compile a function body built from `emit` output; argument names must be plain lower-case names.
+ * The integer-power helpers in `powers` are defined once in an enclosing scope (not per call).
+ */
+export function compileFunction<F>(argNames: readonly string[], body: string, powers: ReadonlySet<number> = new Set()): F {
   for (const a of argNames) if (!ARG_NAME.test(a)) throw new Error(`codegen: bad argument name ${a}`);
+  for (const m of powers) if (!Number.isInteger(m) || m < 2 || m > MAX_MULTIPLIED_POWER) throw new Error(`codegen: bad power ${m}`);
+  const helpers = [...powers].sort((a, b) => a - b).map(powerHelper).join('\n');
+  const source = `'use strict';\n${helpers}\nreturn function (${argNames.join(', ')}) {\n${body}\n};`;
   // eslint-disable-next-line @typescript-eslint/no-implied-eval
-  return new Function(...argNames, `'use strict';\n${body}`) as F;
+  return (new Function(source) as () => F)();
 }

@@ -83,3 +83,14 @@ export function sameExpr(a: Expr, b: Expr): boolean {
     }
   }
 }
+
+/** Replace symbols by trees where `replace` returns one (others stay). */
+export function replaceSymbols(e: Expr, replace: (name: string) => Expr | undefined): Expr {
+  switch (e.kind) {
+    case 'num': return e;
+    case 'sym': return replace(e.name) ?? e;
+    case 'neg': return neg(replaceSymbols(e.arg, replace));
+    case 'call': return call(e.fn, replaceSymbols(e.arg, replace));
+    case 'bin': return bin(e.op, replaceSymbols(e.left, replace), replaceSymbols(e.right, replace));
+  }
+}
