@@ -1,0 +1,6 @@
+export * from './types.js';
+export { traceDiagram, type TraceHooks } from './trace-diagram.js';
+export { defaultTraceSettings, type TraceSettings, type ResolvedTraceSettings } from './trace-settings.js';
+export { findStartingEquilibria, isUncoupledAt, type StartingEquilibria } from './starting-equilibria.js';
+export { ENGINE_VERSION } from './engine-version.js';
+export { SAME_POINT_PARAMETER, SAME_POINT_STATE } from './special-point-registry.js';

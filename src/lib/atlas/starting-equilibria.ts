@@ -1,0 +1,136 @@
+import type { CompiledSystem } from '../model/compiled-system.js';
+import { findScalarRoots } from '../numerics/scalar-roots.js';
+import { newton } from '../numerics/newton.js';
+import { distInf, normInf } from '../numerics/vector.js';
+import type { Diagnostic } from './types.js';
+import type { ResolvedTraceSettings } from './trace-settings.js';
+
+export interface StartingEquilibria {
+  readonly points: Float64Array[];
+  /** 'uncoupled' when built from per-node element equilibria, else 'multi-start'. */
+  readonly method: 'uncoupled' | 'multi-start';
+  readonly diagnostics: Diagnostic[];
+}
+
+/** True when the network's coupling term vanishes at p = from (or the network has no links). */
+export function isUncoupledAt(system: CompiledSystem, from: number): boolean {
+  const net = system.network;
+  if (!net) return false;
+  if (net.links.length === 0) return true;
+  return net.sweepIsCoupling ? from === 0 : net.couplingValue === 0;
+}
+
+/**
+ * Starting equilibria at p = from.
+ * Uncoupled network: node i's element equilibria are the roots of f_i(x; from) on
+ * [-rootSearchBound, rootSearchBound] (sign-change scan, Newton with bisection fallback); every
+ * combination is an equilibrium of the whole system because the coupling term vanishes. All
+ * combinations are used up to maxStartCombinations (3^8); beyond that the all-base (each node's
+ * lowest root), all-tipped (highest root) and every single-node-tipped pattern, with a diagnostic.
+ * Otherwise: damped Newton from the document's start guesses, the origin and multiStartCount
+ * quasi-random guesses (Halton sequence) in [-box, box]^n. Every candidate is polished by Newton on
+ * the full system and duplicates (max-norm distance below 1e-7 (1 + |x|)) are dropped.
+ */
+export function findStartingEquilibria(system: CompiledSystem, from: number, s: ResolvedTraceSettings): StartingEquilibria {
+  const n = system.dimension;
+  const diagnostics: Diagnostic[] = [];
+  const guesses: Float64Array[] = [];
+  let method: StartingEquilibria['method'] = 'multi-start';
+  const net = system.network;
+  if (net && isUncoupledAt(system, from)) {
+    method = 'uncoupled';
+    const perNode: number[][] = [];
+    for (let i = 0; i < n; i++) {
+      const r = findScalarRoots(
+        (x) => net.elementRate(i, x, from),
+        (x) => net.elementDerivative(i, x, from),
+        -s.rootSearchBound,
+        s.rootSearchBound,
+        { cells: s.rootSearchCells },
+      );
+      const roots = [...r.roots].sort((a, b) => a - b);
+      perNode.push(roots);
+      if (roots.length === 0) {
+        diagnostics.push({ level: 'warning', code: 'no-element-equilibrium', message: `node ${net.nodeIds[i] ?? i} has no equilibrium in [-${s.rootSearchBound}, ${s.rootSearchBound}] at ${system.parameter} = ${from}` });
+      }
+      if (r.doubtful > 0) {
+        diagnostics.push({ level: 'warning', code: 'element-root-doubtful', message: `node ${net.nodeIds[i] ?? i}: ${r.doubtful} element equilibria not refined to tolerance` });
+      }
+    }
+    if (perNode.every((r) => r.length > 0)) {
+      let combos = 1;
+      for (const r of perNode) combos *= r.length;
+      if (combos <= s.maxStartCombinations) {
+        const idx = new Array<number>(n).fill(0);
+        for (let c = 0; c < combos; c++) {
+          guesses.push(Float64Array.from(perNode.map((r, i) => r[idx[i]])));
+          for (let i = n - 1; i >= 0; i--) {
+            idx[i]++;
+            if (idx[i] < perNode[i].length) break;
+            idx[i] = 0;
+          }
+        }
+      } else {
+        const base = perNode.map((r) => r[0]);
+        const tipped = perNode.map((r) => r[r.length - 1]);
+        guesses.push(Float64Array.from(base), Float64Array.from(tipped));
+        for (let i = 0; i < n; i++) {
+          const g = Float64Array.from(base);
+          g[i] = tipped[i];
+          guesses.push(g);
+        }
+        diagnostics.push({
+          level: 'info',
+          code: 'start-patterns-limited',
+          message: `${combos.toExponential(3)} combinations of element equilibria exceed the limit of ${s.maxStartCombinations}; starting from the all-base, all-tipped and the ${n} single-node-tipped patterns plus the document's start list only`,
+        });
+      }
+    }
+  } else {
+    guesses.push(new Float64Array(n));
+    const primes = firstPrimes(n);
+    for (let k = 1; k <= s.multiStartCount; k++) {
+      guesses.push(Float64Array.from(primes, (b) => (2 * halton(k, b) - 1) * s.multiStartBox));
+    }
+  }
+  for (const g of system.start) if (g.length === n) guesses.unshift(Float64Array.from(g));
+  const points: Float64Array[] = [];
+  let failed = 0;
+  for (const g of guesses) {
+    const r = newton(system, g, from, { maxIterations: 60, stateBound: s.stateBound });
+    if (!r.converged || !r.x.every(Number.isFinite)) {
+      failed++;
+      continue;
+    }
+    if (normInf(r.x) > s.stateBound) continue;
+    if (points.some((q) => distInf(q, r.x) < 1e-7 * (1 + normInf(q)))) continue;
+    points.push(r.x);
+  }
+  if (points.length === 0) {
+    diagnostics.push({ level: 'warning', code: 'no-starting-equilibrium', message: `no equilibrium found at ${system.parameter} = ${from} (${guesses.length} guesses, ${failed} did not converge)`, p: from });
+  }
+  if (points.length > s.maxStartingPoints) {
+    diagnostics.push({ level: 'warning', code: 'starting-points-capped', message: `${points.length} starting equilibria found; only the first ${s.maxStartingPoints} (maxStartingPoints) are traced` });
+    points.length = s.maxStartingPoints;
+  }
+  return { points, method, diagnostics };
+}
+
+/** k-th element of the van der Corput sequence in base b (Halton 1960), in (0, 1). */
+function halton(k: number, b: number): number {
+  let f = 1;
+  let r = 0;
+  let i = k;
+  while (i > 0) {
+    f /= b;
+    r += f * (i % b);
+    i = Math.floor(i / b);
+  }
+  return r;
+}
+
+function firstPrimes(count: number): number[] {
+  const out: number[] = [];
+  for (let c = 2; out.length < count; c++) if (out.every((q) => c % q !== 0)) out.push(c);
+  return out;
+}

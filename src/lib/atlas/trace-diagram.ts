@@ -1,0 +1,425 @@
+import type { CompiledSystem } from '../model/compiled-system.js';
+import { BorderedWorkspace, nullSpace, tangentAt } from '../numerics/bordered.js';
+import { pointData, type TracedPoint } from '../numerics/branch-point-data.js';
+import { nearZeroCount, spectralScale } from '../numerics/eigenvalues.js';
+import { locateZero, type TestFunctionKind } from '../numerics/locate.js';
+import { continueBranch, type ContinuationOptions, type DirectionEnd } from '../numerics/pseudo-arclength.js';
+import { switchAtBranchPoint } from '../numerics/branch-switch.js';
+import { dist2, normInf } from '../numerics/vector.js';
+import { BranchIndex } from './branch-index.js';
+import { ENGINE_VERSION } from './engine-version.js';
+import { SpecialPointRegistry, type SpecialPointDraft } from './special-point-registry.js';
+import { findStartingEquilibria } from './starting-equilibria.js';
+import { defaultTraceSettings, type ResolvedTraceSettings, type TraceSettings } from './trace-settings.js';
+import type { Branch, BranchEnd, BranchPoint, Diagnostic, Diagram } from './types.js';
+
+export interface TraceHooks {
+  /** Called often with the estimated fraction done (0..1, non-decreasing) and a short phrase. */
+  onProgress?: (fraction: number, phrase: string) => void;
+  /** Polled at every continuation step; true stops the trace with a partial diagram and a 'cancelled' diagnostic. */
+  isCancelled?: () => boolean;
+}
+
+type Task =
+  | { kind: 'start'; y: Float64Array }
+  | { kind: 'switch'; from: string; draft: SpecialPointDraft; yStar: Float64Array; across: Float64Array; plus: Float64Array | null; minus: Float64Array | null; plusT: Float64Array | null; minusT: Float64Array | null; plusDet: number; minusDet: number };
+
+interface Insert {
+  after: TracedPoint;
+  point: TracedPoint;
+}
+
+/**
+ * The whole bifurcation diagram of a compiled system over its swept parameter: every branch through
+ * the starting equilibria at `from`, traced both ways by Keller's pseudo-arclength continuation, every
+ * branch found by switching at branch points, saddle-node / pitchfork / transcritical / Hopf points
+ * located by sign changes of test functions and listed once. Synchronous and pure; never throws on
+ * numerical trouble (the diagram is then partial and `diagnostics` says why). See docs/numerics.md.
+ */
+export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSettings> = {}, hooks: TraceHooks = {}): Diagram {
+  const s: ResolvedTraceSettings = { ...defaultTraceSettings, from: system.sweep.from, to: system.sweep.to, ...stripUndefined(settings) };
+  const diagnostics: Diagnostic[] = [];
+  const branches: Branch[] = [];
+  const registry = new SpecialPointRegistry();
+  const n = system.dimension;
+  const result = (): Diagram => ({
+    parameter: system.parameter,
+    variables: [...system.variables],
+    branches,
+    bifurcations: registry.finish(),
+    diagnostics,
+    settings: { ...s },
+    engineVersion: ENGINE_VERSION,
+  });
+  const bad = checkSettings(s);
+  if (bad) {
+    diagnostics.push({ level: 'error', code: 'invalid-settings', message: bad });
+    return result();
+  }
+  const width = Math.abs(s.to - s.from);
+  const lo = Math.min(s.from, s.to);
+  const hi = Math.max(s.from, s.to);
+  const copts: ContinuationOptions = {
+    lo,
+    hi,
+    initialStep: s.initialStep * width,
+    minStep: s.minStep * width,
+    maxStep: s.maxStep * width,
+    maxParameterStep: s.maxParameterStep * width,
+    maxTurn: s.maxTurn,
+    maxPoints: Math.max(2, Math.floor(s.maxPointsPerBranch / 2)),
+    stateBound: s.stateBound,
+    residualTolerance: s.residualTolerance,
+    stepTolerance: s.stepTolerance,
+    maxCorrectorIterations: s.maxCorrectorIterations,
+  };
+  const index = new BranchIndex(Math.max(copts.maxParameterStep, 1e-12), n, copts.maxStep);
+  let cancelled = false;
+  let lastFraction = 0;
+  const progress = (f: number, phrase: string) => {
+    lastFraction = Math.max(lastFraction, Math.min(1, f));
+    hooks.onProgress?.(lastFraction, phrase);
+  };
+  const isCancelled = () => {
+    if (!cancelled && hooks.isCancelled?.()) cancelled = true;
+    return cancelled;
+  };
+
+  progress(0, 'finding starting equilibria');
+  let starts;
+  try {
+    starts = findStartingEquilibria(system, s.from, s);
+  } catch (e) {
+    diagnostics.push({ level: 'error', code: 'start-failed', message: `starting equilibria could not be computed: ${errorText(e)}` });
+    return result();
+  }
+  diagnostics.push(...starts.diagnostics);
+  const tasks: Task[] = starts.points.map((y0) => {
+    const y = new Float64Array(n + 1);
+    y.set(y0);
+    y[n] = s.from;
+    return { kind: 'start', y };
+  });
+  let done = 0;
+  let pointsSinceProgress = 0;
+  let branchCapHit = false;
+  let neutralSaddles = 0;
+  const ws = new BorderedWorkspace(n);
+  const locOpts = { parameterTolerance: s.locateParameterTolerance, maxIterations: s.locateMaxIterations };
+
+  while (tasks.length > 0) {
+    if (isCancelled()) break;
+    const task = tasks.shift()!;
+    const frac = (k: number) => (done + k) / (done + tasks.length + 1);
+    if (branches.length >= s.maxBranches) {
+      if (!branchCapHit) diagnostics.push({ level: 'warning', code: 'branch-cap', message: `stopped at ${s.maxBranches} branches (maxBranches); ${tasks.length + 1} more were not traced` });
+      branchCapHit = true;
+      break;
+    }
+    const id = `b${branches.length + 1}`;
+    const bIndex = branches.length;
+    let inserts: Insert[] = [];
+
+    const onStep = (a: TracedPoint, b: TracedPoint) => {
+      pointsSinceProgress++;
+      if (pointsSinceProgress >= 200) {
+        pointsSinceProgress = 0;
+        progress(frac(0.5), `tracing branch ${id}`);
+      }
+      const kinds: TestFunctionKind[] = [];
+      const bp = Number.isFinite(a.det) && Number.isFinite(b.det) && a.det * b.det < 0;
+      if (bp) kinds.push('branch');
+      if (a.t[n] * b.t[n] < 0 && !bp) kinds.push('fold');
+      if (n >= 2 && Number.isFinite(a.hopf.value) && Number.isFinite(b.hopf.value) && a.hopf.value * b.hopf.value < 0) {
+        // Two real eigenvalues summing through zero at both ends: a neutral saddle, never a Hopf point.
+        if (a.hopf.critical?.kind === 'real-pair' && b.hopf.critical?.kind === 'real-pair') neutralSaddles++;
+        else kinds.push('hopf');
+      }
+      for (const kind of kinds) {
+        try {
+          handleSignChange(kind, a, b, a.t[n] * b.t[n] < 0);
+        } catch (e) {
+          diagnostics.push({ level: 'warning', code: 'locate-failed', message: `locating a ${kind} test-function zero failed: ${errorText(e)}`, branch: id, p: a.y[n] });
+        }
+      }
+    };
+
+    const handleSignChange = (kind: TestFunctionKind, a: TracedPoint, b: TracedPoint, foldToo: boolean) => {
+      // A branch that bends back at a branch point (a pitchfork's parabola) has t_p = 0 exactly there,
+      // and t_p is a well-conditioned test function along it, unlike det near the singular point.
+      const locKind: TestFunctionKind = kind === 'branch' && foldToo ? 'fold' : kind;
+      const loc = locateZero(system, locKind, a, b, locOpts);
+      const pt = loc.point;
+      const p = pt.y[n];
+      const x = Array.from(pt.y.subarray(0, n));
+      if (!loc.converged && loc.parameterBracket >= 1e-10) {
+        diagnostics.push({ level: 'warning', code: 'locate-not-converged', message: `${kind} test function: location stopped with a parameter bracket of ${loc.parameterBracket.toExponential(2)}${loc.interpolated ? ' (zero interpolated inside it)' : ''}`, branch: id, p });
+      }
+      const eig = Array.from(pt.spectrum.re, (re, i) => ({ re, im: pt.spectrum.im[i] }));
+      const common = { iterations: loc.iterations, parameterBracket: loc.parameterBracket, testValue: loc.value, interpolated: loc.interpolated, eigenvalues: eig };
+      if (kind === 'fold') {
+        const zeros = nearZeroCount(pt.spectrum);
+        const draft: SpecialPointDraft = {
+          type: zeros >= 2 ? 'degenerate' : 'saddle-node',
+          p,
+          x,
+          branches: new Set([id]),
+          evidence: { kind: 'fold', reason: 'the parameter component of the branch tangent changes sign', tangentP: pt.t[n], zeroEigenvalues: zeros, ...common },
+          ...(zeros >= 2 ? { note: `fold with ${zeros} eigenvalues near zero (double-zero eigenvalue: a fold meeting a Hopf or another fold)` } : {}),
+        };
+        registry.add(draft);
+        inserts.push({ after: a, point: pt });
+        return;
+      }
+      if (kind === 'hopf') {
+        const c = pt.hopf.critical;
+        const scale = spectralScale(pt.spectrum);
+        if (c && c.kind === 'complex-pair' && c.im > 1e-6 * scale) {
+          registry.add({
+            type: 'hopf',
+            p,
+            x,
+            branches: new Set([id]),
+            frequency: c.im,
+            evidence: { kind: 'hopf', reason: 'a complex-conjugate pair of eigenvalues crosses the imaginary axis', criticalRe: c.re, criticalIm: c.im, ...common },
+          });
+          inserts.push({ after: a, point: pt });
+        } else {
+          neutralSaddles++;
+        }
+        return;
+      }
+      // Branch point.
+      const known = registry.findBranchPoint(p, x);
+      if (known) {
+        known.branches.add(id);
+        // Keep the better-conditioned location: converged, narrower bracket, not interpolated.
+        const ke = known.evidence as { parameterBracket?: number; interpolated?: boolean; converged?: boolean };
+        const better = loc.converged && (!ke.converged || (ke.interpolated && !loc.interpolated) || (!!ke.interpolated === loc.interpolated && loc.parameterBracket < (ke.parameterBracket ?? Infinity)));
+        if (better) {
+          known.p = p;
+          known.x = x;
+          Object.assign(known.evidence, { ...common, converged: loc.converged, locatedOn: id, locatedBy: locKind });
+        }
+        inserts.push({ after: a, point: pt });
+        return;
+      }
+      const sw = switchAtBranchPoint(system, pt.y, pt.t, { probeStep: s.switchStep * width });
+      const draft: SpecialPointDraft = {
+        type: sw.classification,
+        p,
+        x,
+        branches: new Set([id]),
+        evidence: {
+          kind: 'branch-point',
+          reason: sw.reason,
+          singularValues: sw.singularValues.slice(0, 3),
+          crossingVelocity: sw.crossing.velocity,
+          tracedVelocity: sw.traced.velocity,
+          crossingOddEven: [sw.crossing.odd, sw.crossing.even],
+          tracedOddEven: [sw.traced.odd, sw.traced.even],
+          foldTestChanged: foldToo,
+          ...common,
+          converged: loc.converged,
+          locatedOn: id,
+          locatedBy: locKind,
+        },
+        ...(sw.classification === 'degenerate' ? { note: sw.reason } : {}),
+      };
+      registry.add(draft);
+      inserts.push({ after: a, point: pt });
+      if (sw.ok && sw.crossing.plus && sw.crossing.minus) {
+        // Crossing branch already traced (e.g. from its own starting equilibrium): nothing to switch to.
+        const tol = 1e-7 * (1 + normInf(pt.y)) + 0.05 * copts.maxStep;
+        const onPlus = index.findParallel(sw.crossing.plus, sw.plusTangent ?? sw.across, tol, () => false);
+        const onMinus = index.findParallel(sw.crossing.minus, sw.minusTangent ?? sw.across, tol, () => false);
+        if (onPlus && onMinus) {
+          draft.branches.add(branchId(index.lists[onPlus.list].branch));
+          draft.branches.add(branchId(index.lists[onMinus.list].branch));
+          return;
+        }
+      }
+      if (!sw.ok) {
+        diagnostics.push({ level: 'warning', code: 'switch-failed', message: `branch point found but the crossing branch could not be computed: ${sw.reason}`, branch: id, p });
+        return;
+      }
+      tasks.push({ kind: 'switch', from: id, draft, yStar: pt.y, across: sw.across, plus: sw.crossing.plus, minus: sw.crossing.minus, plusT: sw.plusTangent, minusT: sw.minusTangent, plusDet: sw.plusDet, minusDet: sw.minusDet });
+    };
+
+    const runDirection = (y: Float64Array, t: Float64Array, det: number): { points: TracedPoint[]; end: DirectionEnd; inserts: Insert[] } => {
+      const list = index.addList(bIndex);
+      inserts = [];
+      const startY = y;
+      const mergeTol = (a: TracedPoint, b: TracedPoint) => 1e-7 * (1 + normInf(b.y)) + 0.05 * dist2(a.y, b.y);
+      let prev: TracedPoint | null = null;
+      const r = continueBranch(system, y, t, det, copts, {
+        onStep: (a, b) => {
+          prev = a;
+          onStep(a, b);
+        },
+        stopAt: (b, idx, arc) => {
+          const a = prev!;
+          if (idx === 1) index.push(list, a);
+          index.push(list, b);
+          const tol = mergeTol(a, b);
+          const hit = index.findParallel(b.y, b.t, tol, (l) => l === list || (index.lists[l].branch === bIndex && arc < 4 * copts.maxStep));
+          if (hit) return index.lists[hit.list].branch === bIndex ? 'closed-loop' : 'merged';
+          if (idx > 10 && arc > 4 * copts.maxStep && dist2(b.y, startY) < Math.max(tol, 0.5 * dist2(a.y, b.y))) return 'closed-loop';
+          return null;
+        },
+        isCancelled,
+      });
+      // Points the hook did not see (the start of a one-point direction, the end on a sweep bound).
+      const listed = index.lists[list].points;
+      for (const q of r.points) if (!listed.includes(q)) index.push(list, q);
+      return { points: r.points, end: r.end, inserts };
+    };
+
+    let plusPts: TracedPoint[] = [];
+    let minusPts: TracedPoint[] = [];
+    let ends: [BranchEnd, BranchEnd] = ['sweep-bound', 'sweep-bound'];
+    let origin: Branch['origin'];
+    let ordered: TracedPoint[] = [];
+    try {
+      if (task.kind === 'start') {
+        if (index.hasPoint(task.y, 1e-6 * (1 + normInf(task.y)))) {
+          done++;
+          continue;
+        }
+        origin = { kind: 'start' };
+        const ns = nullSpace(system, task.y, ws);
+        if (ns.vectors.length === 0) {
+          diagnostics.push({ level: 'warning', code: 'start-non-finite', message: `Jacobian not finite at a starting equilibrium`, p: s.from });
+          done++;
+          continue;
+        }
+        let v = ns.vectors[0];
+        const smax = ns.singularValues[ns.singularValues.length - 1] || 1;
+        if (ns.singularValues.length >= 2 && ns.singularValues[1] < 1e-8 * smax) {
+          diagnostics.push({ level: 'warning', code: 'singular-start', message: `starting equilibrium x = [${fmt(task.y.subarray(0, n))}] is a branch point (two-dimensional null space of [J_x | F_p]); traced along one direction only`, p: s.from });
+        }
+        const dir = s.to >= s.from ? 1 : -1;
+        if (v[n] * dir < 0 || (v[n] === 0 && false)) v = v.map((q) => -q);
+        const tan = tangentAt(system, task.y, v, ws);
+        const t0 = tan.ok ? tan.tangent : v;
+        const sp = pointData(system, task.y, t0, tan.determinant, ws);
+        if (nearZeroCount(sp.spectrum, 1e-9) > 0) {
+          diagnostics.push({ level: 'info', code: 'singular-start', message: `J_x is singular at the starting equilibrium x = [${fmt(task.y.subarray(0, n))}] (a special point sits on the sweep bound; it is not reported)`, p: s.from });
+        }
+        const fw = runDirection(task.y, t0, tan.determinant);
+        const bw = runDirection(task.y, t0.map((q) => -q), -tan.determinant);
+        ends = [bw.end === 'cancelled' ? 'point-cap' : bw.end, fw.end === 'cancelled' ? 'point-cap' : fw.end];
+        ordered = withInserts(bw.points, bw.inserts).reverse().slice(0, -1).concat(withInserts(fw.points, fw.inserts));
+      } else {
+        if (task.plus && task.minus) {
+          // Traced meanwhile from a starting equilibrium? Then the branch point just gains that branch.
+          const tol = 1e-7 * (1 + normInf(task.yStar)) + 0.05 * copts.maxStep;
+          const onPlus = index.findParallel(task.plus, task.plusT ?? task.across, tol, () => false);
+          const onMinus = index.findParallel(task.minus, task.minusT ?? task.across, tol, () => false);
+          if (onPlus && onMinus) {
+            task.draft.branches.add(branchId(index.lists[onPlus.list].branch));
+            task.draft.branches.add(branchId(index.lists[onMinus.list].branch));
+            done++;
+            continue;
+          }
+        }
+        origin = { kind: 'switch', from: task.from };
+        task.draft.branches.add(id);
+        const star = pointData(system, task.yStar, task.across, Number.NaN, ws);
+        let fEnd: DirectionEnd = 'newton-failure';
+        let bEnd: DirectionEnd = 'newton-failure';
+        if (task.plus && task.plusT) {
+          const fw = runDirection(task.plus, task.plusT, task.plusDet);
+          plusPts = withInserts(fw.points, fw.inserts);
+          fEnd = fw.end;
+        }
+        if (task.minus && task.minusT) {
+          const bw = runDirection(task.minus, task.minusT, task.minusDet);
+          minusPts = withInserts(bw.points, bw.inserts);
+          bEnd = bw.end;
+        }
+        ends = [bEnd === 'cancelled' ? 'point-cap' : bEnd, fEnd === 'cancelled' ? 'point-cap' : fEnd];
+        ordered = minusPts.reverse().concat([star], plusPts);
+      }
+    } catch (e) {
+      diagnostics.push({ level: 'error', code: 'branch-failed', message: `tracing stopped by an unexpected error: ${errorText(e)}`, branch: id });
+      done++;
+      continue;
+    }
+    branches.push({
+      id,
+      points: ordered.map((q) => toBranchPoint(q, n, s.storeEigenvalues)),
+      origin: origin!,
+      ends,
+    });
+    for (const e of ends) {
+      if (e === 'step-collapse' || e === 'newton-failure' || e === 'point-cap' || e === 'state-bound') {
+        const msg: Record<string, string> = {
+          'step-collapse': 'the step size fell below the minimum (the branch may end in a singularity or leave the domain of the rates)',
+          'newton-failure': 'the corrector failed repeatedly',
+          'point-cap': `the point cap of ${s.maxPointsPerBranch} per branch was reached`,
+          'state-bound': `the state left the box |x| <= ${s.stateBound}`,
+        };
+        if (!cancelled) diagnostics.push({ level: 'warning', code: e, message: `branch ${id} stopped: ${msg[e]}`, branch: id });
+      }
+    }
+    done++;
+    progress(frac(0), `traced branch ${id}`);
+  }
+  if (neutralSaddles > 0) {
+    diagnostics.push({ level: 'info', code: 'neutral-saddle', message: `${neutralSaddles} sign change(s) of the Hopf test function came from neutral saddles (two real eigenvalues summing to zero) and are not Hopf points` });
+  }
+  if (cancelled) diagnostics.push({ level: 'warning', code: 'cancelled', message: 'the trace was cancelled; the diagram is partial' });
+  else progress(1, 'done');
+  return result();
+}
+
+function branchId(index: number): string {
+  return `b${index + 1}`;
+}
+
+function withInserts(points: TracedPoint[], inserts: Insert[]): TracedPoint[] {
+  if (inserts.length === 0) return points;
+  const out: TracedPoint[] = [];
+  for (const q of points) {
+    out.push(q);
+    const here = inserts.filter((i) => i.after === q);
+    here.sort((u, v) => dist2(u.point.y, q.y) - dist2(v.point.y, q.y));
+    for (const i of here) out.push(i.point);
+  }
+  return out;
+}
+
+function toBranchPoint(q: TracedPoint, n: number, withEig: boolean): BranchPoint {
+  const bp: BranchPoint = { p: q.y[n], x: Array.from(q.y.subarray(0, n)), unstable: q.unstable };
+  if (withEig) return { ...bp, eigenvalues: Array.from(q.spectrum.re, (re, i) => ({ re, im: q.spectrum.im[i] })) };
+  return bp;
+}
+
+function checkSettings(s: ResolvedTraceSettings): string | null {
+  if (!Number.isFinite(s.from)) return 'settings.from must be a finite number';
+  if (!Number.isFinite(s.to)) return 'settings.to must be a finite number';
+  if (s.from === s.to) return 'settings.from and settings.to must differ';
+  const positive: (keyof ResolvedTraceSettings)[] = ['initialStep', 'minStep', 'maxStep', 'maxParameterStep', 'maxTurn', 'maxPointsPerBranch', 'maxBranches', 'maxStartCombinations', 'maxStartingPoints', 'residualTolerance', 'stepTolerance', 'maxCorrectorIterations', 'locateParameterTolerance', 'locateMaxIterations', 'stateBound', 'rootSearchBound', 'rootSearchCells', 'multiStartBox', 'switchStep'];
+  for (const k of positive) {
+    const v = s[k];
+    if (typeof v !== 'number' || !Number.isFinite(v) || v <= 0) return `settings.${k} must be a positive finite number`;
+  }
+  if (!(s.minStep <= s.initialStep && s.initialStep <= s.maxStep)) return 'settings: need minStep <= initialStep <= maxStep';
+  if (!Number.isInteger(s.multiStartCount) || s.multiStartCount < 0) return 'settings.multiStartCount must be a non-negative integer';
+  return null;
+}
+
+function stripUndefined<T extends object>(o: T): Partial<T> {
+  const out: Partial<T> = {};
+  for (const [k, v] of Object.entries(o)) if (v !== undefined) (out as Record<string, unknown>)[k] = v;
+  return out;
+}
+
+function fmt(a: ArrayLike<number>): string {
+  return Array.from(a, (v) => v.toPrecision(6)).join(', ');
+}
+
+function errorText(e: unknown): string {
+  return e instanceof Error ? e.message : String(e);
+}

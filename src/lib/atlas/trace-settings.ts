@@ -1,0 +1,76 @@
+/**
+ * Settings of a diagram trace. Step lengths are fractions of the sweep width |to - from| (arclength
+ * measured in the raw (x, p) coordinates); everything else is absolute. Defaults are common practice
+ * (no source) chosen and checked on the test models; see docs/numerics.md for the reasoning.
+ */
+export interface TraceSettings {
+  /** Sweep start; default the document's sweep.from. Starting equilibria are computed here. */
+  from?: number;
+  /** Sweep end; default the document's sweep.to. */
+  to?: number;
+  /** First arclength step, as a fraction of the sweep width (default 2e-3). */
+  initialStep: number;
+  /** Smallest arclength step before a branch ends with 'step-collapse' (default 1e-9). */
+  minStep: number;
+  /** Largest arclength step (default 2e-2). */
+  maxStep: number;
+  /** Largest parameter change per step (default 1/600 = 0.00167): special points closer than this fraction of the sweep width apart in p can merge. */
+  maxParameterStep: number;
+  /** Largest angle in radians between consecutive tangents (default 0.15). */
+  maxTurn: number;
+  /** Point cap per branch, both directions together (default 20000). */
+  maxPointsPerBranch: number;
+  /** Cap on the number of branches in a diagram (default 400). */
+  maxBranches: number;
+  /** Up to this many per-node combinations of element equilibria are all used as starts (default 3^8 = 6561). */
+  maxStartCombinations: number;
+  /** Cap on starting equilibria traced (default 6561). */
+  maxStartingPoints: number;
+  /** Corrector: residual |F|_inf tolerance (default 1e-10), step tolerance relative to 1 + |y| (default 1e-10), iteration cap (default 8). */
+  residualTolerance: number;
+  stepTolerance: number;
+  maxCorrectorIterations: number;
+  /** Location of special points: stop when the bracket is narrower than this in p (default 1e-11). */
+  locateParameterTolerance: number;
+  /** Iteration cap of the location (default 100). */
+  locateMaxIterations: number;
+  /** Branch stops when |x|_inf exceeds this (default 1e6). */
+  stateBound: number;
+  /** Interval [-b, b] scanned for element equilibria of a network node (default 10). */
+  rootSearchBound: number;
+  /** Cells of that scan (default 4000). */
+  rootSearchCells: number;
+  /** Extra multi-start Newton guesses (quasi-random in [-box, box]^n) when the start is not uncoupled (default 24, box 3). */
+  multiStartCount: number;
+  multiStartBox: number;
+  /** Distance from a branch point at which the crossing branch is first computed, fraction of the sweep width (default 1e-3). */
+  switchStep: number;
+  /** Store eigenvalues with every branch point (default false; special points always carry them in evidence). */
+  storeEigenvalues: boolean;
+}
+
+export const defaultTraceSettings: Readonly<Required<Omit<TraceSettings, 'from' | 'to'>>> = Object.freeze({
+  initialStep: 2e-3,
+  minStep: 1e-9,
+  maxStep: 2e-2,
+  maxParameterStep: 1 / 600,
+  maxTurn: 0.15,
+  maxPointsPerBranch: 20000,
+  maxBranches: 400,
+  maxStartCombinations: 6561,
+  maxStartingPoints: 6561,
+  residualTolerance: 1e-10,
+  stepTolerance: 1e-10,
+  maxCorrectorIterations: 8,
+  locateParameterTolerance: 1e-11,
+  locateMaxIterations: 100,
+  stateBound: 1e6,
+  rootSearchBound: 10,
+  rootSearchCells: 4000,
+  multiStartCount: 24,
+  multiStartBox: 3,
+  switchStep: 1e-3,
+  storeEigenvalues: false,
+});
+
+export type ResolvedTraceSettings = Required<TraceSettings>;

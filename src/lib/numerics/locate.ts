@@ -1,0 +1,212 @@
+import type { CompiledSystem } from '../model/compiled-system.js';
+import { BorderedWorkspace, correct, tangentAt } from './bordered.js';
+import { pointData, type TracedPoint } from './branch-point-data.js';
+import { dist2 } from './vector.js';
+
+export type TestFunctionKind = 'fold' | 'branch' | 'hopf';
+
+export interface LocateOptions {
+  /** Stop when the bracket's parameter width is below this ... (default 1e-11) */
+  parameterTolerance: number;
+  /** ... and its width along the branch is below this times (1 + |y|) (default 1e-10). */
+  arcTolerance: number;
+  /** Iteration cap of the bracketing iteration (default 100). */
+  maxIterations: number;
+  /** Corrector tolerances at each trial point. */
+  residualTolerance: number;
+  stepTolerance: number;
+}
+
+export const defaultLocateOptions: LocateOptions = {
+  parameterTolerance: 1e-11,
+  arcTolerance: 1e-10,
+  maxIterations: 100,
+  residualTolerance: 1e-12,
+  stepTolerance: 1e-13,
+};
+
+export interface LocateResult {
+  readonly converged: boolean;
+  readonly iterations: number;
+  /** The located point (the bracket end with the smaller |test value|). */
+  readonly point: TracedPoint;
+  /** |p_hi - p_lo| of the final bracket. */
+  readonly parameterBracket: number;
+  /** Test-function value at the located point. */
+  readonly value: number;
+  /** True when the final point was interpolated across a bracket the corrector could not shrink further. */
+  readonly interpolated: boolean;
+}
+
+function hermite(a: TracedPoint, b: TracedPoint, u: number): Float64Array {
+  const len = dist2(a.y, b.y);
+  const u2 = u * u;
+  const u3 = u2 * u;
+  const h00 = 2 * u3 - 3 * u2 + 1;
+  const h10 = u3 - 2 * u2 + u;
+  const h01 = -2 * u3 + 3 * u2;
+  const h11 = u3 - u2;
+  return a.y.map((v, i) => h00 * v + h10 * len * a.t[i] + h01 * b.y[i] + h11 * len * b.t[i]);
+}
+
+function hermiteTangent(a: TracedPoint, b: TracedPoint, u: number): Float64Array {
+  const len = dist2(a.y, b.y);
+  const u2 = u * u;
+  const d = a.y.map((v, i) => (6 * u2 - 6 * u) * v + (3 * u2 - 4 * u + 1) * len * a.t[i] + (-6 * u2 + 6 * u) * b.y[i] + (3 * u2 - 2 * u) * len * b.t[i]);
+  const nn = Math.hypot(...d);
+  return d.map((v) => v / nn);
+}
+
+/** The test function of `kind` at a traced point. */
+export function testValue(kind: TestFunctionKind, pt: TracedPoint): number {
+  if (kind === 'fold') return pt.t[pt.t.length - 1];
+  if (kind === 'branch') return pt.det;
+  return pt.hopf.value;
+}
+
+/**
+ * Locates a zero of a test function between two consecutive branch points a and b where it changes sign.
+ * The branch between them is parametrized by s in [0, 1]: y(s) solves the extended system
+ * F(y) = 0, d(s) . (y - g(s)) = 0 (Newton, bordered LU), where g is the cubic Hermite interpolant of
+ * the arc through (y_a, t_a) and (y_b, t_b) and d(s) its unit derivative; the hyperplane cuts the
+ * short arc once because consecutive tangents differ by less than the continuation's turn limit.
+ * The test function along s is bracketed and refined by the Illinois variant of regula falsi
+ * (Dahlquist & Björck, Numerical Methods, §6.2), which keeps a bracket and converges superlinearly;
+ * it falls back to bisection when a secant estimate is unusable. Tangents keep a's orientation, so the
+ * determinant and t_p signs are consistent with the trace (Seydel, §5.2; Kuznetsov §10.2).
+ */
+export function locateZero(
+  system: CompiledSystem,
+  kind: TestFunctionKind,
+  a: TracedPoint,
+  b: TracedPoint,
+  options: Partial<LocateOptions> = {},
+): LocateResult {
+  const o = { ...defaultLocateOptions, ...options };
+  const n = system.dimension;
+  const ws = new BorderedWorkspace(n);
+  const len = dist2(a.y, b.y);
+  const evalAt = (u: number, from: TracedPoint): TracedPoint | null => {
+    // Cubic Hermite interpolation of the arc from the end points and their unit tangents: an O(len^4)
+    // guess, and its derivative as the hyperplane normal, so the trial hyperplane cuts the traced arc
+    // transversally (a chord guess can land on a crossing branch near a branch point).
+    const u2 = u * u;
+    const u3 = u2 * u;
+    const h00 = 2 * u3 - 3 * u2 + 1;
+    const h10 = u3 - 2 * u2 + u;
+    const h01 = -2 * u3 + 3 * u2;
+    const h11 = u3 - u2;
+    const d00 = 6 * u2 - 6 * u;
+    const d10 = 3 * u2 - 4 * u + 1;
+    const d01 = -6 * u2 + 6 * u;
+    const d11 = 3 * u2 - 2 * u;
+    const guess = new Float64Array(n + 1);
+    const d = new Float64Array(n + 1);
+    for (let i = 0; i <= n; i++) {
+      guess[i] = h00 * a.y[i] + h10 * len * a.t[i] + h01 * b.y[i] + h11 * len * b.t[i];
+      d[i] = d00 * a.y[i] + d10 * len * a.t[i] + d01 * b.y[i] + d11 * len * b.t[i];
+    }
+    const dn = Math.hypot(...d);
+    for (let i = 0; i <= n; i++) d[i] /= dn;
+    let c = 0;
+    for (let i = 0; i <= n; i++) c += d[i] * guess[i];
+    const res = correct(system, guess, d, c, ws, { residualTolerance: o.residualTolerance, stepTolerance: o.stepTolerance, maxIterations: 20, maxDisplacement: 0.1 * len });
+    // Next to a singular point the Newton steps stall along the near-null direction while the residual
+    // is already at rounding level; such a point is on the solution set and is accepted.
+    const onCurve = res.converged || (res.residual <= o.residualTolerance && dist2(res.y, guess) <= 0.1 * len);
+    if (!onCurve) return null;
+    const tan = tangentAt(system, res.y, d, ws);
+    if (tan.tangent.every((v) => v === 0)) return null;
+    // Orient along the direction of travel (the tangent at the nearer known point).
+    let sign = 0;
+    for (let i = 0; i <= n; i++) sign += tan.tangent[i] * from.t[i];
+    const t = sign >= 0 ? tan.tangent : tan.tangent.map((v) => -v);
+    const det = sign >= 0 ? tan.determinant : -tan.determinant;
+    return pointData(system, res.y, t, det, ws);
+  };
+  let lo = 0;
+  let hi = 1;
+  let plo: TracedPoint = a;
+  let phi: TracedPoint = b;
+  let flo = testValue(kind, a);
+  let fhi = testValue(kind, b);
+  let side = 0;
+  let it = 0;
+  let converged = false;
+  let stalled = false;
+  const scale = 1 + Math.max(...Array.from(a.y, Math.abs));
+  for (; it < o.maxIterations; it++) {
+    const dp = Math.abs(phi.y[n] - plo.y[n]);
+    if (dp < o.parameterTolerance && (hi - lo) * len < o.arcTolerance * scale) {
+      converged = true;
+      break;
+    }
+    let s = (lo * fhi - hi * flo) / (fhi - flo);
+    if (!Number.isFinite(s) || s <= lo || s >= hi) s = 0.5 * (lo + hi);
+    // Guard against the secant estimate hugging one bracket end (it makes no progress in the arc width).
+    const w = hi - lo;
+    if (s - lo < 1e-3 * w) s = lo + 1e-3 * w;
+    if (hi - s < 1e-3 * w) s = hi - 1e-3 * w;
+    const pt = evalAt(s, s < 0.5 ? a : b);
+    if (pt === null) {
+      // Corrector failed at the trial point: try the bisection point once, else stop with the bracket.
+      const mid = 0.5 * (lo + hi);
+      const pm = mid === s ? null : evalAt(mid, a);
+      if (pm === null) {
+        stalled = true;
+        break;
+      }
+      const fm = testValue(kind, pm);
+      if (fm * flo < 0) {
+        hi = mid;
+        phi = pm;
+        fhi = fm;
+      } else {
+        lo = mid;
+        plo = pm;
+        flo = fm;
+      }
+      side = 0;
+      continue;
+    }
+    const f = testValue(kind, pt);
+    if (f === 0) {
+      lo = hi = s;
+      plo = phi = pt;
+      flo = fhi = 0;
+      converged = true;
+      break;
+    }
+    if (f * fhi < 0) {
+      lo = s;
+      plo = pt;
+      flo = f;
+      if (side === -1) fhi *= 0.5;
+      side = -1;
+    } else {
+      hi = s;
+      phi = pt;
+      fhi = f;
+      if (side === 1) flo *= 0.5;
+      side = 1;
+    }
+  }
+  const fl = testValue(kind, plo);
+  const fh = testValue(kind, phi);
+  const bracket = Math.abs(phi.y[n] - plo.y[n]);
+  if (stalled && fl * fh < 0 && plo !== phi) {
+    // The corrector cannot resolve points closer to a singular point (next to a branch point the
+    // extended system is nearly singular and a second branch is close). The test function is smooth
+    // across the small final bracket, so its zero is estimated by linear interpolation in the arc
+    // and the point by cubic Hermite interpolation between the two bracket points (error O(w^2) in
+    // the zero, w the bracket width along the arc, and O(w^4) for the interpolated curve).
+    const u = fl / (fl - fh);
+    const y = hermite(plo, phi, u);
+    const t = hermiteTangent(plo, phi, u);
+    const point = pointData(system, y, t, Number.NaN, ws);
+    const w = dist2(plo.y, phi.y);
+    return { converged: w < 1e-4 * Math.max(len, 1e-300), iterations: it, point, parameterBracket: bracket, value: 0, interpolated: true };
+  }
+  const point = Math.abs(fl) <= Math.abs(fh) ? plo : phi;
+  return { converged, iterations: it, point, parameterBracket: bracket, value: testValue(kind, point), interpolated: false };
+}
