@@ -14,8 +14,8 @@ export interface IntervalLabel {
 /**
  * Bands from interval labels (in increasing p): adjacent intervals of the same start with the same
  * regime become one band from the first interval's lower edge to the last one's upper edge; bounds
- * are the cut types at those two edges. Unlabelled intervals end a band and give none. Distinct
- * reasons of the merged intervals are kept in order, joined by '; then '.
+ * are the cut types at those two edges. Unlabelled intervals end a band and give none. The band's
+ * reason is its first interval's, with a count of how often the reason changes inside the band.
  */
 export function mergeBands(labels: readonly IntervalLabel[]): RegimeBand[] {
   const bands: RegimeBand[] = [];
@@ -24,7 +24,8 @@ export function mergeBands(labels: readonly IntervalLabel[]): RegimeBand[] {
     if (!cur) return;
     const band: RegimeBand = {
       from: cur.from, to: cur.to, regime: cur.regime, bounds: [cur.fromBound, cur.toBound],
-      reason: cur.reasons.join('; then '),
+      reason: cur.reasons.length === 1 ? cur.reasons[0]
+        : `${cur.reasons[0]} (the ways out change ${cur.reasons.length === 2 ? 'once' : `${cur.reasons.length - 1} times`} inside the band without changing the label; see the escape graphs)`,
       ...(cur.start === 'all-base' ? {} : { start: cur.start }),
     };
     bands.push(band);

@@ -88,7 +88,7 @@ describe('cutPoints and mergeBands', () => {
       ({ from, to, fromBound: `c${from}`, toBound: `c${to}`, regime, reason, start: 'all-base' as const });
     const bands = mergeBands([l(0, 1, 'weak', 'a'), l(1, 2, 'weak', 'b'), l(2, 3, null), l(3, 4, 'weak'), l(4, 5, 'strong')]);
     expect(bands).toEqual([
-      { from: 0, to: 2, regime: 'weak', bounds: ['c0', 'c2'], reason: 'a; then b' },
+      { from: 0, to: 2, regime: 'weak', bounds: ['c0', 'c2'], reason: 'a (the ways out change once inside the band without changing the label; see the escape graphs)' },
       { from: 3, to: 4, regime: 'weak', bounds: ['c3', 'c4'], reason: 'r' },
       { from: 4, to: 5, regime: 'strong', bounds: ['c4', 'c5'], reason: 'r' },
     ]);
