@@ -185,3 +185,6 @@ export function closeDbAfterAll(afterAll: (fn: () => Promise<void>) => void): vo
     await closeDb();
   });
 }
+
+/** PUBLIC_ORIGIN of the test server (links in mails start with it). */
+export const TEST_ORIGIN = (process.env.PUBLIC_ORIGIN ?? BASE_URL).replace(/\/$/, '');
