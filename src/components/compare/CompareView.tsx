@@ -1,0 +1,214 @@
+/**
+ * Two to four diagrams against one shared, locked parameter axis (zoom or pan one, all follow), side by
+ * side or overlaid, and a table aligning their special points and band edges by type with differences.
+ */
+import { useEffect, useMemo, useRef, useState } from 'react';
+import { scaleLinear, select, zoom, zoomIdentity, type ZoomTransform } from 'd3';
+import type { Diagram } from '../../lib/atlas/types';
+import { alignBandEdges, alignSpecialPoints, type AlignedRow } from '../../lib/plot/compare';
+import { diagramExtent, REGIME_LABEL, STABLE_WIDTH, UNSTABLE_DASH, UNSTABLE_WIDTH } from '../../lib/plot/figure';
+import { markerFillRule, markerPath, SPECIAL_LABEL } from '../../lib/plot/markers';
+import { project, projectionLabel, type Projection } from '../../lib/plot/projection';
+import { INDICATIVE_NOTE, type Provenance } from '../../lib/plot/provenance';
+import { splitRuns } from '../../lib/plot/runs';
+import { thinToBudget } from '../../lib/plot/thin';
+import { formatValue, linearAxis } from '../../lib/plot/ticks';
+import type { RegimeBand } from '../../lib/regimes/types';
+import { useWidth } from '../diagram/use-width';
+import '../diagram/diagram.css';
+
+export interface CompareItem {
+  readonly label: string;
+  readonly diagram: Diagram;
+  readonly regimes?: RegimeBand[];
+  readonly provenance?: Provenance;
+}
+
+export interface CompareViewProps {
+  /** Two to four diagrams; they must sweep the same parameter. */
+  readonly items: CompareItem[];
+  readonly initialMode?: 'side' | 'overlay';
+}
+
+const M = { left: 62, right: 12, top: 26, bottom: 40 };
+/** Overlay identities: colour plus a numeral beside every glyph, so diagrams differ without colour too. */
+const OVERLAY = ['var(--dg-stable)', 'var(--dg-mark-saddle-node)', 'var(--dg-mark-pitchfork)', 'var(--dg-mark-transcritical)'];
+
+function commonProjections(items: readonly CompareItem[]): { key: string; label: string; projection: Projection }[] {
+  const n = Math.min(...items.map((i) => i.diagram.variables.length));
+  const names = items[0].diagram.variables;
+  const out: { key: string; label: string; projection: Projection }[] = [];
+  for (let i = 0; i < n; i++) out.push({ key: `node:${i}`, label: projectionLabel({ kind: 'node', index: i }, names), projection: { kind: 'node', index: i } });
+  out.push({ key: 'mean', label: 'mean state', projection: { kind: 'mean' } });
+  out.push({ key: 'norm', label: 'Euclidean norm of the state', projection: { kind: 'norm' } });
+  return out;
+}
+
+function Panel({ items, indices, projection, transform, onZoom, width, height, overlay, pExtent }: {
+  items: readonly CompareItem[]; indices: number[]; projection: Projection; transform: ZoomTransform; onZoom: (t: ZoomTransform) => void;
+  width: number; height: number; overlay: boolean; pExtent: [number, number];
+}) {
+  const ref = useRef<SVGSVGElement>(null);
+  const plotW = Math.max(80, width - M.left - M.right), plotH = height - M.top - M.bottom;
+  const yExt = useMemo(() => {
+    let lo = Infinity, hi = -Infinity;
+    for (const i of indices) { const e = diagramExtent(items[i].diagram, projection).y; lo = Math.min(lo, e[0]); hi = Math.max(hi, e[1]); }
+    const s = (hi - lo) || 1;
+    return [lo - 0.06 * s, hi + 0.06 * s] as [number, number];
+  }, [items, indices, projection]);
+  const base = useMemo(() => scaleLinear().domain(pExtent).range([0, plotW]), [pExtent, plotW]);
+  const xs = transform.rescaleX(base);
+  const ys = scaleLinear().domain(yExt).range([plotH, 0]);
+  const xAxis = linearAxis(xs.domain() as [number, number], [0, plotW], Math.max(3, Math.round(plotW / 90)));
+  const yAxis = linearAxis(yExt, [plotH, 0], 5);
+
+  useEffect(() => {
+    const svg = ref.current;
+    if (!svg) return;
+    const z = zoom<SVGSVGElement, unknown>().scaleExtent([1, 5000]).extent([[M.left, M.top], [M.left + plotW, M.top + plotH]])
+      .translateExtent([[M.left, -Infinity], [M.left + plotW, Infinity]])
+      .on('zoom', (ev) => { if (ev.sourceEvent) onZoom(ev.transform); });
+    select(svg).call(z).on('dblclick.zoom', null);
+    return () => { select(svg).on('.zoom', null); };
+  }, [plotW, plotH, onZoom]);
+  useEffect(() => {
+    // Keep d3's own state in step with the shared transform set through the other panels.
+    if (ref.current) (ref.current as unknown as { __zoom: ZoomTransform }).__zoom = transform;
+  }, [transform]);
+
+  const clip = `cmp-clip-${indices.join('-')}-${overlay ? 'o' : 's'}`;
+  const [d0, d1] = xs.domain() as [number, number];
+  const budget = Math.round(plotW * 2);
+  return (
+    <svg ref={ref} width={width} height={height} className="dg-compare-panel" role="img"
+      aria-label={`${indices.map((i) => items[i].label).join(' and ')}: ${projectionLabel(projection, items[indices[0]].diagram.variables)} against ${items[0].diagram.parameter}`}>
+      <defs><clipPath id={clip}><rect width={plotW} height={plotH} /></clipPath></defs>
+      <g transform={`translate(${M.left},${M.top})`}>
+        <rect className="dg-plot-bg" width={plotW} height={plotH} />
+        <g clipPath={`url(#${clip})`}>
+          {!overlay && (items[indices[0]].regimes ?? []).map((b, k) => {
+            const x0 = xs(b.from), x1 = xs(b.to);
+            return x1 > 0 && x0 < plotW ? <rect key={k} className={`dg-band dg-band-${b.regime}`} x={x0} width={x1 - x0} height={plotH} /> : null;
+          })}
+          {xAxis.ticks.map((t) => <line key={t.value} className="dg-grid" x1={t.pos} x2={t.pos} y2={plotH} />)}
+          {yAxis.ticks.map((t) => <line key={t.value} className="dg-grid" x2={plotW} y1={t.pos} y2={t.pos} />)}
+          {indices.map((i) => items[i].diagram.branches.flatMap((b) => splitRuns(b).map((run) => {
+            const pts = b.points.slice(run.start, run.end + 1).filter((p, j, arr) => (p.p >= d0 && p.p <= d1) || (arr[j - 1] && arr[j - 1].p >= d0 && arr[j - 1].p <= d1) || (arr[j + 1] && arr[j + 1].p >= d0 && arr[j + 1].p <= d1));
+            if (pts.length < 2) return null;
+            const sx = pts.map((p) => xs(p.p)), sy = pts.map((p) => ys(project(p.x, projection)));
+            const keep = thinToBudget(sx, sy, budget);
+            const d = keep.map((k, j) => `${j ? 'L' : 'M'}${sx[k].toFixed(1)},${sy[k].toFixed(1)}`).join('');
+            return <path key={`${i}-${b.id}-${run.runIndex}`} d={d} fill="none" data-diagram={i} data-branch={b.id}
+              stroke={overlay ? OVERLAY[i] : run.stable ? 'var(--dg-stable)' : 'var(--dg-unstable)'}
+              strokeWidth={run.stable ? STABLE_WIDTH : UNSTABLE_WIDTH} strokeDasharray={run.stable ? undefined : UNSTABLE_DASH.join(' ')} strokeLinejoin="round" />;
+          })))}
+          {indices.map((i) => items[i].diagram.bifurcations.map((sp) => {
+            const cx = xs(sp.p), cy = ys(project(sp.x, projection));
+            if (cx < -8 || cx > plotW + 8) return null;
+            return (
+              <g key={`${i}-${sp.id}`} className={`dg-special-${sp.type}`} data-special-id={sp.id}>
+                <path className="dg-glyph" d={markerPath(sp.type, cx, cy, 6)} fillRule={markerFillRule(sp.type)} />
+                {overlay ? <text x={cx + 7} y={cy - 6} className="dg-overlay-num">{i + 1}</text> : null}
+                <title>{`${items[i].label}: ${SPECIAL_LABEL[sp.type]} at ${formatValue(sp.p)}`}</title>
+              </g>
+            );
+          }))}
+        </g>
+        <g className="dg-axis" transform={`translate(0,${plotH})`}>
+          <line x2={plotW} />
+          {xAxis.ticks.map((t) => <g key={t.value} transform={`translate(${t.pos},0)`}><line y2={5} /><text y={17} textAnchor="middle">{t.label}</text></g>)}
+          <text className="dg-axis-title" x={plotW / 2} y={34} textAnchor="middle">parameter {items[0].diagram.parameter}</text>
+        </g>
+        <g className="dg-axis">
+          <line y2={plotH} />
+          {yAxis.ticks.map((t) => <g key={t.value} transform={`translate(0,${t.pos})`}><line x2={-5} /><text x={-8} dy="0.32em" textAnchor="end">{t.label}</text></g>)}
+        </g>
+        <text x={0} y={-9} className="dg-compare-title">{overlay ? 'Overlay: ' + indices.map((i) => `${i + 1} = ${items[i].label}`).join(' · ') : items[indices[0]].label}</text>
+      </g>
+    </svg>
+  );
+}
+
+function AlignedTable({ caption, rows, labels, testId }: { caption: string; rows: AlignedRow[]; labels: string[]; testId: string }) {
+  if (!rows.length) return null;
+  return (
+    <table data-testid={testId}>
+      <caption>{caption}</caption>
+      <thead><tr><th scope="col">Matched</th>{labels.map((l, i) => <th key={i} scope="col">{l}</th>)}{labels.slice(1).map((l, i) => <th key={`d${i}`} scope="col">Δ {l} − {labels[0]}</th>)}</tr></thead>
+      <tbody>
+        {rows.map((r, k) => (
+          <tr key={k} className={r.values.some((v) => v == null) ? 'dg-row-missing' : ''}>
+            <th scope="row">{r.label}</th>
+            {r.values.map((v, i) => <td key={i} className="num">{v == null ? <em>none</em> : formatValue(v, 8)}</td>)}
+            {r.deltas.slice(1).map((d, i) => <td key={`d${i}`} className="num">{d == null ? '—' : (d >= 0 ? '+' : '') + formatValue(d, 4)}</td>)}
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+export function CompareView({ items, initialMode = 'side' }: CompareViewProps) {
+  const [wrapRef, width] = useWidth<HTMLDivElement>(960);
+  const [mode, setMode] = useState(initialMode);
+  const [transform, setTransform] = useState<ZoomTransform>(zoomIdentity);
+  const options = useMemo(() => commonProjections(items), [items]);
+  const [projKey, setProjKey] = useState(options[0].key);
+  const projection = options.find((o) => o.key === projKey)?.projection ?? options[0].projection;
+  const pExtent = useMemo(() => {
+    let lo = Infinity, hi = -Infinity;
+    for (const it of items) { const e = diagramExtent(it.diagram, projection).p; lo = Math.min(lo, e[0]); hi = Math.max(hi, e[1]); }
+    const s = (hi - lo) || 1;
+    return [lo - 0.02 * s, hi + 0.02 * s] as [number, number];
+  }, [items, projection]);
+  const special = useMemo(() => alignSpecialPoints(items.map((i) => i.diagram)), [items]);
+  const edges = useMemo(() => alignBandEdges(items.map((i) => i.regimes)), [items]);
+
+  if (items.length < 2 || items.length > 4) return <p className="dg-error" role="alert">Compare needs two to four diagrams (got {items.length}).</p>;
+  const params = new Set(items.map((i) => i.diagram.parameter));
+  if (params.size > 1) return <p className="dg-error" role="alert">These diagrams sweep different parameters ({[...params].join(', ')}); they cannot share one axis.</p>;
+
+  const labels = items.map((i) => i.label);
+  const cols = mode === 'overlay' ? 1 : items.length <= 2 ? items.length : 2;
+  const panelW = Math.floor((width - (cols - 1) * 12) / cols);
+  const panelH = mode === 'overlay' ? 400 : 300;
+  const zoomBy = (k: number) => setTransform((t) => {
+    const cx = (Math.max(80, panelW - M.left - M.right)) / 2 + M.left;
+    const nk = Math.min(5000, Math.max(1, t.k * k));
+    return zoomIdentity.translate(cx - ((cx - t.x) / t.k) * nk, 0).scale(nk);
+  });
+  return (
+    <section className="dg-diagram dg-compare" data-testid="compare-view" aria-label="Comparison of diagrams">
+      <div className="dg-toolbar" role="group" aria-label="Comparison controls">
+        <h3 className="dg-title">Comparing {labels.join(', ')}</h3>
+        <label className="dg-field"><span>Vertical axis</span>
+          <select value={projKey} onChange={(e) => setProjKey(e.target.value)}>{options.map((o) => <option key={o.key} value={o.key}>{o.label}</option>)}</select>
+        </label>
+        <div className="dg-buttons" role="radiogroup" aria-label="Layout">
+          <button type="button" role="radio" aria-checked={mode === 'side'} className={mode === 'side' ? 'is-on' : ''} onClick={() => setMode('side')}>Side by side</button>
+          <button type="button" role="radio" aria-checked={mode === 'overlay'} className={mode === 'overlay' ? 'is-on' : ''} onClick={() => setMode('overlay')}>Overlaid</button>
+        </div>
+        <div className="dg-buttons">
+          <button type="button" onClick={() => zoomBy(1.5)}>Zoom in</button>
+          <button type="button" onClick={() => zoomBy(1 / 1.5)}>Zoom out</button>
+          <button type="button" onClick={() => setTransform(zoomIdentity)}>Reset view</button>
+        </div>
+      </div>
+      <p className="dg-muted" style={{ margin: 0 }}>One parameter axis for all: zooming or panning any panel moves every panel.</p>
+      <div ref={wrapRef} className="dg-compare-grid" style={{ display: 'grid', gridTemplateColumns: `repeat(${cols}, minmax(0, 1fr))`, gap: 12 }}>
+        {mode === 'overlay'
+          ? <Panel items={items} indices={items.map((_, i) => i)} projection={projection} transform={transform} onZoom={setTransform} width={panelW} height={panelH} overlay pExtent={pExtent} />
+          : items.map((_, i) => <Panel key={i} items={items} indices={[i]} projection={projection} transform={transform} onZoom={setTransform} width={panelW} height={panelH} overlay={false} pExtent={pExtent} />)}
+      </div>
+      <div className="dg-tables">
+        <AlignedTable caption="Special points matched by type and order along the parameter" rows={special} labels={labels} testId="compare-special-table" />
+        <AlignedTable caption="Band edges matched by the regimes they separate" rows={edges} labels={labels} testId="compare-band-table" />
+        {!edges.length ? <p className="dg-muted">No regime bands to compare.</p> : null}
+        <p className="dg-muted">Bands: {items.map((it) => `${it.label}: ${(it.regimes ?? []).map((b) => REGIME_LABEL[b.regime]).join(' → ') || 'none'}`).join('; ')}</p>
+      </div>
+      <p className="dg-note">{INDICATIVE_NOTE}</p>
+    </section>
+  );
+}
+
+export default CompareView;

@@ -1,0 +1,401 @@
+/**
+ * The interactive diagram: branches against the swept parameter, drawn on a canvas (thinned to the
+ * visible pixels on every frame, so 50,000 points stay smooth), with SVG layers behind (regime bands,
+ * manual tags) and in front (axes, special-point glyphs, focus rings, hover) for crisp, focusable marks.
+ */
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { scaleLinear, select, zoom, zoomIdentity, type ZoomBehavior, type ZoomTransform } from 'd3';
+import type { SpecialPoint } from '../../lib/atlas/types';
+import { diagramExtent, REGIME_LABEL, STABLE_WIDTH, UNSTABLE_DASH, UNSTABLE_WIDTH } from '../../lib/plot/figure';
+import { markerFillRule, markerPath, SPECIAL_LABEL } from '../../lib/plot/markers';
+import type { PlotPalette } from '../../lib/plot/palette';
+import { availableProjections, project, projectionFromKey, projectionKey, projectionLabel, type Projection } from '../../lib/plot/projection';
+import { INDICATIVE_NOTE } from '../../lib/plot/provenance';
+import { splitRuns, type BranchRun } from '../../lib/plot/runs';
+import { decimateByPixel } from '../../lib/plot/thin';
+import { formatValue, integerTicks, linearAxis } from '../../lib/plot/ticks';
+import type { BandTag } from '../../lib/regimes/types';
+import { ExportMenu } from '../export/ExportMenu';
+import { DiagramTable } from './DiagramTable';
+import { Legend } from './Legend';
+import { SidePanel } from './SidePanel';
+import { readPalette, watchTheme } from './theme';
+import type { DiagramViewProps, Selection } from './types';
+import { useWidth } from './use-width';
+import './diagram.css';
+
+const M = { left: 66, right: 14, top: 30, bottom: 42 };
+const MARKER_R = 7;
+const HIT_PX = 9;
+
+interface Projected { readonly ps: Float64Array; readonly ys: Float64Array; readonly runs: BranchRun[] }
+interface Drawn { sx: Float32Array; sy: Float32Array; branch: Int32Array; index: Int32Array; n: number }
+
+export function DiagramView(props: DiagramViewProps) {
+  const { diagram, regimes = [], escapeGraphs = [], thresholds, provenance } = props;
+  const height = props.height ?? 420;
+  const [wrapRef, width] = useWidth<HTMLDivElement>();
+  const rootRef = useRef<HTMLDivElement>(null);
+  const canvasRef = useRef<HTMLCanvasElement>(null);
+  const overlayRef = useRef<SVGSVGElement>(null);
+  const zoomRef = useRef<ZoomBehavior<SVGSVGElement, unknown> | null>(null);
+  const drawnRef = useRef<Drawn>({ sx: new Float32Array(0), sy: new Float32Array(0), branch: new Int32Array(0), index: new Int32Array(0), n: 0 });
+
+  const options = useMemo(() => availableProjections(diagram, thresholds), [diagram, thresholds]);
+  const [projKey, setProjKey] = useState(() => props.initialProjection && options.some((o) => o.key === props.initialProjection) ? props.initialProjection : options[0]?.key ?? 'node:0');
+  const projection: Projection = useMemo(() => projectionFromKey(projKey, thresholds), [projKey, thresholds]);
+  const [transform, setTransform] = useState<ZoomTransform>(zoomIdentity);
+  const [zoomY, setZoomY] = useState(false);
+  const [showTags, setShowTags] = useState(true);
+  const [tags, setTags] = useState<BandTag[]>(props.tags ?? []);
+  const [selection, setSelection] = useState<Selection>(null);
+  const [hover, setHover] = useState<{ branch: number; index: number; sx: number; sy: number } | null>(null);
+  const [focusId, setFocusId] = useState<string | null>(null);
+  const [palette, setPalette] = useState<PlotPalette | null>(null);
+  const [drawnCount, setDrawnCount] = useState(0);
+
+  useEffect(() => setTags(props.tags ?? []), [props.tags]);
+
+  const plotW = Math.max(120, width - M.left - M.right);
+  const plotH = Math.max(120, height - M.top - M.bottom);
+
+  const projected: Projected[] = useMemo(() => diagram.branches.map((b) => {
+    const ps = new Float64Array(b.points.length), ys = new Float64Array(b.points.length);
+    b.points.forEach((pt, i) => { ps[i] = pt.p; ys[i] = project(pt.x, projection); });
+    return { ps, ys, runs: splitRuns(b) };
+  }), [diagram, projection]);
+  const totalPoints = useMemo(() => diagram.branches.reduce((s, b) => s + b.points.length, 0), [diagram]);
+
+  const ext = useMemo(() => diagramExtent(diagram, projection), [diagram, projection]);
+  const baseX = useMemo(() => {
+    const s = (ext.p[1] - ext.p[0]) || 1;
+    return scaleLinear().domain([ext.p[0] - 0.02 * s, ext.p[1] + 0.02 * s]).range([0, plotW]);
+  }, [ext, plotW]);
+  const baseY = useMemo(() => {
+    const s = (ext.y[1] - ext.y[0]) || 1;
+    const y0 = projection.kind === 'tipped' ? -0.3 : ext.y[0] - 0.06 * s, y1 = projection.kind === 'tipped' ? ext.y[1] + 0.3 : ext.y[1] + 0.06 * s;
+    return scaleLinear().domain([y0, y1]).range([plotH, 0]);
+  }, [ext, plotH, projection.kind]);
+  const xs = useMemo(() => transform.rescaleX(baseX), [transform, baseX]);
+  const ys = useMemo(() => (zoomY ? transform.rescaleY(baseY) : baseY), [transform, baseY, zoomY]);
+  const xDomain = xs.domain() as [number, number];
+  const yDomain = ys.domain() as [number, number];
+  const xAxis = linearAxis(xDomain, [0, plotW], Math.max(3, Math.round(plotW / 90)));
+  const yAxisFull = linearAxis(yDomain, [plotH, 0], Math.max(3, Math.round(plotH / 60)));
+  const yTicks = projection.kind === 'tipped' ? integerTicks(yAxisFull) : yAxisFull.ticks;
+
+  // Theme: read the CSS variables now and whenever <html> changes theme.
+  useEffect(() => {
+    const read = () => setPalette(readPalette(rootRef.current));
+    read();
+    return watchTheme(() => requestAnimationFrame(read));
+  }, []);
+
+  // d3-zoom on the overlay; the transform lives in React state, the axes follow it.
+  useEffect(() => {
+    const svg = overlayRef.current;
+    if (!svg) return;
+    const z = zoom<SVGSVGElement, unknown>()
+      .scaleExtent([1, 5000])
+      .extent([[M.left, M.top], [M.left + plotW, M.top + plotH]])
+      .translateExtent([[M.left - plotW * 0.02, -Infinity], [M.left + plotW * 1.02, Infinity]])
+      .filter((ev: MouseEvent) => (!ev.ctrlKey || ev.type === 'wheel') && !ev.button && (ev.type === 'wheel' || !(ev.target instanceof Element && ev.target.closest('.dg-focusable'))))
+      .on('zoom', (ev) => setTransform(ev.transform));
+    zoomRef.current = z;
+    select(svg).call(z).on('dblclick.zoom', null);
+    return () => { select(svg).on('.zoom', null); };
+  }, [plotW, plotH]);
+
+  const zoomBy = useCallback((k: number) => {
+    const svg = overlayRef.current;
+    if (svg && zoomRef.current) select(svg).call(zoomRef.current.scaleBy, k, [M.left + plotW / 2, M.top + plotH / 2]);
+  }, [plotW, plotH]);
+  const panBy = useCallback((dx: number, dy: number) => {
+    const svg = overlayRef.current;
+    if (svg && zoomRef.current) select(svg).call(zoomRef.current.translateBy, dx / transform.k, dy / transform.k);
+  }, [transform.k]);
+  const resetView = useCallback(() => {
+    const svg = overlayRef.current;
+    if (svg && zoomRef.current) select(svg).call(zoomRef.current.transform, zoomIdentity);
+  }, []);
+  useEffect(() => { resetView(); }, [projKey, zoomY, resetView]);
+
+  // Canvas: branches, thinned to the pixels in view.
+  useEffect(() => {
+    const canvas = canvasRef.current;
+    if (!canvas || !palette) return;
+    const dpr = window.devicePixelRatio || 1;
+    canvas.width = Math.round(plotW * dpr);
+    canvas.height = Math.round(plotH * dpr);
+    const ctx = canvas.getContext('2d');
+    if (!ctx) return;
+    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+    ctx.clearRect(0, 0, plotW, plotH);
+    ctx.lineJoin = 'round';
+    ctx.lineCap = 'round';
+    const [d0, d1] = xs.domain() as [number, number];
+    const ax = plotW / (d1 - d0), bx = -d0 * ax;
+    const [e0, e1] = ys.domain() as [number, number];
+    const ay = -plotH / (e1 - e0), by = plotH - e0 * ay;
+    const margin = plotW * 0.05;
+    let cap = 4096;
+    let out: Drawn = { sx: new Float32Array(cap), sy: new Float32Array(cap), branch: new Int32Array(cap), index: new Int32Array(cap), n: 0 };
+    const push = (x: number, y: number, b: number, i: number) => {
+      if (out.n === cap) {
+        cap *= 2;
+        const grow = <A extends Float32Array | Int32Array>(a: A, C: new (n: number) => A) => { const c = new C(cap); c.set(a); return c; };
+        out = { sx: grow(out.sx, Float32Array), sy: grow(out.sy, Float32Array), branch: grow(out.branch, Int32Array), index: grow(out.index, Int32Array), n: out.n };
+      }
+      out.sx[out.n] = x; out.sy[out.n] = y; out.branch[out.n] = b; out.index[out.n] = i; out.n++;
+    };
+    projected.forEach((pr, b) => {
+      for (const run of pr.runs) {
+        // Visible stretches of the run: points in view plus one neighbour on each side.
+        let segX: number[] = [], segY: number[] = [], segI: number[] = [];
+        const flush = () => {
+          if (segX.length >= 1) {
+            const keep = decimateByPixel(segX, segY, 0.8);
+            ctx.beginPath();
+            keep.forEach((k, j) => { if (j === 0) ctx.moveTo(segX[k], segY[k]); else ctx.lineTo(segX[k], segY[k]); push(segX[k], segY[k], b, segI[k]); });
+            ctx.strokeStyle = run.stable ? palette.stable : palette.unstable;
+            ctx.lineWidth = run.stable ? STABLE_WIDTH : UNSTABLE_WIDTH;
+            ctx.setLineDash(run.stable ? [] : UNSTABLE_DASH);
+            ctx.stroke();
+          }
+          segX = []; segY = []; segI = [];
+        };
+        for (let i = run.start; i <= run.end; i++) {
+          const x = ax * pr.ps[i] + bx;
+          const inView = (v: number) => v >= -margin && v <= plotW + margin;
+          const near = inView(x) || (i > run.start && inView(ax * pr.ps[i - 1] + bx)) || (i < run.end && inView(ax * pr.ps[i + 1] + bx));
+          if (near) { segX.push(x); segY.push(ay * pr.ys[i] + by); segI.push(i); } else if (segX.length) flush();
+        }
+        flush();
+      }
+    });
+    drawnRef.current = out;
+    setDrawnCount(out.n);
+  }, [projected, xs, ys, plotW, plotH, palette]);
+
+  const nearest = useCallback((mx: number, my: number) => {
+    const d = drawnRef.current;
+    let best = -1, bestD = HIT_PX * HIT_PX;
+    for (let k = 0; k < d.n; k++) {
+      const dx = d.sx[k] - mx, dy = d.sy[k] - my, q = dx * dx + dy * dy;
+      if (q < bestD) { bestD = q; best = k; }
+    }
+    return best < 0 ? null : { branch: d.branch[best], index: d.index[best], sx: d.sx[best], sy: d.sy[best] };
+  }, []);
+
+  const local = (ev: React.MouseEvent) => {
+    const r = overlayRef.current!.getBoundingClientRect();
+    return [ev.clientX - r.left - M.left, ev.clientY - r.top - M.top] as const;
+  };
+  const onMove = (ev: React.MouseEvent<SVGSVGElement>) => {
+    if (ev.buttons) return;
+    const [mx, my] = local(ev);
+    if (mx < 0 || my < 0 || mx > plotW || my > plotH) { setHover(null); return; }
+    setHover(nearest(mx, my));
+  };
+  const onClick = (ev: React.MouseEvent<SVGSVGElement>) => {
+    if ((ev.target as Element).closest('.dg-focusable')) return;
+    const [mx, my] = local(ev);
+    if (mx < 0 || my < 0 || mx > plotW || my > plotH) return;
+    const hit = nearest(mx, my);
+    if (hit) { setSelection({ kind: 'point', branch: hit.branch, index: hit.index }); return; }
+    const p = xs.invert(mx);
+    const bi = regimes.findIndex((b) => p >= b.from && p <= b.to);
+    if (bi >= 0) setSelection({ kind: 'band', index: bi });
+  };
+
+  const onKey = (ev: React.KeyboardEvent) => {
+    const t = ev.target as Element;
+    if (t.closest('input, select, textarea, button, .dg-side')) return;
+    const step = plotW * 0.08;
+    switch (ev.key) {
+      case '+': case '=': zoomBy(1.5); break;
+      case '-': case '_': zoomBy(1 / 1.5); break;
+      case 'ArrowLeft': if (t === overlayRef.current) panBy(step, 0); else return; break;
+      case 'ArrowRight': if (t === overlayRef.current) panBy(-step, 0); else return; break;
+      case '0': resetView(); break;
+      case 'Escape': setSelection(null); break;
+      default: return;
+    }
+    ev.preventDefault();
+  };
+
+  const specialsInView = diagram.bifurcations
+    .map((sp) => ({ sp, cx: xs(sp.p), cy: ys(project(sp.x, projection)) }))
+    .filter(({ cx, cy }) => cx >= -MARKER_R && cx <= plotW + MARKER_R && cy >= -MARKER_R && cy <= plotH + MARKER_R);
+
+  const openSpecial = (sp: SpecialPoint) => setSelection({ kind: 'special', id: sp.id });
+  const keyOpen = (ev: React.KeyboardEvent, open: () => void) => {
+    if (ev.key === 'Enter' || ev.key === ' ') { ev.preventDefault(); ev.stopPropagation(); open(); }
+  };
+
+  const addTag = async (tag: BandTag) => {
+    if (props.onAddTag) await props.onAddTag(tag);
+    else if (props.tagEndpoint) {
+      const res = await fetch(props.tagEndpoint, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(tag) });
+      if (!res.ok) {
+        let msg = `The server refused the tag (HTTP ${res.status}).`;
+        try { const j = await res.json(); if (j?.error?.message ?? j?.message) msg = j.error?.message ?? j.message; } catch { /* body was not JSON */ }
+        throw new Error(msg);
+      }
+    }
+    setTags((t) => [...t, tag]);
+  };
+
+  const hovered = hover ? diagram.branches[hover.branch]?.points[hover.index] : null;
+  const hoverY = hovered ? project(hovered.x, projection) : 0;
+  const yLabel = projectionLabel(projection, diagram.variables);
+  const clipId = useMemo(() => `dg-clip-${Math.random().toString(36).slice(2, 9)}`, []);
+
+  return (
+    <div ref={rootRef} className="dg-diagram" data-testid="diagram-view" data-total-points={totalPoints} data-drawn-points={drawnCount}
+      data-p-domain={`${xDomain[0]},${xDomain[1]}`} onKeyDown={onKey}>
+      <div className="dg-toolbar" role="group" aria-label="Diagram controls">
+        {props.title ? <h3 className="dg-title">{props.title}</h3> : null}
+        <label className="dg-field">
+          <span>Vertical axis</span>
+          <select value={projKey} onChange={(e) => setProjKey(e.target.value)} data-testid="projection-select">
+            {options.map((o) => <option key={o.key} value={o.key}>{o.label}</option>)}
+          </select>
+        </label>
+        <div className="dg-buttons">
+          <button type="button" onClick={() => zoomBy(1.5)} aria-label="Zoom in">Zoom in</button>
+          <button type="button" onClick={() => zoomBy(1 / 1.5)} aria-label="Zoom out">Zoom out</button>
+          <button type="button" onClick={resetView} data-testid="reset-view">Reset view</button>
+        </div>
+        <label className="dg-check"><input type="checkbox" checked={zoomY} onChange={(e) => setZoomY(e.target.checked)} /> Zoom vertical axis too</label>
+        <label className="dg-check"><input type="checkbox" checked={showTags} onChange={(e) => setShowTags(e.target.checked)} data-testid="toggle-tags" /> Show manual tags</label>
+        <ExportMenu diagram={diagram} projection={projection} regimes={regimes} escapeGraphs={escapeGraphs} tags={tags} showTags={showTags}
+          pDomain={xDomain} yDomain={yDomain} provenance={provenance} />
+      </div>
+
+      <div className="dg-main">
+        <div ref={wrapRef} className="dg-plot-wrap" style={{ height }}>
+          {/* Back layer: bands and manual tags. */}
+          <svg className="dg-layer" width={width} height={height} aria-hidden="true">
+            <defs><clipPath id={clipId}><rect x={0} y={0} width={plotW} height={plotH} /></clipPath></defs>
+            <g transform={`translate(${M.left},${M.top})`}>
+              <rect className="dg-plot-bg" width={plotW} height={plotH} />
+              <g clipPath={`url(#${clipId})`}>
+                {regimes.map((b, i) => {
+                  const x0 = Math.max(-2, xs(b.from)), x1 = Math.min(plotW + 2, xs(b.to));
+                  return x1 > x0 ? <rect key={i} className={`dg-band dg-band-${b.regime}`} x={x0} width={x1 - x0} y={0} height={plotH} /> : null;
+                })}
+                {xAxis.ticks.map((t) => <line key={`gx${t.value}`} className="dg-grid" x1={t.pos} x2={t.pos} y1={0} y2={plotH} />)}
+                {yTicks.map((t) => <line key={`gy${t.value}`} className="dg-grid" x1={0} x2={plotW} y1={t.pos} y2={t.pos} />)}
+                {showTags && tags.map((t, i) => {
+                  const x0 = Math.max(-2, xs(t.from)), x1 = Math.min(plotW + 2, xs(t.to));
+                  if (x1 <= x0) return null;
+                  return (
+                    <g key={i} className="dg-tag" data-testid="tag-layer-item">
+                      <rect x={x0} width={x1 - x0} y={0} height={plotH} fill={t.colour} fillOpacity={0.08} />
+                      <rect x={x0} width={x1 - x0} y={plotH - 6} height={6} fill={t.colour} />
+                      <line x1={x0} x2={x0} y1={0} y2={plotH} stroke={t.colour} strokeDasharray="2 3" />
+                      <line x1={x1} x2={x1} y1={0} y2={plotH} stroke={t.colour} strokeDasharray="2 3" />
+                      <text x={x0 + 4} y={plotH - 10} className="dg-tag-label">{t.name}</text>
+                    </g>
+                  );
+                })}
+              </g>
+            </g>
+          </svg>
+          <canvas ref={canvasRef} className="dg-layer dg-canvas" data-testid="diagram-canvas"
+            style={{ left: M.left, top: M.top, width: plotW, height: plotH }} aria-hidden="true" />
+          {/* Front layer: axes, glyphs, hover; receives zoom and pan. */}
+          <svg ref={overlayRef} className="dg-layer dg-overlay" width={width} height={height} tabIndex={0}
+            role="application" aria-label={`Diagram of ${yLabel} against ${diagram.parameter}. Plus and minus zoom, arrow keys pan, 0 resets. Tab reaches the special points and bands.`}
+            onMouseMove={onMove} onMouseLeave={() => setHover(null)} onClick={onClick}>
+            <g transform={`translate(${M.left},${M.top})`}>
+              <rect width={plotW} height={plotH} fill="transparent" />
+              {/* Band ribbon above the plot: the regime labels, focusable. */}
+              {regimes.map((b, i) => {
+                const x0 = Math.max(0, xs(b.from)), x1 = Math.min(plotW, xs(b.to));
+                if (x1 - x0 < 3) return null;
+                const label = x1 - x0 > 150 ? REGIME_LABEL[b.regime] : x1 - x0 > 60 ? b.regime : '';
+                const selected = selection?.kind === 'band' && selection.index === i;
+                return (
+                  <g key={i} className={`dg-focusable dg-ribbon dg-ribbon-${b.regime}${selected ? ' is-selected' : ''}`} role="button" tabIndex={0}
+                    data-testid="band-ribbon" aria-label={`${REGIME_LABEL[b.regime]} band from ${formatValue(b.from)} to ${formatValue(b.to)}. Open its reason and escape graph.`}
+                    onClick={(e) => { e.stopPropagation(); setSelection({ kind: 'band', index: i }); }} onKeyDown={(e) => keyOpen(e, () => setSelection({ kind: 'band', index: i }))}>
+                    <rect x={x0 + 0.5} y={-24} width={x1 - x0 - 1} height={18} rx={2} />
+                    {label ? <text x={(x0 + x1) / 2} y={-11} textAnchor="middle">{label}</text> : null}
+                  </g>
+                );
+              })}
+              {/* Axes. */}
+              <g className="dg-axis" transform={`translate(0,${plotH})`}>
+                <line x1={0} x2={plotW} />
+                {xAxis.ticks.map((t) => (
+                  <g key={t.value} transform={`translate(${t.pos},0)`}><line y2={5} /><text y={18} textAnchor="middle">{t.label}</text></g>
+                ))}
+                <text className="dg-axis-title" x={plotW / 2} y={36} textAnchor="middle">parameter {diagram.parameter}</text>
+              </g>
+              <g className="dg-axis">
+                <line y1={0} y2={plotH} />
+                {yTicks.map((t) => (
+                  <g key={t.value} transform={`translate(0,${t.pos})`}><line x2={-5} /><text x={-8} dy="0.32em" textAnchor="end">{t.label}</text></g>
+                ))}
+                <text className="dg-axis-title" transform={`translate(${-M.left + 14},${plotH / 2}) rotate(-90)`} textAnchor="middle">{yLabel}</text>
+              </g>
+              {/* Hover crosshair. */}
+              {hover && hovered ? (
+                <g className="dg-hover" pointerEvents="none">
+                  <line x1={hover.sx} x2={hover.sx} y1={0} y2={plotH} />
+                  <circle cx={hover.sx} cy={hover.sy} r={4.5} />
+                </g>
+              ) : null}
+              {selection?.kind === 'point' ? (() => {
+                const pt = diagram.branches[selection.branch]?.points[selection.index];
+                if (!pt) return null;
+                return <circle className="dg-selected-point" cx={xs(pt.p)} cy={ys(project(pt.x, projection))} r={6} pointerEvents="none" />;
+              })() : null}
+              {/* Special points. */}
+              <g clipPath={`url(#${clipId}-o)`}>
+                {specialsInView.map(({ sp, cx, cy }) => {
+                  const selected = selection?.kind === 'special' && selection.id === sp.id;
+                  return (
+                    <g key={sp.id} className={`dg-focusable dg-special dg-special-${sp.type}${selected ? ' is-selected' : ''}`} transform={`translate(${cx},${cy})`}
+                      role="button" tabIndex={0} data-special-id={sp.id} data-type={sp.type}
+                      aria-label={`${SPECIAL_LABEL[sp.type]} at ${diagram.parameter} = ${formatValue(sp.p)}, ${yLabel} ${formatValue(project(sp.x, projection))}. Open details.`}
+                      onFocus={() => setFocusId(sp.id)} onBlur={() => setFocusId((f) => (f === sp.id ? null : f))}
+                      onClick={(e) => { e.stopPropagation(); openSpecial(sp); }} onKeyDown={(e) => keyOpen(e, () => openSpecial(sp))}>
+                      <title>{`${SPECIAL_LABEL[sp.type]} at ${formatValue(sp.p)}`}</title>
+                      <circle className="dg-hit" r={MARKER_R + 4} />
+                      {focusId === sp.id || selected ? <circle className="dg-focus-ring" r={MARKER_R + 4} /> : null}
+                      <path d={markerPath(sp.type, 0, 0, MARKER_R)} fillRule={markerFillRule(sp.type)} className="dg-glyph" />
+                    </g>
+                  );
+                })}
+              </g>
+              <defs><clipPath id={`${clipId}-o`}><rect x={-MARKER_R - 2} y={-MARKER_R - 2} width={plotW + 2 * MARKER_R + 4} height={plotH + 2 * MARKER_R + 4} /></clipPath></defs>
+            </g>
+          </svg>
+          {hover && hovered ? (
+            <div className="dg-tooltip" role="status" style={{ left: Math.min(M.left + hover.sx + 14, width - 220), top: Math.max(4, M.top + hover.sy - 70) }}>
+              <div className="dg-tooltip-head">Branch {diagram.branches[hover.branch].id} · point {hover.index}</div>
+              <div><span>{diagram.parameter}</span> <b>{formatValue(hovered.p)}</b></div>
+              <div><span>{yLabel}</span> <b>{formatValue(hoverY)}</b></div>
+              <div>{hovered.unstable === 0 ? 'stable' : `unstable (${hovered.unstable} eigenvalue${hovered.unstable > 1 ? 's' : ''} with positive real part)`}</div>
+            </div>
+          ) : null}
+        </div>
+        <SidePanel diagram={diagram} projection={projection} selection={selection} regimes={regimes} escapeGraphs={escapeGraphs}
+          canTag={Boolean(props.canTag && (props.onAddTag || props.tagEndpoint))} onAddTag={addTag} onClose={() => { setSelection(null); overlayRef.current?.focus(); }} />
+      </div>
+
+      <div className="dg-status" aria-live="polite">
+        Showing {diagram.parameter} from <b>{formatValue(xDomain[0], 4)}</b> to <b>{formatValue(xDomain[1], 4)}</b> · {drawnCount.toLocaleString('en')} of {totalPoints.toLocaleString('en')} points drawn
+      </div>
+      <Legend regimes={regimes} showTags={showTags && tags.length > 0} />
+      <p className="dg-note">{INDICATIVE_NOTE}</p>
+      <DiagramTable diagram={diagram} projection={projection} regimes={regimes} tags={tags} onOpenSpecial={(id) => setSelection({ kind: 'special', id })} />
+    </div>
+  );
+}
+
+export default DiagramView;
+export { projectionKey };

@@ -1,0 +1,159 @@
+/** Details of the selected branch point, special point or band. */
+import { useEffect, useRef, useState } from 'react';
+import type { Diagram, Eigenvalue } from '../../lib/atlas/types';
+import { REGIME_LABEL } from '../../lib/plot/figure';
+import { markerFillRule, markerPath, SPECIAL_DESCRIPTION, SPECIAL_LABEL } from '../../lib/plot/markers';
+import { project, projectionLabel, type Projection } from '../../lib/plot/projection';
+import { formatValue } from '../../lib/plot/ticks';
+import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
+import { EscapeGraphDrawing } from './EscapeGraphDrawing';
+import type { Selection } from './types';
+
+interface Props {
+  diagram: Diagram; projection: Projection; selection: Selection; regimes: readonly RegimeBand[]; escapeGraphs: readonly EscapeGraph[];
+  canTag: boolean; onAddTag: (tag: BandTag) => Promise<void>; onClose: () => void;
+}
+
+function StateTable({ names, x, projection }: { names: readonly string[]; x: readonly number[]; projection: Projection }) {
+  return (
+    <table className="dg-kv">
+      <caption>State</caption>
+      <tbody>
+        {names.map((n, i) => <tr key={n}><th scope="row">{n}</th><td className="num">{formatValue(x[i], 10)}</td></tr>)}
+        <tr className="dg-kv-sep"><th scope="row">{projectionLabel(projection, names)}</th><td className="num">{formatValue(project(x, projection), 10)}</td></tr>
+      </tbody>
+    </table>
+  );
+}
+
+function EigenTable({ values }: { values?: readonly Eigenvalue[] }) {
+  if (!values?.length) return <p className="dg-muted">Eigenvalues were not stored for this point.</p>;
+  const sorted = [...values].sort((a, b) => b.re - a.re);
+  return (
+    <table className="dg-kv">
+      <caption>Eigenvalues of the Jacobian (largest real part first)</caption>
+      <thead><tr><th scope="col">Real part</th><th scope="col">Imaginary part</th></tr></thead>
+      <tbody>{sorted.map((e, i) => <tr key={i} className={e.re > 0 ? 'is-positive' : ''}><td className="num">{formatValue(e.re, 8)}</td><td className="num">{formatValue(e.im, 8)}</td></tr>)}</tbody>
+    </table>
+  );
+}
+
+function Evidence({ evidence }: { evidence: Record<string, unknown> }) {
+  const rest = Object.entries(evidence).filter(([k]) => k !== 'reason');
+  if (!rest.length) return null;
+  const show = (v: unknown): string => typeof v === 'number' ? formatValue(v, 8) : Array.isArray(v) ? v.map(show).join(', ') : typeof v === 'object' && v ? JSON.stringify(v) : String(v);
+  return (
+    <table className="dg-kv"><caption>Evidence</caption>
+      <tbody>{rest.map(([k, v]) => <tr key={k}><th scope="row">{k}</th><td className="num">{show(v)}</td></tr>)}</tbody>
+    </table>
+  );
+}
+
+function TagForm({ band, onAddTag }: { band: RegimeBand; onAddTag: (tag: BandTag) => Promise<void> }) {
+  const [name, setName] = useState('');
+  const [colour, setColour] = useState('#2f7d6d');
+  const [note, setNote] = useState('');
+  const [from, setFrom] = useState(String(band.from));
+  const [to, setTo] = useState(String(band.to));
+  const [error, setError] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+  const [done, setDone] = useState(false);
+  const submit = async (e: React.FormEvent) => {
+    e.preventDefault();
+    setError(null); setDone(false);
+    const f = Number(from), t = Number(to);
+    if (!name.trim()) { setError('Give the tag a name.'); return; }
+    if (!Number.isFinite(f) || !Number.isFinite(t) || f >= t) { setError('“From” must be a number smaller than “to”.'); return; }
+    setBusy(true);
+    try { await onAddTag({ from: f, to: t, name: name.trim(), colour, note }); setDone(true); setName(''); setNote(''); }
+    catch (err) { setError(err instanceof Error ? err.message : 'The tag could not be saved.'); }
+    finally { setBusy(false); }
+  };
+  return (
+    <form className="dg-tag-form" onSubmit={submit} data-testid="tag-form">
+      <h4>Add a tag to this range</h4>
+      <p className="dg-muted">Your tag is stored beside the automatic label; it never replaces it.</p>
+      <label>Name <input value={name} onChange={(e) => setName(e.target.value)} required maxLength={80} /></label>
+      <div className="dg-row">
+        <label>From <input value={from} onChange={(e) => setFrom(e.target.value)} inputMode="decimal" /></label>
+        <label>To <input value={to} onChange={(e) => setTo(e.target.value)} inputMode="decimal" /></label>
+        <label>Colour <input type="color" value={colour} onChange={(e) => setColour(e.target.value)} /></label>
+      </div>
+      <label>Note <textarea value={note} onChange={(e) => setNote(e.target.value)} rows={2} maxLength={2000} /></label>
+      {error ? <p className="dg-error" role="alert">{error}</p> : null}
+      {done ? <p className="dg-ok" role="status">Tag added.</p> : null}
+      <button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Add tag'}</button>
+    </form>
+  );
+}
+
+export function SidePanel({ diagram, projection, selection, regimes, escapeGraphs, canTag, onAddTag, onClose }: Props) {
+  const headRef = useRef<HTMLHeadingElement>(null);
+  useEffect(() => { if (selection) headRef.current?.focus(); }, [selection]);
+  const close = <button type="button" className="dg-close" onClick={onClose} aria-label="Close details">Close</button>;
+  const onKey = (e: React.KeyboardEvent) => { if (e.key === 'Escape') { e.stopPropagation(); onClose(); } };
+
+  let body: React.ReactNode;
+  if (!selection) {
+    body = (
+      <div className="dg-panel-empty">
+        <h3 className="dg-panel-title">Details</h3>
+        <p>Click a branch, a special-point glyph or a band (or tab to one and press Enter) to read its values here.</p>
+        <p className="dg-muted">Drag to pan, scroll to zoom the parameter axis; + and − zoom, 0 resets.</p>
+      </div>
+    );
+  } else if (selection.kind === 'point') {
+    const b = diagram.branches[selection.branch];
+    const pt = b?.points[selection.index];
+    body = pt ? (
+      <>
+        <h3 className="dg-panel-title" tabIndex={-1} ref={headRef}>Branch {b.id}, point {selection.index}</h3>{close}
+        <dl className="dg-dl">
+          <dt>{diagram.parameter}</dt><dd className="num">{formatValue(pt.p, 10)}</dd>
+          <dt>Stability</dt><dd>{pt.unstable === 0 ? 'stable (all eigenvalues have negative real part)' : `unstable: ${pt.unstable} eigenvalue${pt.unstable > 1 ? 's' : ''} with positive real part`}</dd>
+        </dl>
+        <StateTable names={diagram.variables} x={pt.x} projection={projection} />
+        <EigenTable values={pt.eigenvalues} />
+      </>
+    ) : null;
+  } else if (selection.kind === 'special') {
+    const sp = diagram.bifurcations.find((s) => s.id === selection.id);
+    body = sp ? (
+      <>
+        <h3 className="dg-panel-title" tabIndex={-1} ref={headRef}>
+          <svg width={18} height={18} aria-hidden="true" className={`dg-special-${sp.type}`}><path className="dg-glyph" d={markerPath(sp.type, 9, 9, 7)} fillRule={markerFillRule(sp.type)} /></svg>
+          {SPECIAL_LABEL[sp.type]}
+        </h3>{close}
+        <p className="dg-muted">{SPECIAL_DESCRIPTION[sp.type]}</p>
+        <dl className="dg-dl">
+          <dt>{diagram.parameter}</dt><dd className="num" data-testid="special-p">{formatValue(sp.p, 10)}</dd>
+          <dt>Branches</dt><dd>{sp.branches.join(', ') || '—'}</dd>
+          {sp.frequency != null ? <><dt>Frequency</dt><dd className="num">{formatValue(sp.frequency, 8)} (imaginary part of the critical pair)</dd></> : null}
+        </dl>
+        <h4>Why this type</h4>
+        <p className="dg-reason" data-testid="special-reason">{sp.evidence.reason}</p>
+        {sp.note ? <p className="dg-warn">{sp.note}</p> : null}
+        <StateTable names={diagram.variables} x={sp.x} projection={projection} />
+        <Evidence evidence={sp.evidence} />
+      </>
+    ) : null;
+  } else {
+    const band = regimes[selection.index];
+    const graph = band ? escapeGraphs.find((g) => g.p >= band.from && g.p <= band.to) : undefined;
+    body = band ? (
+      <>
+        <h3 className="dg-panel-title" tabIndex={-1} ref={headRef}><span className={`dg-swatch dg-band-${band.regime}`} aria-hidden="true" />{REGIME_LABEL[band.regime]}</h3>{close}
+        <dl className="dg-dl">
+          <dt>Range</dt><dd className="num">{formatValue(band.from, 8)} to {formatValue(band.to, 8)}</dd>
+          <dt>Bounded by</dt><dd>{band.bounds.join(' and ')}</dd>
+        </dl>
+        <h4>Reason</h4>
+        <p className="dg-reason" data-testid="band-reason">{band.reason}</p>
+        <h4>Escape graph{graph ? ` at ${diagram.parameter} = ${formatValue(graph.p)}` : ''}</h4>
+        {graph ? <EscapeGraphDrawing graph={graph} names={diagram.variables} /> : <p className="dg-muted">No escape graph was stored for this band.</p>}
+        {canTag ? <TagForm key={selection.index} band={band} onAddTag={onAddTag} /> : null}
+      </>
+    ) : null;
+  }
+  return <aside className="dg-side" aria-label="Details of the selection" data-testid="side-panel" onKeyDown={onKey}>{body}</aside>;
+}
