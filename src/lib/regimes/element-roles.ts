@@ -1,6 +1,7 @@
 import type { CompiledSystem } from '../model/compiled-system';
 import type { Diagnostic, Diagram } from '../atlas/types';
 import type { GivenRoles } from './options';
+import { findScalarRoots } from '../numerics/index';
 
 /** Roles of the three equilibria of one node's uncoupled element: base < threshold < tipped. */
 export interface NodeRoles { readonly base: number; readonly threshold: number; readonly tipped: number }
@@ -9,58 +10,6 @@ export interface ElementRolesResult {
   /** One entry per node; null where the element does not have the bistable shape. */
   readonly roles: (NodeRoles | null)[];
   readonly diagnostics: Diagnostic[];
-}
-
-/**
- * Roots of a scalar function on [lo, hi]: sign changes on a uniform grid of `points` values, each
- * bracket refined by Newton's method safeguarded by bisection (a Newton step leaving the bracket is
- * replaced by the midpoint), to |bracket| < 1e-14 (1 + |x|) or |f| = 0, at most 200 iterations.
- * Roots of even multiplicity (no sign change) are not found: an element touching zero at a fold is
- * not treated as bistable, which is what regimes need. Method: Press et al., Numerical Recipes,
- * 3rd ed., section 9.4 ("rtsafe").
- */
-export function scalarRoots(
-  f: (x: number) => number,
-  df: (x: number) => number,
-  lo: number,
-  hi: number,
-  points: number,
-): number[] {
-  const roots: number[] = [];
-  const h = (hi - lo) / (points - 1);
-  let xa = lo;
-  let fa = f(xa);
-  for (let k = 1; k < points; k++) {
-    const xb = k === points - 1 ? hi : lo + k * h;
-    const fb = f(xb);
-    if (fa === 0) roots.push(xa);
-    else if (fa * fb < 0) roots.push(refineBracket(f, df, xa, xb, fa));
-    xa = xb;
-    fa = fb;
-  }
-  if (fa === 0) roots.push(xa);
-  return roots;
-}
-
-function refineBracket(f: (x: number) => number, df: (x: number) => number, a: number, b: number, fa: number): number {
-  let lo = a;
-  let hi = b;
-  // orient so that f(lo) < 0 < f(hi)
-  if (fa > 0) { lo = b; hi = a; }
-  let x = 0.5 * (a + b);
-  for (let it = 0; it < 200; it++) {
-    const fx = f(x);
-    if (fx === 0) return x;
-    if (fx < 0) lo = x; else hi = x;
-    const d = df(x);
-    let next = d !== 0 ? x - fx / d : NaN;
-    const left = Math.min(lo, hi);
-    const right = Math.max(lo, hi);
-    if (!(next > left && next < right)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - x) < 1e-14 * (1 + Math.abs(x)) || right - left < 1e-14 * (1 + Math.abs(x))) return next;
-    x = next;
-  }
-  return x;
 }
 
 /** Per-variable range of the diagram's branch points, widened by max(span, 1) on each side. */
@@ -82,7 +31,9 @@ export function stateRanges(diagram: Diagram, dimension: number): [number, numbe
 
 /**
  * Base, threshold and tipped equilibrium of every node's uncoupled element f_i(x; p) at parameter p:
- * the roots of f_i on the node's scan range must be exactly three, with df_i/dx < 0, > 0, < 0 in
+ * the roots of f_i on the node's scan range (the engine's findScalarRoots: sign changes on scanPoints - 1
+ * equal cells, refined by Newton with bisection fallback; double roots are not found, so an element
+ * touching zero at its own fold is not bistable) must be exactly three, with df_i/dx < 0, > 0, < 0 in
  * increasing x (lower stable = base, unstable = threshold, upper stable = tipped). Anything else
  * yields null for that node and an error diagnostic with code "regimes-undefined".
  * `given` replaces the analysis by roles the model states (checked only for base < threshold < tipped).
@@ -121,7 +72,7 @@ export function elementRoles(
     const [lo, hi] = ranges[i];
     const f = (x: number) => net.elementRate(i, x, p);
     const df = (x: number) => net.elementDerivative(i, x, p);
-    const roots = scalarRoots(f, df, lo, hi, scanPoints);
+    const roots = findScalarRoots(f, df, lo, hi, { cells: scanPoints - 1 }).roots;
     const slopes = roots.map(df);
     const shapeOk = roots.length === 3 && slopes[0] < 0 && slopes[1] > 0 && slopes[2] < 0;
     if (shapeOk) {

@@ -1,7 +1,7 @@
 export * from './types';
 export { labelRegimes, type RegimeResult } from './label-regimes';
 export { defaultRegimeOptions, resolveOptions, type RegimeOptions, type GivenRoles } from './options';
-export { elementRoles, scalarRoots, stateRanges, type NodeRoles, type ElementRolesResult } from './element-roles';
+export { elementRoles, stateRanges, type NodeRoles, type ElementRolesResult } from './element-roles';
 export { patternOf, progressOf, countTipped } from './pattern';
 export { equilibriaAt, isStable, isIndexOneSaddle, type Equilibrium } from './equilibria-at';
 export { buildEscapeGraph, slowPassageTime, type EscapeGraphResult, type ManifoldBranch } from './escape-graph';

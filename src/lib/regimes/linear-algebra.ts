@@ -1,5 +1,5 @@
-import { EigenvalueDecomposition, LuDecomposition, Matrix } from 'ml-matrix';
 import type { CompiledSystem } from '../model/compiled-system';
+import { DenseLu, eigenvalues, newton } from '../numerics/index';
 
 export interface FixedPointResult {
   readonly converged: boolean;
@@ -10,10 +10,9 @@ export interface FixedPointResult {
 }
 
 /**
- * Newton's method for F(x, p) = 0 at fixed p: x <- x - J_x^{-1} F, J_x solved by LU (ml-matrix).
- * Stops when max|F| <= tolerance, or the step is below 1e-15 (1 + |x|) with max|F| <= 1e3 tolerance;
- * gives up after maxIterations or on a singular Jacobian (converged false). x0 is not mutated.
- * Reference: Deuflhard, Newton Methods for Nonlinear Problems (2004), ch. 1.
+ * Newton's method for F(x, p) = 0 at fixed p: the engine's damped Newton (numerics/newton.ts) with
+ * residual tolerance `tolerance` (max norm) and iteration cap `maxIterations`; its step tolerance
+ * (1e-10 relative) is kept. Never throws; x0 is not mutated.
  */
 export function newtonAtFixedParameter(
   system: CompiledSystem,
@@ -22,69 +21,57 @@ export function newtonAtFixedParameter(
   tolerance: number,
   maxIterations: number,
 ): FixedPointResult {
-  const n = system.dimension;
-  const x = Float64Array.from(x0 as ArrayLike<number>);
-  const f = new Float64Array(n);
-  const jac = new Float64Array(n * n);
-  let residual = maxAbs(system.rates(x, p, f));
-  for (let it = 0; it <= maxIterations; it++) {
-    if (!Number.isFinite(residual)) return { converged: false, iterations: it, residual, x };
-    if (residual <= tolerance) return { converged: true, iterations: it, residual, x };
-    if (it === maxIterations) break;
-    system.jacobian(x, p, jac);
-    const lu = new LuDecomposition(toMatrix(jac, n));
-    if (lu.isSingular()) return { converged: false, iterations: it, residual, x };
-    const dx = lu.solve(Matrix.columnVector(Array.from(f)));
-    let stepSize = 0;
-    for (let i = 0; i < n; i++) {
-      const d = dx.get(i, 0);
-      x[i] -= d;
-      stepSize = Math.max(stepSize, Math.abs(d) / (1 + Math.abs(x[i])));
-    }
-    residual = maxAbs(system.rates(x, p, f));
-    if (stepSize < 1e-15 && residual <= 1e3 * tolerance) return { converged: true, iterations: it + 1, residual, x };
-  }
-  return { converged: false, iterations: maxIterations, residual, x };
+  const r = newton(system, x0, p, { residualTolerance: tolerance, maxIterations });
+  return { converged: r.converged, iterations: r.iterations, residual: r.residual, x: r.x };
 }
 
 export interface Spectrum {
   readonly re: number[];
   readonly im: number[];
-  /** Real eigenvector of eigenvalue k when its eigenvalue is real (unit length), else null. */
+  /** Unit eigenvector of eigenvalue k when it is real, else null. */
   vector(k: number): number[] | null;
 }
 
 /**
- * Eigenvalues and eigenvectors of a real n x n matrix (row-major), by ml-matrix's
- * EigenvalueDecomposition (Hessenberg reduction and shifted QR, after the EISPACK hqr2 routine).
+ * Eigenvalues of a real n x n matrix (row-major) by the engine's `eigenvalues` (numerics), and on
+ * request the eigenvector of a real eigenvalue lambda by inverse iteration with the shift
+ * mu = lambda + 1e-8 max(1, |lambda|): (J - mu I) y_{k+1} = y_k, normalized, three times from a fixed
+ * start; each pass shrinks the other components by |lambda - mu| / |lambda_j - mu| (Golub & Van Loan,
+ * Matrix Computations, 4th ed., §7.6.1). Returns null when the shifted matrix stays singular.
  */
 export function spectrum(jac: Float64Array, n: number): Spectrum {
-  const evd = new EigenvalueDecomposition(toMatrix(jac, n));
-  const re = evd.realEigenvalues;
-  const im = evd.imaginaryEigenvalues;
-  const V = evd.eigenvectorMatrix;
+  const s = eigenvalues(jac, n);
+  const re = Array.from(s.re);
+  const im = Array.from(s.im);
   return {
     re, im,
     vector(k: number) {
-      if (im[k] !== 0) return null;
-      const v = V.getColumn(k);
-      const norm = Math.hypot(...v);
-      return norm > 0 ? v.map((c) => c / norm) : null;
+      if (im[k] !== 0 || !s.ok) return null;
+      return realEigenvector(jac, n, re[k]);
     },
   };
 }
 
-function toMatrix(a: Float64Array, n: number): Matrix {
-  const m = new Matrix(n, n);
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) m.set(i, j, a[i * n + j]);
-  return m;
-}
-
-function maxAbs(v: Float64Array): number {
-  let m = 0;
-  for (let i = 0; i < v.length; i++) {
-    const a = Math.abs(v[i]);
-    if (!(a <= m)) m = a; // NaN propagates
+function realEigenvector(jac: Float64Array, n: number, lambda: number): number[] | null {
+  for (const scale of [1e-8, 1e-6]) {
+    const mu = lambda + scale * Math.max(1, Math.abs(lambda));
+    const shifted = Float64Array.from(jac);
+    for (let i = 0; i < n; i++) shifted[i * n + i] -= mu;
+    const lu = new DenseLu(shifted, n);
+    // Fixed, non-symmetric start so that no component of an eigenvector is missed by symmetry.
+    let y: ArrayLike<number> = Array.from({ length: n }, (_, i) => 1 + 0.1 * Math.sin(i + 1));
+    let ok = true;
+    for (let pass = 0; pass < 3; pass++) {
+      const z = lu.solve(y);
+      if (z === null) { ok = false; break; }
+      let norm = 0;
+      for (let i = 0; i < n; i++) norm += z[i] * z[i];
+      norm = Math.sqrt(norm);
+      if (!(norm > 0) || !Number.isFinite(norm)) { ok = false; break; }
+      for (let i = 0; i < n; i++) z[i] /= norm;
+      y = z;
+    }
+    if (ok) return Array.from(y);
   }
-  return m;
+  return null;
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { compileModelJson } from '../../../src/lib/model/index';
-import { classifyEdge, cutPoints, elementRoles, mergeBands, patternOf, progressOf, scalarRoots, validateBandTag, BAND_TAG_NOTE_MAX, defaultRegimeOptions } from '../../../src/lib/regimes/index';
+import { classifyEdge, cutPoints, elementRoles, mergeBands, patternOf, progressOf, validateBandTag, BAND_TAG_NOTE_MAX, defaultRegimeOptions } from '../../../src/lib/regimes/index';
 import type { Diagram, SpecialPoint } from '../../../src/lib/atlas/types';
 import { cubicNetwork, cubicRoots } from './fixtures';
 
@@ -27,13 +27,6 @@ describe('elementRoles', () => {
     expect(res.roles[0]).not.toBeNull();
     expect(res.roles[1]).toBeNull();
     expect(res.diagnostics[0].message).toContain("node 'v'");
-  });
-
-  it('scalarRoots finds the roots of (x - 1)(x - 2)(x - 3) on a coarse grid', () => {
-    const f = (x: number) => (x - 1) * (x - 2) * (x - 3);
-    const df = (x: number) => 3 * x * x - 12 * x + 11;
-    const roots = scalarRoots(f, df, 0, 4.1, 17);
-    expect(roots.map((r) => Math.abs(r - Math.round(r)) < 1e-13)).toEqual([true, true, true]);
   });
 });
 
