@@ -14,6 +14,8 @@
  * returns arrives as `v` in `path` and `body`.
  */
 import type { Client, WorkspaceFixture } from './helpers.ts';
+import { serviceRoutes } from './route-matrix-service.ts';
+import { editorRoutes } from './route-matrix-editor.ts';
 
 export type Caller = 'signedOut' | 'outsider' | 'owner' | 'modeler' | 'reviewer';
 export type Vars = Record<string, string>;
@@ -159,4 +161,6 @@ export const routeMatrix: RouteCase[] = [
     note: 'active-workspace route: the outsider names workspace A and is not a member → 404',
   },
   // Other engineers: spread your rows in here, e.g. ...modelRoutes,
+  ...serviceRoutes,
+  ...editorRoutes,
 ];
