@@ -4,3 +4,4 @@ export { defaultTraceSettings, type TraceSettings, type ResolvedTraceSettings } 
 export { findStartingEquilibria, isUncoupledAt, type StartingEquilibria } from './starting-equilibria.js';
 export { ENGINE_VERSION } from './engine-version.js';
 export { SAME_POINT_PARAMETER, SAME_POINT_STATE } from './special-point-registry.js';
+export { toTraceJson, type TraceJson } from './trace-json.js';

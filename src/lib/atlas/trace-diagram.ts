@@ -59,21 +59,6 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
   const width = Math.abs(s.to - s.from);
   const lo = Math.min(s.from, s.to);
   const hi = Math.max(s.from, s.to);
-  const copts: ContinuationOptions = {
-    lo,
-    hi,
-    initialStep: s.initialStep * width,
-    minStep: s.minStep * width,
-    maxStep: s.maxStep * width,
-    maxParameterStep: s.maxParameterStep * width,
-    maxTurn: s.maxTurn,
-    maxPoints: Math.max(2, Math.floor(s.maxPointsPerBranch / 2)),
-    stateBound: s.stateBound,
-    residualTolerance: s.residualTolerance,
-    stepTolerance: s.stepTolerance,
-    maxCorrectorIterations: s.maxCorrectorIterations,
-  };
-  const index = new BranchIndex(Math.max(copts.maxParameterStep, 1e-12), n, copts.maxStep);
   let cancelled = false;
   let lastFraction = 0;
   const progress = (f: number, phrase: string) => {
@@ -94,6 +79,26 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     return result();
   }
   diagnostics.push(...starts.diagnostics);
+  // Arclength runs through state and parameter alike, so steps scale with the larger of the sweep
+  // width and the size of the starting states; the parameter step stays a fraction of the width.
+  let stateSize = 0;
+  for (const q of starts.points) stateSize = Math.max(stateSize, normInf(q));
+  const arcScale = Math.max(width, 1 + stateSize);
+  const copts: ContinuationOptions = {
+    lo,
+    hi,
+    initialStep: s.initialStep * arcScale,
+    minStep: s.minStep * arcScale,
+    maxStep: s.maxStep * arcScale,
+    maxParameterStep: s.maxParameterStep * width,
+    maxTurn: s.maxTurn,
+    maxPoints: Math.max(2, Math.floor(s.maxPointsPerBranch / 2)),
+    stateBound: s.stateBound,
+    residualTolerance: s.residualTolerance,
+    stepTolerance: s.stepTolerance,
+    maxCorrectorIterations: s.maxCorrectorIterations,
+  };
+  const index = new BranchIndex(Math.max(copts.maxParameterStep, 1e-12), n, copts.maxStep);
   const tasks: Task[] = starts.points.map((y0) => {
     const y = new Float64Array(n + 1);
     y.set(y0);

@@ -1,6 +1,7 @@
 /**
- * Settings of a diagram trace. Step lengths are fractions of the sweep width |to - from| (arclength
- * measured in the raw (x, p) coordinates); everything else is absolute. Defaults are common practice
+ * Settings of a diagram trace. Arclength steps (measured in the raw (x, p) coordinates) are fractions
+ * of max(|to - from|, 1 + max |x| over the starting equilibria); the parameter step and the switch
+ * step are fractions of the sweep width |to - from|; everything else is absolute. Defaults are common practice
  * (no source) chosen and checked on the test models; see docs/numerics.md for the reasoning.
  */
 export interface TraceSettings {
@@ -8,7 +9,7 @@ export interface TraceSettings {
   from?: number;
   /** Sweep end; default the document's sweep.to. */
   to?: number;
-  /** First arclength step, as a fraction of the sweep width (default 2e-3). */
+  /** First arclength step, as a fraction of the arclength scale (default 2e-3). */
   initialStep: number;
   /** Smallest arclength step before a branch ends with 'step-collapse' (default 1e-9). */
   minStep: number;

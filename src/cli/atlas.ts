@@ -1,0 +1,153 @@
+/**
+ * Brinkmap command line: `npm run --silent atlas -- <command> ...`.
+ * Exit codes: 0 done (numerical trouble is reported in the output's diagnostics), 2 invalid input
+ * (one line on stderr naming the field), 1 unexpected internal error.
+ */
+import { readFileSync, writeFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
+import { toTraceJson, traceDiagram } from '../lib/atlas/index.js';
+import { compileModelJson, ModelError } from '../lib/model/index.js';
+import type { CompiledSystem } from '../lib/model/index.js';
+
+/** Bad input: message is one line naming the field. */
+class UsageError extends Error {}
+
+interface Command {
+  readonly summary: string;
+  readonly help: string;
+  run(argv: string[]): void;
+}
+
+const TRACE_HELP = `Usage: npm run --silent atlas -- trace MODEL.json [--from P] [--to P] [--out FILE]
+
+Traces every equilibrium branch of the model over its swept parameter (the document's "sweep",
+or --from/--to) and locates saddle-node, pitchfork, transcritical and Hopf points.
+
+Prints JSON (or writes it to FILE):
+  { "parameter": "beta",
+    "branches": [ { "id": "b1", "points": [ { "p": 0, "x": [..], "unstable": 0 } ] } ],
+    "bifurcations": [ { "type": "pitchfork", "p": .., "x": [..], "branches": ["b1", "b2"] } ],
+    "diagnostics": [ { "level": "info", "code": "..", "message": ".." } ] }
+"unstable" counts eigenvalues with positive real part; Hopf points add "frequency".
+
+Options:
+  --from P     sweep start (starting equilibria are computed here); default sweep.from
+  --to P       sweep end; default sweep.to
+  --out FILE   write the JSON to FILE instead of standard output
+  --help       this text
+
+Exit codes: 0 done, 2 invalid input (message names the field), 1 internal error.
+Results are indicative; defer to domain experts and local regulation.`;
+
+const HELP = `Usage: npm run --silent atlas -- <command> [options]
+
+Commands:
+${'  trace      equilibrium branches and bifurcations of a model document'}
+
+Run a command with --help for its options.`;
+
+function readModel(path: string | undefined): unknown {
+  if (path === undefined) throw new UsageError('MODEL.json: missing model file argument (see --help)');
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (e) {
+    throw new UsageError(`MODEL.json: cannot read '${path}' (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
+  }
+  try {
+    return JSON.parse(text);
+  } catch (e) {
+    throw new UsageError(`MODEL.json: '${path}' is not valid JSON (${(e as Error).message.split('\n')[0]})`);
+  }
+}
+
+function numberOption(name: string, value: string | undefined): number | undefined {
+  if (value === undefined) return undefined;
+  const v = Number(value);
+  if (value.trim() === '' || !Number.isFinite(v)) throw new UsageError(`--${name}: expected a finite number, got '${value}'`);
+  return v;
+}
+
+function compile(model: unknown, from: number | undefined, to: number | undefined): CompiledSystem {
+  const base = compileModelJson(model);
+  if (from === undefined && to === undefined) return base;
+  const sweep = { from: from ?? base.sweep.from, to: to ?? base.sweep.to };
+  if (sweep.from === sweep.to) throw new UsageError(`--${to !== undefined ? 'to' : 'from'}: the sweep needs from != to (both are ${sweep.from})`);
+  return compileModelJson(model, { sweep });
+}
+
+function emit(json: unknown, out: string | undefined): void {
+  const text = `${JSON.stringify(json)}\n`;
+  if (out === undefined) {
+    process.stdout.write(text);
+    return;
+  }
+  try {
+    writeFileSync(out, text);
+  } catch (e) {
+    throw new UsageError(`--out: cannot write '${out}' (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
+  }
+}
+
+const trace: Command = {
+  summary: 'equilibrium branches and bifurcations of a model document',
+  help: TRACE_HELP,
+  run(argv) {
+    const { values, positionals } = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      options: { from: { type: 'string' }, to: { type: 'string' }, out: { type: 'string' }, help: { type: 'boolean' } },
+    });
+    if (values.help) {
+      process.stdout.write(`${TRACE_HELP}\n`);
+      return;
+    }
+    if (positionals.length > 1) throw new UsageError(`MODEL.json: expected one model file, got ${positionals.length}`);
+    const from = numberOption('from', values.from);
+    const to = numberOption('to', values.to);
+    const system = compile(readModel(positionals[0]), from, to);
+    const diagram = traceDiagram(system);
+    // Later sections (e.g. coupling regimes) add their keys to this object.
+    const output: Record<string, unknown> = { ...toTraceJson(diagram) };
+    emit(output, values.out);
+  },
+};
+
+/** Subcommands; each parses its own options. */
+const commands: Record<string, Command> = { trace };
+
+function main(argv: string[]): number {
+  const [name, ...rest] = argv;
+  try {
+    if (name === undefined || name === '--help' || name === '-h' || name === 'help') {
+      process.stdout.write(`${HELP}\n`);
+      return name === undefined ? 2 : 0;
+    }
+    const cmd = commands[name];
+    if (!cmd) throw new UsageError(`command: unknown command '${name}' (commands: ${Object.keys(commands).join(', ')})`);
+    cmd.run(rest);
+    return 0;
+  } catch (e) {
+    if (e instanceof UsageError || e instanceof ModelError) {
+      process.stderr.write(`${oneLine(e.message)}\n`);
+      return 2;
+    }
+    if (e instanceof TypeError && (e as { code?: string }).code?.startsWith('ERR_PARSE_ARGS')) {
+      process.stderr.write(`${oneLine(e.message)} (see --help)\n`);
+      return 2;
+    }
+    process.stderr.write(`internal error: ${oneLine(e instanceof Error ? e.message : String(e))}\n`);
+    return 1;
+  }
+}
+
+function oneLine(s: string): string {
+  return s.replace(/\s+/g, ' ').trim();
+}
+
+// A closed pipe (e.g. `| head`) is not an error of ours.
+process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+  if (e.code === 'EPIPE') process.exit(process.exitCode ?? 0);
+  throw e;
+});
+process.exitCode = main(process.argv.slice(2));
