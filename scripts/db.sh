@@ -13,22 +13,24 @@ cd "$BM_REPO_ROOT"
 cmd="${1:-}"; which="${2:-test}"
 case "$which" in dev|test) ;; *) bm_die "second argument must be dev or test" ;; esac
 
-if [ "$which" = test ]; then bm_write_test_env; envfile=.env.test; else bm_write_dev_env; envfile=.env; fi
-bm_load_env "$envfile"
+if [ "$which" = test ]; then bm_write_test_env; envfile=".env.${TEST_DATA_NAME:-test}"; else bm_write_dev_env; envfile=.env; fi
+[ "$which" = test ] && bm_load_env "$envfile" force || bm_load_env "$envfile"
 
 case "$cmd" in
   start|reset)
     mariadb_ensure_installed
-    mariadb_init "$which"
-    mariadb_start "$which" "$DB_PORT"
-    [ "$cmd" = reset ] && mariadb_drop_db "$which" "$DB_NAME"
-    mariadb_create_db "$which" "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
+    name="$which"; [ "$which" = test ] && name="${TEST_DATA_NAME:-test}"
+    mariadb_init "$name"
+    mariadb_start "$name" "$DB_PORT"
+    [ "$cmd" = reset ] && mariadb_drop_db "$name" "$DB_NAME"
+    mariadb_create_db "$name" "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
     npm run --silent migrate
     bm_log "MariaDB '$which' is up; stop it with: bash scripts/db.sh stop $which"
     ;;
   stop)
     mariadb_ensure_installed
-    mariadb_stop "$which"
+    name="$which"; [ "$which" = test ] && name="${TEST_DATA_NAME:-test}"
+    mariadb_stop "$name"
     bm_log "MariaDB '$which' stopped"
     ;;
   *) bm_die "usage: bash scripts/db.sh start|stop|reset dev|test" ;;

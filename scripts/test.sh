@@ -15,7 +15,7 @@ if [ ! -x "${CHROMIUM_PATH:-/usr/bin/chromium}" ]; then
   bm_apt_install chromium || bm_die "Chromium is missing for the browser tests. Install it by hand: sudo apt-get install chromium (or set CHROMIUM_PATH)"
 fi
 bm_write_test_env
-bm_load_env ".env.${TEST_DATA_NAME:-test}"
+bm_load_env ".env.${TEST_DATA_NAME:-test}" force
 export BRINKMAP_ENV_FILE=".env.${TEST_DATA_NAME:-test}"
 export CHROMIUM_PATH="${CHROMIUM_PATH:-/usr/bin/chromium}"
 mariadb_ensure_installed

@@ -38,9 +38,10 @@ bm_env_default() {
   fi
 }
 
-# bm_load_env FILE: exports every KEY=VALUE of FILE that the caller's environment does not set yet.
+# bm_load_env FILE [force]: exports every KEY=VALUE of FILE that the caller's environment does not
+# set yet (with "force": every one, so a stray DB_PORT in the shell cannot point tests at real data).
 bm_load_env() {
-  local file="$1" line key value
+  local file="$1" force="${2:-}" line key value
   [ -f "$file" ] || return 0
   while IFS= read -r line || [ -n "$line" ]; do
     case "$line" in ''|'#'*) continue ;; esac
@@ -48,7 +49,7 @@ bm_load_env() {
     value="${line#*=}"
     key="$(echo "$key" | tr -d '[:space:]')"
     value="${value%\"}"; value="${value#\"}"
-    if [ -z "${!key+x}" ]; then export "$key=$value"; fi
+    if [ -n "$force" ] || [ -z "${!key+x}" ]; then export "$key=$value"; fi
   done <"$file"
 }
 
