@@ -53,6 +53,7 @@ export function newton(
   system.rates(x, p, f);
   if (!allFinite(f)) return { converged: false, iterations: 0, residual: Number.NaN, x, reason: 'non-finite' };
   let fnorm2 = sumSq(f);
+  if (normInf(f) <= o.residualTolerance && fnorm2 === 0) return { converged: true, iterations: 0, residual: 0, x };
   for (let it = 1; it <= o.maxIterations; it++) {
     system.jacobian(x, p, j);
     const lu = new DenseLu(j, n);
