@@ -97,7 +97,7 @@ describe('claiming', () => {
     expect(await claimRun('test-claimer', queue, 60_000)).toBeNull();
     const row = await runRow(run.id);
     expect(row.status).toBe('failed');
-    const error = JSON.parse(row.error);
+    const error = typeof row.error === 'string' ? JSON.parse(row.error) : row.error;
     expect(error.code).toBe('worker-lost');
     expect(error.message).toMatch(/gone-host:1:dead.*gave up after 2 attempts/);
   });
