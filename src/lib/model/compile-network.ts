@@ -82,7 +82,8 @@ export function compileNetwork(
   }
 
   const q: Float64Array[] = doc.nodes.map((node) =>
-    Float64Array.from(paramNames, (k) => node.parameters?.[k] ?? doc.element.parameters[k]),
+    // Own properties only: a parameter may be called 'constructor' or 'toString'.
+    Float64Array.from(paramNames, (k) => (node.parameters && Object.hasOwn(node.parameters, k) ? node.parameters[k] : doc.element.parameters[k])),
   );
   // Nodes whose parameter vector carries the swept element parameter (those that do not override it).
   const free: boolean[] = doc.nodes.map((node) => !sweepIsCoupling && !(node.parameters && Object.hasOwn(node.parameters, parameter)));

@@ -11,6 +11,8 @@ export const NAME_PATTERN = /^[A-Za-z_][A-Za-z0-9_]*$/;
 export const RESERVED_NAMES: ReadonlySet<string> = new Set([
   'and', 'or', 'not', 'xor', 'mod', 'to', 'in', 'end',
   'true', 'false', 'null', 'undefined', 'NaN', 'Infinity',
+  // JavaScript objects treat this key specially; JSON parsers and zod would drop or misread it.
+  '__proto__',
   ...Object.keys(DOCUMENT_FUNCTIONS),
 ]);
 

@@ -13,7 +13,9 @@ import { listNames, nameProblem } from './names';
 const finite = z.number().finite();
 const expression = z.string();
 
-const parameterMap = z.record(z.string(), finite);
+// zod builds records by assignment, which would silently swallow a "__proto__" key; refuse it.
+const recordKey = z.string().refine((k) => k !== '__proto__', { message: "'__proto__' cannot be used as a name" });
+const parameterMap = z.record(recordKey, finite);
 
 const startList = z.array(z.array(finite)).max(MODEL_LIMITS.maxStartGuesses);
 
@@ -58,7 +60,7 @@ export const odeDocumentObject = z
     name: z.string().min(1).max(MODEL_LIMITS.maxDocumentNameLength),
     variables: z.array(z.string()).min(1).max(MODEL_LIMITS.maxVariables),
     parameters: parameterMap,
-    rates: z.record(z.string(), expression),
+    rates: z.record(recordKey, expression),
     sweep: sweepSchema,
     start: startList.optional(),
   })

@@ -196,6 +196,19 @@ describe('coupling terms', () => {
   });
 });
 
+describe('parameter names that exist on Object.prototype', () => {
+  it('"constructor" and "toString" are ordinary parameters, not inherited properties', () => {
+    const d = copy(threeLakes);
+    d.element.rate = 'constructor - toString * P';
+    d.element.parameters = { constructor: 0.05, toString: 0.6 };
+    d.nodes[1].parameters = { constructor: 0.07 };
+    const s = compileModelJson(d);
+    const out = s.rates(Float64Array.from([1, 2, 3]), 0, new Float64Array(3));
+    // Hand: with beta = 0 each node is c - 0.6 P with its own c.
+    expect([...out]).toEqual([0.05 - 0.6 * 1, 0.07 - 0.6 * 2, 0.05 - 0.6 * 3]);
+  });
+});
+
 describe('compileModel contract', () => {
   it('throws ModelError naming options.sweepParameter for an unknown parameter', () => {
     const v = validateModelDocument(threeLakes);

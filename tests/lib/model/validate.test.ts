@@ -118,6 +118,15 @@ describe('validateModelDocument names the path of every problem', () => {
     expect(issues).toContainEqual(expected);
   });
 
+  it('refuses "__proto__" keys that JSON.parse keeps but object assignment would swallow', () => {
+    const text = JSON.stringify(copy(lorenz)).replace('"sigma":10', '"__proto__":1,"sigma":10');
+    expect(issuesOf(JSON.parse(text))).toContainEqual({ path: 'parameters.__proto__', message: "'__proto__' cannot be used as a name" });
+    const nodeText = JSON.stringify(copy(threeLakes)).replace('"parameters":{"a":0.07}', '"parameters":{"__proto__":{"a":1}}');
+    expect(issuesOf(JSON.parse(nodeText)).map((i) => i.path)).toContain('nodes[1].parameters.__proto__');
+    const top = JSON.stringify(copy(threeLakes)).replace('"format"', '"__proto__":{},"format"');
+    expect(issuesOf(JSON.parse(top))[0].path).toBe('__proto__');
+  });
+
   it('reports every problem, not only the first', () => {
     const d = network((x) => {
       x.element.rate = 'a - c * P';
