@@ -57,8 +57,15 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
 
   const conversion = useMemo(() => stateToDocument(state), [state]);
   const localIssues = conversion.ok ? [] : conversion.issues;
+  // Problems are shown for the parts the modeler has changed, and for everything after a save attempt,
+  // so a fresh form does not open covered in complaints about fields nobody has typed in yet.
+  const initialState = useRef(state);
+  const [saveAttempted, setSaveAttempted] = useState(false);
+  const touched = useMemo(() => touchedSections(initialState.current, state), [state]);
   const issues = useMemo(() => {
-    const all = [...localIssues, ...serverIssues, ...(saveError?.issues ?? [])];
+    const all = [...localIssues, ...serverIssues, ...(saveError?.issues ?? [])].filter(
+      (i) => saveAttempted || initialDocument != null || touched.has(sectionOf(i.path)),
+    );
     const seen = new Set<string>();
     return all.filter((i) => {
       const k = `${i.path}\u0000${i.message}`;
@@ -66,7 +73,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
       seen.add(k);
       return true;
     });
-  }, [localIssues, serverIssues, saveError]);
+  }, [localIssues, serverIssues, saveError, saveAttempted, touched, initialDocument]);
 
   // Debounced server validation, then the live preview for small networks.
   const abortRef = useRef<AbortController | null>(null);
@@ -127,6 +134,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
 
   const save = async () => {
     setSaved('');
+    setSaveAttempted(true);
     if (!conversion.ok) {
       setSaveError({ message: 'Not saved: some fields cannot be read yet. They are marked above.', issues: [] });
       announce('Not saved: some fields cannot be read yet.');
@@ -181,7 +189,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   return (
     <form className="ed-root" onSubmit={(e) => { e.preventDefault(); void save(); }} noValidate aria-label="Model editor">
       <div className="ed-sr" role="status" aria-live="polite">{announcement}</div>
-      <ErrorSummary issues={issues} checking={checking} />
+      <ErrorSummary issues={issues} checking={checking} pending={!conversion.ok || serverIssues.length > 0} />
 
       <section className="ed-section" aria-labelledby="ed-basics-h">
         <h2 id="ed-basics-h">Model</h2>
@@ -303,11 +311,11 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   );
 }
 
-function ErrorSummary({ issues, checking }: { issues: readonly FieldIssue[]; checking: boolean }) {
+function ErrorSummary({ issues, checking, pending }: { issues: readonly FieldIssue[]; checking: boolean; pending: boolean }) {
   return (
     <div className="ed-summary" aria-live="polite" data-testid="issue-summary">
       {issues.length === 0 ? (
-        <p className="ed-hint">{checking ? 'Checking the model…' : 'No problems found.'}</p>
+        <p className="ed-hint">{checking ? 'Checking the model…' : pending ? 'Fill in the model; each part is checked as you go.' : 'No problems found.'}</p>
       ) : (
         <div className="ed-error-box">
           <p>{issues.length} problem{issues.length === 1 ? '' : 's'} to fix:</p>
@@ -322,6 +330,26 @@ function ErrorSummary({ issues, checking }: { issues: readonly FieldIssue[]; che
       )}
     </div>
   );
+}
+
+/** The top-level part of the document a field path belongs to ("nodes[1].parameters.a" → "nodes"). */
+function sectionOf(path: string): string {
+  const head = path.split(/[.[]/)[0];
+  return head === 'changeNote' || head === '(document)' ? '*' : head;
+}
+
+/** Parts of the document whose form fields differ from how the form started. */
+function touchedSections(a: EditorState, b: EditorState): Set<string> {
+  const out = new Set<string>(['*']);
+  const same = (x: unknown, y: unknown) => JSON.stringify(x) === JSON.stringify(y);
+  if (a.name !== b.name) out.add('name');
+  if (a.description !== b.description) out.add('description');
+  if (a.variable !== b.variable || a.rate !== b.rate || !same(a.parameters, b.parameters)) out.add('element');
+  if (!same(a.nodes, b.nodes)) out.add('nodes');
+  if (!same(a.links, b.links)) out.add('links');
+  if (!same(a.coupling, b.coupling)) out.add('coupling');
+  if (!same(a.sweep, b.sweep)) out.add('sweep');
+  return out;
 }
 
 /** A new model starts empty: the modeler types the element, nodes and links from scratch. */

@@ -1,5 +1,6 @@
 import { useMemo } from 'react';
 import katex from 'katex';
+import 'katex/dist/katex.min.css';
 import { rateEquationTex, expressionToTex } from '../../lib/editor';
 
 /**
@@ -34,7 +35,7 @@ export function TexPreview({ expression, variable, label }: { expression: string
 export function MarkedExpression({ expression, messages, id }: { expression: string; messages: readonly string[]; id: string }) {
   const names = new Set<string>();
   for (const m of messages) for (const q of m.matchAll(/["“'`]([A-Za-z_][A-Za-z0-9_]*)["”'`]/g)) names.add(q[1]);
-  if (messages.length === 0) return null;
+  if (messages.length === 0 || expression.trim() === '') return null;
   const parts = expression.split(/([A-Za-z_][A-Za-z0-9_]*)/);
   const marked = parts.some((p) => names.has(p));
   return (
