@@ -276,7 +276,9 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
       });
       // Points the hook did not see (the start of a one-point direction, the end on a sweep bound).
       const listed = index.lists[list].points;
-      for (const q of r.points) if (!listed.includes(q)) index.push(list, q);
+      if (listed.length === 0) index.push(list, r.points[0]);
+      const last = r.points[r.points.length - 1];
+      if (listed[listed.length - 1] !== last) index.push(list, last);
       return { points: r.points, end: r.end, inserts };
     };
 
@@ -385,10 +387,17 @@ function branchId(index: number): string {
 
 function withInserts(points: TracedPoint[], inserts: Insert[]): TracedPoint[] {
   if (inserts.length === 0) return points;
+  const byAfter = new Map<TracedPoint, Insert[]>();
+  for (const i of inserts) {
+    const l = byAfter.get(i.after);
+    if (l) l.push(i);
+    else byAfter.set(i.after, [i]);
+  }
   const out: TracedPoint[] = [];
   for (const q of points) {
     out.push(q);
-    const here = inserts.filter((i) => i.after === q);
+    const here = byAfter.get(q);
+    if (!here) continue;
     here.sort((u, v) => dist2(u.point.y, q.y) - dist2(v.point.y, q.y));
     for (const i of here) out.push(i.point);
   }

@@ -1,0 +1,238 @@
+/**
+ * `npm run bench`: speed and precision of the continuation engine against a naive baseline run in
+ * the same process on the same machine (numbers are only comparable within one run).
+ * Networks are invented lake-like examples (no real lakes): P' = a - b P + P^8/(1 + P^8) per node
+ * (Carpenter, Ludwig & Brock 1999 form) with diffusive coupling beta * sum w (P_source - P_target).
+ *
+ * Baseline (common practice, no source): a fixed grid of beta, Newton at each grid value from the
+ * previous point, special points bracketed by sign changes of det J_x between grid points (and a
+ * branch lost where Newton fails, i.e. at a fold); each estimate is the middle of its grid cell.
+ * Reference values: saddle-nodes refined by Newton on the augmented system F = 0, det J_x = 0
+ * (Seydel, §5.1) started from the engine's value; other special points: the engine's own value.
+ *
+ * To add a section (e.g. coupling regimes), push a BenchSection onto `sections` below.
+ */
+import { traceDiagram, type Diagram, type SpecialPoint } from '../src/lib/atlas/index.js';
+import type { CompiledSystem } from '../src/lib/model/index.js';
+import { compileModelJson } from '../src/lib/model/index.js';
+import { DenseLu, newton } from '../src/lib/numerics/index.js';
+import { findStartingEquilibria } from '../src/lib/atlas/starting-equilibria.js';
+import { defaultTraceSettings } from '../src/lib/atlas/trace-settings.js';
+
+export interface BenchSection {
+  readonly title: string;
+  /** Prints its own lines; returns nothing. */
+  run(): void;
+}
+
+interface NetworkSpec {
+  name: string;
+  a: number[];
+  links: { from: number; to: number; weight: number; twoWay?: boolean }[];
+}
+
+function networkDoc(spec: NetworkSpec) {
+  return {
+    format: 'brinkmap/network-1',
+    name: spec.name,
+    element: { variable: 'P', rate: 'a - b * P + P^8 / (1 + P^8)', parameters: { a: 0.05, b: 0.6 } },
+    nodes: spec.a.map((a, i) => ({ id: `lake${i + 1}`, parameters: { a } })),
+    links: spec.links.map((l) => ({ from: `lake${l.from + 1}`, to: `lake${l.to + 1}`, weight: l.weight, ...(l.twoWay ? { twoWay: true } : {}) })),
+    coupling: { parameter: 'beta', value: 0, term: 'source - target' },
+    sweep: { parameter: 'beta', from: 0, to: 1 },
+  };
+}
+
+// Invented example networks.
+const networks: NetworkSpec[] = [
+  { name: '2 lakes, one stream', a: [0.05, 0.07], links: [{ from: 0, to: 1, weight: 1 }] },
+  { name: '3 lakes, downstream flow', a: [0.05, 0.07, 0.05], links: [{ from: 0, to: 1, weight: 1 }, { from: 1, to: 2, weight: 1, twoWay: true }] },
+  {
+    name: '6 lakes, branching valley',
+    a: [0.04, 0.05, 0.06, 0.05, 0.07, 0.045],
+    links: [
+      { from: 0, to: 1, weight: 1 },
+      { from: 1, to: 2, weight: 0.8 },
+      { from: 1, to: 3, weight: 0.6, twoWay: true },
+      { from: 3, to: 4, weight: 1 },
+      { from: 4, to: 5, weight: 0.7 },
+    ],
+  },
+  {
+    name: '20 lakes, long chain',
+    a: Array.from({ length: 20 }, (_, i) => 0.04 + 0.0015 * i),
+    links: Array.from({ length: 19 }, (_, i) => ({ from: i, to: i + 1, weight: 1 })),
+  },
+];
+
+function time<T>(f: () => T): { value: T; ms: number } {
+  const t = performance.now();
+  const value = f();
+  return { value, ms: performance.now() - t };
+}
+
+function detJx(system: CompiledSystem, x: Float64Array, p: number, buf: Float64Array): number {
+  system.jacobian(x, p, buf);
+  return new DenseLu(buf, system.dimension).determinant;
+}
+
+interface BaselineResult {
+  estimates: { p: number; x: number[] }[];
+  points: number;
+}
+
+/** Naive grid continuation from each start (see the header). */
+function baseline(system: CompiledSystem, starts: Float64Array[], steps: number): BaselineResult {
+  const n = system.dimension;
+  const { from, to } = system.sweep;
+  const dp = (to - from) / steps;
+  const j = new Float64Array(n * n);
+  const estimates: { p: number; x: number[] }[] = [];
+  let points = 0;
+  for (const s of starts) {
+    let x = Float64Array.from(s);
+    let d = detJx(system, x, from, j);
+    for (let k = 1; k <= steps; k++) {
+      const p = from + k * dp;
+      const r = newton(system, x, p, { maxIterations: 20 });
+      points++;
+      const jump = r.converged ? Math.max(...Array.from(r.x, (v, i) => Math.abs(v - x[i]))) : Infinity;
+      if (!r.converged || jump > 0.2) {
+        estimates.push({ p: p - dp / 2, x: Array.from(x) });
+        break;
+      }
+      const d2 = detJx(system, r.x, p, j);
+      if (d * d2 < 0) estimates.push({ p: p - dp / 2, x: Array.from(r.x, (v, i) => (v + x[i]) / 2) });
+      x = Float64Array.from(r.x);
+      d = d2;
+    }
+  }
+  return { estimates, points };
+}
+
+/** Newton on G(x, p) = (F(x, p), det J_x(x, p)) with a central-difference Jacobian, from the engine's fold. */
+function refineFold(system: CompiledSystem, sp: SpecialPoint): number {
+  const n = system.dimension;
+  const m = n + 1;
+  const y = Float64Array.from([...sp.x, sp.p]);
+  const f = new Float64Array(n);
+  const j = new Float64Array(n * n);
+  const g = (z: Float64Array): Float64Array => {
+    const x = z.subarray(0, n);
+    system.rates(x, z[n], f);
+    const out = new Float64Array(m);
+    out.set(f);
+    out[n] = detJx(system, Float64Array.from(x), z[n], j);
+    return out;
+  };
+  for (let it = 0; it < 30; it++) {
+    const g0 = g(y);
+    const a = new Float64Array(m * m);
+    for (let c = 0; c < m; c++) {
+      const h = 1e-6 * (1 + Math.abs(y[c]));
+      const yp = Float64Array.from(y);
+      const ym = Float64Array.from(y);
+      yp[c] += h;
+      ym[c] -= h;
+      const gp = g(yp);
+      const gm = g(ym);
+      for (let r = 0; r < m; r++) a[r * m + c] = (gp[r] - gm[r]) / (2 * h);
+    }
+    const step = new DenseLu(a, m).solve(g0.map((v) => -v));
+    if (!step) break;
+    for (let i = 0; i < m; i++) y[i] += step[i];
+    if (Math.max(...Array.from(step, Math.abs)) < 1e-14 * (1 + Math.abs(y[n]))) break;
+  }
+  return y[n];
+}
+
+function fmt(v: number, digits = 3): string {
+  if (!Number.isFinite(v)) return '-';
+  if (v === 0) return '0';
+  return Math.abs(v) >= 1e4 || Math.abs(v) < 1e-2 ? v.toExponential(digits - 1) : v.toPrecision(digits);
+}
+
+function median(v: number[]): number {
+  if (v.length === 0) return Number.NaN;
+  const s = [...v].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)];
+}
+
+function row(cells: (string | number)[], widths: number[]): string {
+  return cells.map((c, i) => String(c).padStart(widths[i])).join('  ');
+}
+
+const engineSection: BenchSection = {
+  title: 'Whole diagram: pseudo-arclength engine vs naive grid baseline (same process, one core)',
+  run() {
+    const widths = [28, 6, 6, 8, 9, 10, 9, 10, 9, 11, 11, 11, 9];
+    console.log(row(['network', 'starts', 'branch', 'points', 'time ms', 'points/s', 'special', 'base ms', 'cost x', 'err engine', 'err grid', 'err grid10', 'precision'], widths));
+    for (const spec of networks) {
+      const system = compileModelJson(networkDoc(spec));
+      traceDiagram(system); // warm-up (JIT), not timed
+      const runs = spec.a.length <= 3 ? 5 : 1;
+      let best = Infinity;
+      let d: Diagram | null = null;
+      for (let k = 0; k < runs; k++) {
+        const t = time(() => traceDiagram(system));
+        if (t.ms < best) {
+          best = t.ms;
+          d = t.value;
+        }
+      }
+      const diagram = d!;
+      const points = diagram.branches.reduce((s, b) => s + b.points.length, 0);
+      const starts = findStartingEquilibria(system, system.sweep.from, { ...defaultTraceSettings, from: 0, to: 1 }).points;
+      // Equal cost: the grid gets as many Newton solves in total as the engine has points.
+      const steps = Math.max(10, Math.round(points / Math.max(1, starts.length)));
+      const base = time(() => baseline(system, starts, steps));
+      const fine = baseline(system, starts, steps * 10);
+      const refs = diagram.bifurcations.map((s) => ({ s, ref: s.type === 'saddle-node' ? refineFold(system, s) : s.p }));
+      const errEngine = refs.map(({ s, ref }) => Math.abs(s.p - ref));
+      const nearest = (est: { p: number; x: number[] }[], s: SpecialPoint, ref: number) => {
+        let bestErr = Infinity;
+        for (const e of est) {
+          const dx = Math.max(...e.x.map((v, i) => Math.abs(v - s.x[i])));
+          if (dx < 0.3) bestErr = Math.min(bestErr, Math.abs(e.p - ref));
+        }
+        return bestErr;
+      };
+      const errGrid = refs.map(({ s, ref }) => nearest(base.value.estimates, s, ref));
+      const errFine = refs.map(({ s, ref }) => nearest(fine.estimates, s, ref));
+      const found = errGrid.filter(Number.isFinite);
+      const mEngine = Math.max(median(errEngine), 1e-16);
+      console.log(
+        row(
+          [
+            spec.name,
+            starts.length,
+            diagram.branches.length,
+            points,
+            fmt(best, 4),
+            fmt((points / best) * 1000, 3),
+            diagram.bifurcations.length,
+            fmt(base.ms, 4),
+            fmt(base.ms / best, 3),
+            fmt(median(errEngine)),
+            `${fmt(median(found))}${found.length < errGrid.length ? `(${errGrid.length - found.length}miss)` : ''}`,
+            fmt(median(errFine.filter(Number.isFinite))),
+            fmt(median(found) / mEngine, 2),
+          ],
+          widths,
+        ),
+      );
+      if (spec.a.length === 3) {
+        console.log(`  3-node goal: whole diagram < 300 ms -> ${best < 300 ? 'met' : 'NOT met'} (${fmt(best, 4)} ms, best of ${runs}); special points located ${fmt(median(found) / mEngine, 2)}x more precisely than the grid at ${fmt(base.ms / best, 2)}x the engine's cost`);
+      }
+    }
+    console.log('  err = median |p - reference| over the special points; grid cells missing a special point are counted as "miss".');
+    console.log('  precision = median grid error / median engine error (engine error floored at 1e-16); cost x = baseline time / engine time.');
+  },
+};
+
+export const sections: BenchSection[] = [engineSection];
+
+for (const s of sections) {
+  console.log(`\n== ${s.title}`);
+  s.run();
+}
