@@ -94,6 +94,7 @@ export async function seed(knex: Knex): Promise<void> {
         const out = computeInChild(checked.text, settings);
         const [id] = await knex('results').insert({
           cache_key: cacheKey, engine_version: ENGINE_VERSION, diagram: out.diagramJson, regimes: out.regimesJson,
+          preview: out.previewJson, preview_points: out.previewPoints,
           branch_count: out.branchCount, point_count: out.pointCount, special_point_count: out.specialPointCount, compute_ms: out.computeMs,
         });
         result = { id, regimes: out.regimesJson };

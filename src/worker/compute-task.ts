@@ -50,7 +50,7 @@ export default function computeTask(task: ComputeTask): TaskResult {
       }
     }
     if (isCancelled()) {
-      return { diagramJson: '', regimesJson: '', branchCount: 0, pointCount: 0, specialPointCount: 0, computeMs: 0, cancelled: true };
+      return { diagramJson: '', regimesJson: '', previewJson: '', previewPoints: 0, branchCount: 0, pointCount: 0, specialPointCount: 0, computeMs: 0, cancelled: true };
     }
     const out = computeTrace(task.documentText, task.settings, {
       onProgress: (f, phrase) => post(delayShare + (1 - delayShare) * f, phrase, f >= 1),

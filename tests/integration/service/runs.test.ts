@@ -92,6 +92,12 @@ describe('run life cycle through the API', () => {
       expect(thin.body.result.diagram.bifurcations).toEqual(diagram.bifurcations);
     }
 
+    const preview = await w.reviewer.get(ws(`/api/runs/${runId}/result?view=preview`, w.workspaceId));
+    expect(preview.status).toBe(200);
+    expect(preview.body.result.viewPoints).toBeLessThanOrEqual(total);
+    expect(preview.body.result.viewPoints).toBe(preview.body.result.diagram.branches.reduce((n: number, b: { points: unknown[] }) => n + b.points.length, 0));
+    expect(preview.body.result.diagram.bifurcations).toEqual(diagram.bifurcations);
+
     const download = await w.reviewer.get(ws(`/api/runs/${runId}/result.json`, w.workspaceId));
     expect(download.body.provenance).toMatchObject({ runId, version: 1, versionHash: start.body.run.versionHash });
 

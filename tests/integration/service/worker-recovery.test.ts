@@ -52,7 +52,7 @@ describe('claiming', () => {
     const w = await workspaceWithRoles('Service claims');
     const queue = `claims-${Date.now()}`;
     const { modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0622 }), 'Claim lakes');
-    const runs = [];
+    const runs: { id: number }[] = [];
     for (let i = 0; i < 8; i++) runs.push(await startRun(w.workspaceId, null, { modelId, settings: { to: 0.2 + i / 100 }, notify: false, queue }));
     const claims = await Promise.all(Array.from({ length: 16 }, (_, i) => claimRun(`test-claimer-${i}`, queue, 60_000)));
     const ids = claims.filter((c) => c !== null).map((c) => c!.id);
@@ -68,7 +68,7 @@ describe('claiming', () => {
     const w = await workspaceWithRoles('Service two workers');
     const queue = `pair-${Date.now()}`;
     const { modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0633 }), 'Pair lakes');
-    const runs = [];
+    const runs: { id: number }[] = [];
     for (let i = 0; i < 4; i++) runs.push(await startRun(w.workspaceId, null, { modelId, settings: { to: 0.25 + i / 100 }, notify: false, queue }));
     const a = spawnWorker(queue, { BRINKMAP_WORKER_TEST_DELAY_MS: '300' });
     const b = spawnWorker(queue, { BRINKMAP_WORKER_TEST_DELAY_MS: '300' });

@@ -8,6 +8,8 @@ import { traceDiagram } from '../../atlas/index.ts';
 import { labelRegimes } from '../../regimes/index.ts';
 import type { Diagram } from '../../atlas/types.ts';
 import type { RunSettings } from './schemas.ts';
+import { thinDiagram } from '../results/thin.ts';
+import { PREVIEW_POINTS } from '../results/preview.ts';
 
 export interface ComputeHooks {
   /** fraction in 0..1 of the whole run, and a short phrase saying what is being done. */
@@ -18,6 +20,9 @@ export interface ComputeHooks {
 export interface ComputeOutput {
   readonly diagramJson: string;
   readonly regimesJson: string;
+  /** The diagram thinned to PREVIEW_POINTS (the full diagram's text when it is smaller). */
+  readonly previewJson: string;
+  readonly previewPoints: number;
   readonly branchCount: number;
   readonly pointCount: number;
   readonly specialPointCount: number;
@@ -43,8 +48,12 @@ export function computeTrace(documentText: string, settings: RunSettings, hooks:
   }
   const pointCount = diagram.branches.reduce((n, b) => n + b.points.length, 0);
   hooks.onProgress(1, 'storing the result');
+  const diagramJson = JSON.stringify(diagram);
+  const preview = pointCount > PREVIEW_POINTS ? thinDiagram(diagram, PREVIEW_POINTS) : diagram;
   return {
-    diagramJson: JSON.stringify(diagram),
+    diagramJson,
+    previewJson: preview === diagram ? diagramJson : JSON.stringify(preview),
+    previewPoints: preview.branches.reduce((n, b) => n + b.points.length, 0),
     regimesJson: JSON.stringify(regimes),
     branchCount: diagram.branches.length,
     pointCount,

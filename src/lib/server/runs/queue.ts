@@ -137,6 +137,8 @@ export async function completeRun(run: ClaimedRun, owner: string, out: ComputeOu
           engine_version: engineVersion,
           diagram: out.diagramJson,
           regimes: out.regimesJson,
+          preview: out.previewJson,
+          preview_points: out.previewPoints,
           branch_count: out.branchCount,
           point_count: out.pointCount,
           special_point_count: out.specialPointCount,

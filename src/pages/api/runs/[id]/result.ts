@@ -3,27 +3,34 @@ import { handler, json, parseValue } from '../../../../lib/server/http.ts';
 import { requireRole } from '../../../../lib/server/auth/guards.ts';
 import { getRunResult } from '../../../../lib/server/results/repository.ts';
 import { thinDiagram } from '../../../../lib/server/results/thin.ts';
+import { PREVIEW_POINTS } from '../../../../lib/server/results/preview.ts';
 import { idParam, queryObject } from '../../../../lib/server/models/route-params.ts';
 
 const resultQuery = z.object({
   /** Point budget for drawing: the diagram is thinned to about this many points. */
   points: z.coerce.number().int().min(100, 'at least 100').max(1_000_000).optional(),
+  /** 'preview': the diagram thinned at store time to PREVIEW_POINTS (served without parsing). */
+  view: z.enum(['full', 'preview']).default('full'),
 }).strict();
 
 /**
  * One run's diagram and regime labels: { run, result: { id, engineVersion, computeMs, createdAt,
- * diagram, regimes: { regimes, escapeGraphs, diagnostics } } }. Without ?points the stored JSON text
- * is passed through as is (no parse, no re-encode).
+ * pointCount, viewPoints, diagram, regimes: { regimes, escapeGraphs, diagnostics } } }. The stored
+ * JSON text is passed through as is (no parse, no re-encode) unless ?points asks for thinning;
+ * ?view=preview serves the stored drawing preview (special points and bands complete).
  */
 export const GET = handler(async ({ locals, params, url }) => {
   const { workspace } = requireRole(locals);
   const runId = idParam(params.id, 'run');
   const q = parseValue(queryObject(url), resultQuery);
-  const r = await getRunResult(workspace.id, runId);
-  const head = { id: r.resultId, engineVersion: r.engineVersion, computeMs: r.computeMs, createdAt: r.createdAt, pointCount: r.pointCount };
-  if (q.points !== undefined && r.pointCount > q.points) {
+  // A budget at or below the preview's size thins the (much smaller) preview instead of the full diagram.
+  const usePreview = q.view === 'preview' || (q.points !== undefined && q.points <= PREVIEW_POINTS);
+  const r = await getRunResult(workspace.id, runId, usePreview ? 'preview' : 'full');
+  const head = { id: r.resultId, engineVersion: r.engineVersion, computeMs: r.computeMs, createdAt: r.createdAt, pointCount: r.pointCount, viewPoints: r.viewPoints };
+  if (q.points !== undefined && r.viewPoints > q.points) {
     const diagram = thinDiagram(JSON.parse(r.diagramText), q.points);
-    return json({ run: r.run, result: { ...head, diagram, regimes: JSON.parse(r.regimesText) } });
+    const kept = diagram.branches.reduce((n, b) => n + b.points.length, 0);
+    return json({ run: r.run, result: { ...head, viewPoints: kept, diagram: { ...diagram, thinned: { from: r.pointCount, to: kept } }, regimes: JSON.parse(r.regimesText) } });
   }
   const body = `{"run":${JSON.stringify(r.run)},"result":{${JSON.stringify(head).slice(1, -1)},"diagram":${r.diagramText},"regimes":${r.regimesText}}}`;
   return new Response(body, { status: 200, headers: { 'Content-Type': 'application/json; charset=utf-8' } });
