@@ -36,7 +36,7 @@ type GraphSettings = Pick<RegimeOptions,
  * unstable-manifold branches both reach a stable state. Each branch is integrated forward from
  * x_s ± manifoldOffset (1 + |x_s|_inf) v (v the unit unstable eigenvector) until it enters the arrival
  * ball of a stable state: radius min(arrivalRadius (1 + |x_k|_inf), arrivalFraction × distance from x_k
- * to the nearest other equilibrium), max norm. A branch that settles elsewhere (max|F| < settledSpeed
+ * to the nearest other equilibrium), max norm, while moving towards it ((x - x_k) . F(x) < 0). A branch that settles elsewhere (max|F| < settledSpeed
  * farther than 100 offsets from the saddle) or stops at the time or step cap is polished by Newton's method; if it lands on a stable equilibrium not yet known, that state is added
  * with a warning, otherwise the saddle is left out with a "manifold-unresolved" diagnostic.
  * `from` is the end with fewer tipped nodes (ties: lower index). Patterns use `roles`; without roles
@@ -88,11 +88,11 @@ export function buildEscapeGraph(
       const xx = new Float64Array(n);
       const flow = integrateFlow(system, p, x0, settings, (t, x) => {
         samples.push({ t, x: x.slice() });
-        for (let k = 0; k < states.length; k++) {
-          if (maxDist(x, states[k].x) < radii[k]) { reached = k; return true; }
-        }
         xx.set(x);
         system.rates(xx, p, fx);
+        for (let k = 0; k < states.length; k++) {
+          if (maxDist(x, states[k].x) < radii[k] && approaching(x, states[k].x, fx)) { reached = k; return true; }
+        }
         if (maxAbs(fx) < settings.settledSpeed && maxDist(x, saddle.x) > 100 * step) { settled = true; return true; }
         return false;
       });
@@ -177,6 +177,12 @@ export function slowPassageTime(
     if (speeds[j] < settings.slowSpeedFraction * peak) slow += samples[j + 1].t - samples[j].t;
   }
   return slow;
+}
+
+function approaching(x: ArrayLike<number>, target: ArrayLike<number>, f: ArrayLike<number>): boolean {
+  let d = 0;
+  for (let i = 0; i < x.length; i++) d += (x[i] - target[i]) * f[i];
+  return d < 0;
 }
 
 export function maxDist(a: ArrayLike<number>, b: ArrayLike<number>): number {

@@ -6,7 +6,7 @@ export { patternOf, progressOf, countTipped } from './pattern';
 export { equilibriaAt, isStable, isIndexOneSaddle, type Equilibrium } from './equilibria-at';
 export { buildEscapeGraph, slowPassageTime, type EscapeGraphResult, type ManifoldBranch } from './escape-graph';
 export { classifyEdge, type EdgeClassification } from './classify-edge';
-export { cutPoints, type Cut } from './intervals';
+export { cutPoints, changesEscapeGraph, type Cut } from './intervals';
 export { mergeBands, type IntervalLabel } from './merge-bands';
 export { integrateFlow, type FlowResult, type FlowSettings } from './flow';
 export { bandTagSchema, validateBandTag, tagOverlaps, BAND_TAG_NAME_MAX, BAND_TAG_NOTE_MAX, type BandTagResult } from './band-tag';

@@ -6,7 +6,7 @@ import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles'
 import { equilibriaAt } from './equilibria-at';
 import { buildEscapeGraph, type EscapeGraphResult } from './escape-graph';
 import { classifyEdge, type EdgeClassification } from './classify-edge';
-import { cutName, cutPoints } from './intervals';
+import { changesEscapeGraph, cutName, cutPoints } from './intervals';
 import { mergeBands, type IntervalLabel } from './merge-bands';
 import { isAll } from './pattern';
 import { listNames, patternWords } from './reason';
@@ -61,7 +61,16 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
     roles0 = r.roles;
   }
 
-  const cuts = cutPoints(diagram, from, to);
+  let ignored = 0;
+  const cuts = cutPoints(diagram, from, to, 1e-9, (sp) => {
+    if (o.allCuts || changesEscapeGraph(system, sp)) return true;
+    ignored++;
+    return false;
+  });
+  if (ignored > 0) {
+    note({ level: 'info', code: 'cuts-ignored',
+      message: `${ignored} of ${diagram.bifurcations.length} special points join only equilibria with two or more unstable eigenvalues; they cannot change the escape graph and do not cut the bands` });
+  }
   const labels = new Map<StartState, IntervalLabel[]>(starts.map((s) => [s, []]));
   const escapeGraphs: EscapeGraph[] = [];
   for (let k = 0; k + 1 < cuts.length; k++) {

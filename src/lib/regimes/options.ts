@@ -47,6 +47,8 @@ export interface RegimeOptions {
   readonly slowSpeedFraction: number;
   /** Slow passage: the first and last parts of the trajectory, as fractions of the saddle–target distance, are left out. */
   readonly slowExclusion: number;
+  /** Cut at every special point, also those where only equilibria with two or more unstable eigenvalues meet. */
+  readonly allCuts: boolean;
   /** Intervals narrower than this (absolute in p) are not analysed. */
   readonly minimumInterval: number;
 }
@@ -58,19 +60,20 @@ export const defaultRegimeOptions: RegimeOptions = {
   newtonTolerance: 1e-12,
   duplicateTolerance: 1e-7,
   hyperbolicTolerance: 1e-9,
-  manifoldOffset: 1e-6,
-  relativeTolerance: 1e-10,
-  absoluteTolerance: 1e-12,
+  manifoldOffset: 1e-5,
+  relativeTolerance: 1e-8,
+  absoluteTolerance: 1e-10,
   timeCap: 1e6,
   maxSteps: 200_000,
   stateBound: 1e6,
   settledSpeed: 1e-10,
   arrivalFraction: 0.25,
-  arrivalRadius: 1e-4,
+  arrivalRadius: 1e-3,
   engagedProgress: 0.5,
   comparableRatio: 1 / 3,
   slowSpeedFraction: 0.1,
   slowExclusion: 0.1,
+  allCuts: false,
   minimumInterval: 1e-12,
 };
 
