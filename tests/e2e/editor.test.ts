@@ -105,7 +105,9 @@ describe('the model editor and the run view, as the demo modeler', () => {
     await page.getByLabel('To', { exact: true }).fill('0.5');
     // Live preview of the 3-node chain, computed by /api/preview.
     await expect.poll(() => page.getByTestId('preview-status').textContent(), { timeout: 15000 }).toMatch(/\d+ branches, \d+ special points/);
-    expect(await page.getByTestId('preview-plot').locator('path.ed-branch').count()).toBeGreaterThan(0);
+    const preview = page.getByTestId('live-preview').getByTestId('diagram-view');
+    await preview.waitFor();
+    expect(Number(await preview.getAttribute('data-total-points'))).toBeGreaterThan(0);
     await shootBothThemes(page, 'model-new');
 
     await page.getByTestId('save-model').click();
@@ -195,10 +197,13 @@ describe('the same model as the demo reviewer', () => {
     expect(await page.getByTestId('review-comments').textContent()).toContain('where the loading values come from');
     await shootBothThemes(page, 'reviews-modeler');
     const runs = await page.request.get(`${BASE_URL}/api/runs?status=done`);
-    const ids = ((await runs.json()) as { items: { id: number }[] }).items.map((r) => r.id).slice(0, 2);
+    // Two variants: the latest finished runs of two different models.
+    const items = ((await runs.json()) as { items: { id: number; modelId: number }[] }).items;
+    const ids = items.filter((r, k) => items.findIndex((q) => q.modelId === r.modelId) === k).map((r) => r.id).slice(0, 2);
     expect(ids.length).toBe(2);
     await page.goto(`${BASE_URL}/compare?runs=${ids.join(',')}`);
-    expect(await page.getByTestId('compare-entry').count()).toBe(2);
+    expect(await page.getByTestId('compare-view').count()).toBe(1);
+    expect(await page.getByTestId('compare-special-table').count()).toBe(1);
     await shootBothThemes(page, 'compare');
     await context.close();
   }, 90_000);

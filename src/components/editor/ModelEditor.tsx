@@ -8,7 +8,7 @@ import { TextField, FieldErrors, fieldDomId, issuesAt } from './fields';
 import { TexPreview, MarkedExpression } from './TexPreview';
 import { ParametersTable } from './ParametersTable';
 import { NetworkEditor } from './NetworkEditor';
-import { PreviewPlot } from './PreviewPlot';
+import DiagramView from '../diagram/DiagramView';
 import { VersionHistory } from './VersionHistory';
 import './editor.css';
 
@@ -272,7 +272,14 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
         </div>
         {preview.kind === 'done' ? (
           <>
-            <PreviewPlot diagram={preview.diagram} />
+            <div data-testid="live-preview">
+              <DiagramView
+                diagram={preview.diagram}
+                height={300}
+                title="Preview (not saved)"
+                provenance={{ modelName: state.name || 'unsaved model', versionHash: 'unsaved', runId: 'live preview', engineVersion: preview.diagram.engineVersion, date: new Date().toISOString() }}
+              />
+            </div>
             {preview.diagnostics.filter((d) => d.level !== 'info').length > 0 ? (
               <ul className="ed-diagnostics">
                 {preview.diagnostics.filter((d) => d.level !== 'info').slice(0, 6).map((d, k) => <li key={k}>{d.message}</li>)}
