@@ -19,5 +19,10 @@ export default defineConfig({
       ...(publicHost ? [{ hostname: publicHost }] : []),
     ],
   },
-  vite: { plugins: [tailwindcss()] },
+  vite: {
+    plugins: [tailwindcss()],
+    // pdfkit is imported on demand by the figure export; pre-bundling it up front keeps the dev server
+    // from re-optimizing (and invalidating the page) on the first PDF export.
+    optimizeDeps: { include: ['pdfkit', 'pdfkit/output'] },
+  },
 });

@@ -273,7 +273,7 @@ export function DiagramView(props: DiagramViewProps) {
           pDomain={xDomain} yDomain={yDomain} provenance={provenance} />
       </div>
 
-      <div className="dg-main">
+      <div className="dg-main" style={{ ['--dg-plot-h' as string]: `${height + 2}px` }}>
         <div ref={wrapRef} className="dg-plot-wrap" style={{ height }}>
           {/* Back layer: bands and manual tags. */}
           <svg className="dg-layer" width={width} height={height} aria-hidden="true">
@@ -315,7 +315,8 @@ export function DiagramView(props: DiagramViewProps) {
               {regimes.map((b, i) => {
                 const x0 = Math.max(0, xs(b.from)), x1 = Math.min(plotW, xs(b.to));
                 if (x1 - x0 < 3) return null;
-                const label = x1 - x0 > 150 ? REGIME_LABEL[b.regime] : x1 - x0 > 60 ? b.regime : '';
+                const fits = (t: string) => t.length * 7.4 + 12 < x1 - x0; // 10.5 px capitals with tracking ≈ 7.4 px a glyph (measured on the screenshots)
+                const label = fits(REGIME_LABEL[b.regime]) ? REGIME_LABEL[b.regime] : fits(b.regime) ? b.regime : '';
                 const selected = selection?.kind === 'band' && selection.index === i;
                 return (
                   <g key={i} className={`dg-focusable dg-ribbon dg-ribbon-${b.regime}${selected ? ' is-selected' : ''}`} role="button" tabIndex={0}

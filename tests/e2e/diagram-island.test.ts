@@ -1,0 +1,124 @@
+/**
+ * The diagram island in Chromium on the development preview page (/dev/diagram-preview, invented
+ * analytic fixture): 50,000 points drawn thinned, zoom responds, keyboard opens a special point, and
+ * the SVG, CSV, PNG and PDF downloads are what they claim. The page exists only under `astro dev` or
+ * with DEV_PAGES=1; where it is not served the tests skip and say so.
+ * Base URL: DIAGRAM_PREVIEW_BASE_URL, else TEST_BASE_URL.
+ */
+import { readFileSync } from 'node:fs';
+import { XMLParser, XMLValidator } from 'fast-xml-parser';
+import Papa from 'papaparse';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { splitAllRuns } from '../../src/lib/plot/runs';
+import { formatValue } from '../../src/lib/plot/ticks';
+import { makeTwoLakeDiagram } from '../fixtures/two-lake';
+import { BASE_URL, launchBrowser, screenshotPath } from './browser.ts';
+
+const base = (process.env.DIAGRAM_PREVIEW_BASE_URL ?? BASE_URL).replace(/\/$/, '');
+const demo = JSON.parse(readFileSync('seeds/demo-accounts.json', 'utf8')) as { users: { email: string; password: string; role: string }[] };
+const modeler = demo.users.find((u) => u.role === 'modeler')!;
+// The page builds the fixture with pointsPerBranch = round(50000 / 3), exactly as here.
+const fixture = makeTwoLakeDiagram({ coupling: 0.1, pointsPerBranch: Math.round(50_000 / 3) });
+const totalPoints = fixture.branches.reduce((s, b) => s + b.points.length, 0);
+
+let browser: Browser | undefined;
+let context: BrowserContext | undefined;
+let page: Page | undefined;
+let skipReason: string | null = null;
+
+beforeAll(async () => {
+  try {
+    const res = await fetch(`${base}/api/health`).catch(() => null);
+    if (!res) { skipReason = `no app answers on ${base}`; return; }
+    browser = await launchBrowser();
+    context = await browser.newContext({ viewport: { width: 1360, height: 1000 }, acceptDownloads: true });
+    page = await context.newPage();
+    await page.goto(`${base}/sign-in`);
+    await page.getByLabel('E-mail address').fill(modeler.email);
+    await page.getByLabel('Password').fill(modeler.password);
+    await Promise.all([page.waitForURL((u) => !u.pathname.startsWith('/sign-in'), { timeout: 20_000 }), page.getByRole('button', { name: 'Sign in' }).click()]);
+    const resp = await page.goto(`${base}/dev/diagram-preview?points=50000`, { waitUntil: 'networkidle', timeout: 120_000 });
+    if (!resp || resp.status() === 404) { skipReason = `the development page /dev/diagram-preview is not served by ${base} (it needs astro dev or DEV_PAGES=1)`; return; }
+    await page.waitForSelector('[data-testid=diagram-view][data-drawn-points]:not([data-drawn-points="0"])', { timeout: 60_000 });
+  } catch (e) {
+    skipReason = `could not open the preview page: ${e instanceof Error ? e.message.split('\n')[0] : String(e)}`;
+  }
+}, 180_000);
+
+afterAll(async () => { await context?.close(); await browser?.close(); });
+
+function ready(ctx: { skip: (note?: string) => void }): Page {
+  if (skipReason || !page) { console.warn(`diagram-island e2e skipped: ${skipReason}`); ctx.skip(); }
+  return page!;
+}
+
+async function downloadText(p: Page, testId: string): Promise<Buffer> {
+  const [dl] = await Promise.all([p.waitForEvent('download', { timeout: 60_000 }), p.getByTestId(testId).click()]);
+  return readFileSync((await dl.path())!);
+}
+
+describe('diagram island on the preview page', () => {
+  it('draws 50,000 points thinned to the visible pixels, with one glyph per special point', async (ctx) => {
+    const p = ready(ctx);
+    const view = p.getByTestId('diagram-view').first();
+    expect(Number(await view.getAttribute('data-total-points'))).toBe(totalPoints);
+    const drawn = Number(await view.getAttribute('data-drawn-points'));
+    expect(drawn).toBeGreaterThan(500);
+    expect(drawn).toBeLessThan(totalPoints / 5);
+    expect(await p.locator('[data-testid=diagram-view] [data-special-id]').count()).toBe(fixture.bifurcations.length);
+    await p.screenshot({ path: screenshotPath('diagram-island-50k') });
+  });
+
+  it('zooms the parameter axis on the wheel and the axes follow', async (ctx) => {
+    const p = ready(ctx);
+    const view = p.getByTestId('diagram-view').first();
+    const before = (await view.getAttribute('data-p-domain'))!.split(',').map(Number);
+    const box = (await p.getByTestId('diagram-canvas').boundingBox())!;
+    await p.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+    for (let i = 0; i < 4; i++) await p.mouse.wheel(0, -300);
+    await p.waitForFunction((w) => {
+      const d = document.querySelector('[data-testid=diagram-view]')!.getAttribute('data-p-domain')!.split(',').map(Number);
+      return d[1] - d[0] < w * 0.8;
+    }, before[1] - before[0], { timeout: 10_000 });
+    const after = (await view.getAttribute('data-p-domain'))!.split(',').map(Number);
+    expect(after[1] - after[0]).toBeLessThan(before[1] - before[0]);
+    await p.screenshot({ path: screenshotPath('diagram-island-zoomed') });
+    await p.getByTestId('reset-view').click();
+  });
+
+  it('tab to a special point and Enter opens its panel with the parameter value and reason', async (ctx) => {
+    const p = ready(ctx);
+    const sp = fixture.bifurcations.find((b) => b.id.startsWith('sn-asym'))!;
+    await p.locator(`[data-special-id="${sp.id}"]`).focus();
+    await p.keyboard.press('Enter');
+    await expect(p.getByTestId('special-p').textContent()).resolves.toBe(formatValue(sp.p, 10));
+    await expect(p.getByTestId('special-reason').textContent()).resolves.toBe(sp.evidence.reason);
+  });
+
+  it('exports an SVG that parses and has one path per branch run, and a CSV with one row per point', async (ctx) => {
+    const p = ready(ctx);
+    await p.getByTestId('export-toggle').click();
+    const svg = (await downloadText(p, 'export-svg')).toString('utf8');
+    expect(XMLValidator.validate(svg)).toBe(true);
+    const doc = new XMLParser({ ignoreAttributes: false, attributeNamePrefix: '@', isArray: (n) => n === 'path' }).parse(svg).svg;
+    const runs = doc.path.filter((x: Record<string, string>) => x['@data-run'] !== undefined);
+    expect(runs.length).toBe(splitAllRuns(fixture.branches).length);
+    expect(svg).toContain("font-family:'Inter'");
+    const csv = Papa.parse<string[]>((await downloadText(p, 'export-csv')).toString('utf8').trim());
+    expect(csv.data.length).toBe(totalPoints + 1);
+    expect(Number(csv.data[1][2])).toBe(fixture.branches[0].points[0].p);
+  });
+
+  it('exports a PNG at twice the figure size and a PDF', async (ctx) => {
+    const p = ready(ctx);
+    if (!(await p.getByTestId('export-png-2').isVisible())) await p.getByTestId('export-toggle').click();
+    const png = await downloadText(p, 'export-png-2');
+    expect(png.subarray(1, 4).toString('latin1')).toBe('PNG');
+    // IHDR width, big-endian at byte 16 (PNG spec, section 11.2.2): 2 × the 720 px figure.
+    expect(png.readUInt32BE(16)).toBe(1440);
+    const pdf = await downloadText(p, 'export-pdf');
+    expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    expect(pdf.length).toBeGreaterThan(10_000);
+  });
+});
