@@ -364,7 +364,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
         const msg: Record<string, string> = {
           'step-collapse': 'the step size fell below the minimum (the branch may end in a singularity or leave the domain of the rates)',
           'newton-failure': 'the corrector failed repeatedly',
-          'point-cap': `the point cap of ${s.maxPointsPerBranch} per branch was reached`,
+          'point-cap': `the point cap was reached (${copts.maxPoints} points per direction, maxPointsPerBranch = ${s.maxPointsPerBranch})`,
           'state-bound': `the state left the box |x| <= ${s.stateBound}`,
         };
         if (!cancelled) diagnostics.push({ level: 'warning', code: e, message: `branch ${id} stopped: ${msg[e]}`, branch: id });

@@ -65,9 +65,9 @@ describe('switchAtBranchPoint', () => {
 
   it('reports three branches through one point (x (r^2 - x^2) at the origin) as degenerate without throwing', () => {
     const sys = scalarSystem((x, r) => x * (r * r - x * x), (x, r) => r * r - 3 * x * x, (x, r) => 2 * r * x, { from: -1, to: 1 });
-    // Here DH = [r^2 - 3x^2, 2 r x] vanishes to second order: x = +-r cross the x = 0 branch at 45
-    // degrees, so the hyperplane x = +-h meets them at r = +-h where F_r = 2 r x is not what the
-    // first-order switch assumes; the probe fails and the point must come out as degenerate.
+    // DH = [r^2 - 3x^2, 2 r x] vanishes to second order at the origin. The switch guess (+-h, 0) lies
+    // midway between the two crossing branches r = +-x, and there the bordered matrix
+    // [[r^2 - 3h^2, 2 r h], [1, 0]] = [[-3h^2, 0], [1, 0]] is singular: the probe fails, degenerate.
     const sw = switchAtBranchPoint(sys, y0, Float64Array.of(0, 1));
     expect(sw.classification).toBe('degenerate');
     expect(sw.reason).toMatch(/did not converge/);
