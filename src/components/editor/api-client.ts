@@ -2,7 +2,7 @@
  * Every request the editor island makes, in one place, so the API's JSON shape is known in one file.
  * Errors come back as { ok: false, message, issues } in words a modeler reads, never as exceptions.
  */
-import type { FieldIssue, NetworkDocument } from '../../lib/editor';
+import { issuesFromErrorBody, normalizeIssuePath, type FieldIssue, type NetworkDocument } from '../../lib/editor';
 import type { Diagram, Diagnostic } from '../../lib/atlas/types';
 
 export type ApiResult<T> = { ok: true; data: T } | { ok: false; status: number; message: string; issues: FieldIssue[] };
@@ -16,20 +16,8 @@ const STATUS_WORDS: Record<number, string> = {
   429: 'Too many requests in a short time. Wait a moment and try again.',
 };
 
-interface RawIssue { path?: string; field?: string; message?: string }
-
-function issuesOf(body: unknown): FieldIssue[] {
-  const err = (body as { error?: { issues?: unknown; details?: { issues?: unknown } } } | null)?.error;
-  const raw = (Array.isArray(err?.issues) ? err?.issues : Array.isArray(err?.details?.issues) ? err?.details?.issues : []) as RawIssue[];
-  return raw
-    .map((i) => ({ path: normalizePath(String(i.path ?? i.field ?? '(document)')), message: String(i.message ?? '') }))
-    .filter((i) => i.message !== '');
-}
-
-/** "document.nodes.1.parameters.a" or "nodes[1].parameters.a" → "nodes[1].parameters.a". */
-export function normalizePath(path: string): string {
-  return path.replace(/^document\./, '').replace(/\.(\d+)(?=\.|$)/g, '[$1]');
-}
+/** Re-exported for callers that only know the client. */
+export const normalizePath = normalizeIssuePath;
 
 export async function request<T>(method: string, url: string, body?: unknown, signal?: AbortSignal): Promise<ApiResult<T>> {
   let res: Response;
@@ -54,7 +42,7 @@ export async function request<T>(method: string, url: string, body?: unknown, si
   if (res.ok) return { ok: true, data: data as T };
   const serverMessage = (data as { error?: { message?: string } } | null)?.error?.message;
   const message = res.status === 400 || res.status === 422 ? (serverMessage ?? 'The model has problems.') : (STATUS_WORDS[res.status] ?? serverMessage ?? `The server answered ${res.status}.`);
-  return { ok: false, status: res.status, message, issues: issuesOf(data) };
+  return { ok: false, status: res.status, message, issues: issuesFromErrorBody(data) };
 }
 
 export interface ValidateResponse { valid: boolean; issues: FieldIssue[] }

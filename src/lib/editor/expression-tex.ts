@@ -1,4 +1,7 @@
-import { parse } from 'mathjs';
+import { create, parseDependencies } from 'mathjs';
+
+// Only the parser and its node classes: this runs in the browser, where all of mathjs would be ~1 MB.
+const { parse } = create({ parseDependencies });
 
 export type TexResult = { ok: true; tex: string } | { ok: false; message: string };
 

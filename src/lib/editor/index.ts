@@ -5,3 +5,4 @@ export * from './adjacency-csv';
 export * from './version-diff';
 export * from './expression-tex';
 export * from './network-layout';
+export * from './api-errors';
