@@ -7,6 +7,7 @@
 import { db } from '../db.ts';
 import { runQuery, toRunInfo, type RunInfo } from '../runs/repository.ts';
 import { notFound, conflict } from '../models/service-error.ts';
+import { cachedBody, rememberBody } from './body-cache.ts';
 
 export interface StoredResult {
   run: RunInfo;
@@ -52,5 +53,42 @@ export async function getRunResult(workspaceId: string, runId: number, view: 'fu
     pointCount: row.res_points,
     diagramText: row.res_diagram,
     regimesText: row.res_regimes,
+  };
+}
+
+export interface EncodedResult {
+  run: RunInfo;
+  head: { id: number; engineVersion: string; computeMs: number; createdAt: string; pointCount: number; viewPoints: number };
+  /** UTF-8 of `"diagram":<stored text>,"regimes":<stored text>` (without braces), ready to splice. */
+  tail: Uint8Array;
+}
+
+/**
+ * The run (checked against the workspace on every call) and its result's stored text, encoded.
+ * The run and the result's small columns come in one query; the large text comes from the
+ * immutable-result cache, or from a second query on a miss.
+ */
+export async function getEncodedRunResult(workspaceId: string, runId: number, view: 'full' | 'preview'): Promise<EncodedResult> {
+  if (!Number.isSafeInteger(runId)) throw notFound('run');
+  const row = await runQuery(db, workspaceId)
+    .leftJoin('results as res', 'res.id', 'r.result_id')
+    .andWhere('r.id', runId)
+    .first('res.id as res_id', 'res.engine_version as res_engine', 'res.compute_ms as res_ms', 'res.created_at as res_created',
+      'res.point_count as res_points', db.raw(view === 'preview' ? 'COALESCE(res.preview_points, res.point_count) as res_view_points' : 'res.point_count as res_view_points'));
+  if (!row) throw notFound('run');
+  const run = toRunInfo(row);
+  if (row.res_id == null) throw conflict(`run ${runId} has no result (it is ${run.status})`);
+  const key = `${row.res_id}:${view}`;
+  let tail = cachedBody(key);
+  if (!tail) {
+    const big = await db('results').where({ id: row.res_id })
+      .first(db.raw(view === 'preview' ? 'COALESCE(preview, diagram) as d' : 'diagram as d'), 'regimes as g');
+    tail = new TextEncoder().encode(`"diagram":${big.d},"regimes":${big.g}`);
+    rememberBody(key, tail);
+  }
+  return {
+    run,
+    head: { id: row.res_id, engineVersion: row.res_engine, computeMs: row.res_ms, createdAt: new Date(row.res_created).toISOString(), pointCount: row.res_points, viewPoints: Number(row.res_view_points) },
+    tail,
   };
 }
