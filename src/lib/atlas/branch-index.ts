@@ -1,9 +1,15 @@
 import type { TracedPoint } from '../numerics/branch-point-data.js';
 import { distanceToSegment, dist2, dot } from '../numerics/vector.js';
 
+/** What the index keeps of a point: position and tangent (not the spectrum, to keep the heap small). */
+export interface IndexedPoint {
+  readonly y: Float64Array;
+  readonly t: Float64Array;
+}
+
 export interface IndexedList {
   readonly branch: number;
-  readonly points: TracedPoint[];
+  readonly points: IndexedPoint[];
 }
 
 /**
@@ -45,7 +51,7 @@ export class BranchIndex {
 
   push(list: number, pt: TracedPoint): void {
     const l = this.lists[list];
-    l.points.push(pt);
+    l.points.push({ y: pt.y, t: pt.t });
     const [pc, xc] = this.coords(pt.y);
     const k = BranchIndex.key(pc, xc);
     let c = this.cells.get(k);

@@ -257,6 +257,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
       const startY = y;
       const mergeTol = (a: TracedPoint, b: TracedPoint) => 1e-7 * (1 + normInf(b.y)) + 0.05 * dist2(a.y, b.y);
       let prev: TracedPoint | null = null;
+      let lastPushed: TracedPoint | null = null;
       const r = continueBranch(system, y, t, det, copts, {
         onStep: (a, b) => {
           prev = a;
@@ -266,6 +267,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
           const a = prev!;
           if (idx === 1) index.push(list, a);
           index.push(list, b);
+          lastPushed = b;
           const tol = mergeTol(a, b);
           const hit = index.findParallel(b.y, b.t, tol, (l) => l === list || (index.lists[l].branch === bIndex && arc < 4 * copts.maxStep));
           if (hit) return index.lists[hit.list].branch === bIndex ? 'closed-loop' : 'merged';
@@ -275,10 +277,9 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
         isCancelled,
       });
       // Points the hook did not see (the start of a one-point direction, the end on a sweep bound).
-      const listed = index.lists[list].points;
-      if (listed.length === 0) index.push(list, r.points[0]);
       const last = r.points[r.points.length - 1];
-      if (listed[listed.length - 1] !== last) index.push(list, last);
+      if (lastPushed === null) for (const q of r.points) index.push(list, q);
+      else if (last !== lastPushed) index.push(list, last);
       return { points: r.points, end: r.end, inserts };
     };
 
