@@ -8,6 +8,7 @@ import { lucia } from './lib/server/auth/lucia.ts';
 import { clientAddress } from './lib/server/auth/client-address.ts';
 import { listMemberships } from './lib/server/workspaces/repository.ts';
 import { jsonError } from './lib/server/http.ts';
+import { maybeHousekeep } from './lib/server/housekeeping.ts';
 
 import { WORKSPACE_COOKIE } from './lib/server/workspaces/cookie.ts';
 
@@ -29,6 +30,7 @@ export const onRequest = defineMiddleware(async (context, next) => {
   locals.workspace = null;
   locals.role = null;
 
+  maybeHousekeep();
   const sessionId = cookies.get(lucia.sessionCookieName)?.value ?? null;
   if (sessionId) {
     const { session, user } = await lucia.validateSession(sessionId);

@@ -203,6 +203,11 @@ const forms: FormRoute[] = [
     fields: { email: `${long(250)}@x.invalid`, role: long(300) },
   },
   {
+    name: 'workspace settings form', path: () => `/members?workspace=${ws.workspaceId}`, client: () => ws.owner,
+    valid: () => ({ intent: 'rename', name: 'Renamed by a form' }),
+    fields: { name: long(101) },
+  },
+  {
     name: 'role form', path: () => `/members?workspace=${ws.workspaceId}`, client: () => ws.owner,
     valid: () => ({ intent: 'role', userId: ws.reviewer.user!.id, role: 'modeler' }),
     fields: { userId: long(40), role: long(300) },
