@@ -7,6 +7,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { toTraceJson, traceDiagram } from '../lib/atlas/index.js';
 import { compileModelJson, ModelError } from '../lib/model/index.js';
+import { labelRegimes, type RegimeBand } from '../lib/regimes/index.js';
 import type { CompiledSystem } from '../lib/model/index.js';
 
 /** Bad input: message is one line naming the field. */
@@ -29,6 +30,11 @@ Prints JSON (or writes it to FILE):
     "bifurcations": [ { "type": "pitchfork", "p": .., "x": [..], "branches": ["b1", "b2"] } ],
     "diagnostics": [ { "level": "info", "code": "..", "message": ".." } ] }
 "unstable" counts eigenvalues with positive real part; Hopf points add "frequency".
+It also carries the coupling regimes (docs/regimes.md):
+    "regimes": [ { "from": 0, "to": 0.03, "regime": "weak", "bounds": ["sweep-bound", "saddle-node"],
+                   "reason": "..." } ],
+    "escapeGraphs": [ { "p": 0.015, "states": [ { "x": [..], "pattern": ["base", ..] } ],
+                        "saddles": [ { "x": [..], "from": 0, "to": 3, "pattern": [..], "kind": "contained" } ] } ]
 
 Options:
   --from P     sweep start (starting equilibria are computed here); default sweep.from
@@ -39,10 +45,27 @@ Options:
 Exit codes: 0 done, 2 invalid input (message names the field), 1 internal error.
 Results are indicative; defer to domain experts and local regulation.`;
 
+const REGIMES_HELP = `Usage: npm run --silent atlas -- regimes MODEL.json [--from P] [--to P] [--recovery]
+
+Traces the model like "trace" and prints only its coupling-regime bands as a table: from, to,
+regime (weak, intermediate, strong), the special points bounding the band and the reason.
+Diagnostics of the regime analysis follow the table (e.g. "regimes undefined" for elements that are
+not bistable). Method: docs/regimes.md.
+
+Options:
+  --from P     sweep start; default sweep.from
+  --to P       sweep end; default sweep.to
+  --recovery   also label recovery from the all-tipped state
+  --help       this text
+
+Exit codes: 0 done, 2 invalid input (message names the field), 1 internal error.
+Results are indicative; defer to domain experts and local regulation.`;
+
 const HELP = `Usage: npm run --silent atlas -- <command> [options]
 
 Commands:
 ${'  trace      equilibrium branches and bifurcations of a model document'}
+${'  regimes    weak / intermediate / strong coupling bands of a model document, as a table'}
 
 Run a command with --help for its options.`;
 
@@ -108,13 +131,55 @@ const trace: Command = {
     const system = compile(readModel(positionals[0]), from, to);
     const diagram = traceDiagram(system);
     // Later sections (e.g. coupling regimes) add their keys to this object.
-    const output: Record<string, unknown> = { ...toTraceJson(diagram) };
+    const traced = toTraceJson(diagram);
+    const labelled = labelRegimes(system, diagram);
+    const output: Record<string, unknown> = {
+      ...traced,
+      diagnostics: [...traced.diagnostics, ...labelled.diagnostics],
+      regimes: labelled.regimes,
+      escapeGraphs: labelled.escapeGraphs,
+    };
     emit(output, values.out);
   },
 };
 
+function regimesTable(bands: readonly RegimeBand[]): string {
+  const head = ['from', 'to', 'regime', 'start', 'bounds', 'reason'];
+  const rows = bands.map((b) => [num(b.from), num(b.to), b.regime, b.start ?? 'all-base', b.bounds.join(' | '), b.reason]);
+  const widths = head.slice(0, -1).map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
+  const line = (r: string[]) => r.map((c, i) => (i < widths.length ? c.padEnd(widths[i]) : c)).join('  ').trimEnd();
+  return [line(head), ...rows.map(line)].join('\n');
+}
+
+function num(v: number): string {
+  return Number(v.toPrecision(10)).toString();
+}
+
+const regimes: Command = {
+  summary: 'coupling-regime bands as a table',
+  help: REGIMES_HELP,
+  run(argv) {
+    const { values, positionals } = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      options: { from: { type: 'string' }, to: { type: 'string' }, recovery: { type: 'boolean' }, help: { type: 'boolean' } },
+    });
+    if (values.help) {
+      process.stdout.write(`${REGIMES_HELP}\n`);
+      return;
+    }
+    if (positionals.length > 1) throw new UsageError(`MODEL.json: expected one model file, got ${positionals.length}`);
+    const system = compile(readModel(positionals[0]), numberOption('from', values.from), numberOption('to', values.to));
+    const diagram = traceDiagram(system);
+    const labelled = labelRegimes(system, diagram, values.recovery ? { starts: ['all-base', 'all-tipped'] } : {});
+    const lines = [labelled.regimes.length > 0 ? regimesTable(labelled.regimes) : 'no regime bands'];
+    for (const d of labelled.diagnostics) lines.push(`${d.level}: ${d.code}: ${d.message}`);
+    process.stdout.write(`${lines.join('\n')}\n`);
+  },
+};
+
 /** Subcommands; each parses its own options. */
-const commands: Record<string, Command> = { trace };
+const commands: Record<string, Command> = { trace, regimes };
 
 function main(argv: string[]): number {
   const [name, ...rest] = argv;
