@@ -28,7 +28,8 @@ export class DenseLu {
       this.singular = true;
       return;
     }
-    this.lu = new LuDecomposition(Matrix.from1DArray(size, size, a));
+    // LuDecomposition copies its input, so one scratch matrix per size is filled and reused.
+    this.lu = new LuDecomposition(fillScratch(a, size));
     this.singular = this.lu.isSingular();
     this.determinant = this.singular ? 0 : this.lu.determinant;
   }
@@ -36,7 +37,7 @@ export class DenseLu {
   /** Solves A z = b. Returns null when A is singular or the solution is not finite. */
   solve(b: ArrayLike<number>): Float64Array | null {
     if (this.lu === null || this.singular) return null;
-    const col = new Matrix(this.size, 1);
+    const col = columnScratch(this.size);
     for (let i = 0; i < this.size; i++) col.set(i, 0, b[i]);
     const z = this.lu.solve(col);
     const out = new Float64Array(this.size);
@@ -47,4 +48,21 @@ export class DenseLu {
     }
     return out;
   }
+}
+
+const squares = new Map<number, Matrix>();
+const columns = new Map<number, Matrix>();
+
+function fillScratch(a: Float64Array, size: number): Matrix {
+  let m = squares.get(size);
+  if (!m) squares.set(size, (m = new Matrix(size, size)));
+  for (let i = 0; i < size; i++) for (let j = 0; j < size; j++) m.set(i, j, a[i * size + j]);
+  return m;
+}
+
+/** LuDecomposition.solve copies the right-hand side before working on it, so it can be reused too. */
+function columnScratch(size: number): Matrix {
+  let m = columns.get(size);
+  if (!m) columns.set(size, (m = new Matrix(size, 1)));
+  return m;
 }
