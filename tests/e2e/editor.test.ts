@@ -29,11 +29,17 @@ async function signedIn(role: string): Promise<{ context: BrowserContext; page: 
   const page = await context.newPage();
   page.on('pageerror', (e) => console.error(`[${role} page error]`, e.message));
   await page.goto(`${BASE_URL}/sign-in`);
+  await hydrated(page);
   await page.getByLabel('E-mail address').fill(account(role).email);
   await page.getByLabel('Password').fill(account(role).password);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL((u) => u.pathname !== '/sign-in');
   return { context, page };
+}
+
+/** Waits until every island on the page has hydrated (Astro drops the ssr attribute then). */
+async function hydrated(page: Page) {
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout: 30_000 });
 }
 
 /** Full-page screenshots in the light and the dark theme (the layout's toggle sets data-theme). */
@@ -57,12 +63,19 @@ describe('the model editor and the run view, as the demo modeler', () => {
   it('builds a model from scratch with live checks, CSV upload and a preview, then saves it', async () => {
     const { context, page } = await signedIn('modeler');
     await page.goto(`${BASE_URL}/models`);
+    await hydrated(page);
     await shootBothThemes(page, 'models-index');
     await page.getByTestId('new-model').click();
     await page.waitForURL(`${BASE_URL}/models/new`);
+    await hydrated(page);
     const editor = page.getByRole('form', { name: 'Model editor' });
     await editor.waitFor();
 
+    // Keyboard: the name field takes focus and Tab moves on to the description, with a visible ring.
+    await page.getByLabel('Name', { exact: true }).focus();
+    await page.keyboard.press('Tab');
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe('field-description');
+    expect(await page.evaluate(() => getComputedStyle(document.activeElement!).outlineStyle)).toBe('solid');
     await page.getByLabel('Name', { exact: true }).fill('E2E lakes from scratch');
     await page.getByLabel('Description').fill('Invented test model: three lakes typed into the editor.');
     await page.getByLabel('State variable').fill('P');
@@ -120,6 +133,7 @@ describe('the model editor and the run view, as the demo modeler', () => {
   it('keeps the form when a save fails and says why in words', async () => {
     const { context, page } = await signedIn('modeler');
     await page.goto(`${BASE_URL}${modelPath}/edit`);
+    await hydrated(page);
     await page.getByRole('form', { name: 'Model editor' }).waitFor();
     await page.getByLabel('Change note').fill('');
     await page.getByTestId('save-model').click();
@@ -137,13 +151,18 @@ describe('the model editor and the run view, as the demo modeler', () => {
   it('starts a run, watches the progress bar finish and finds every special point of the result in the page', async () => {
     const { context, page } = await signedIn('modeler');
     await page.goto(`${BASE_URL}${modelPath}`);
+    await hydrated(page);
     await shootBothThemes(page, 'model-overview');
     await page.getByTestId('start-run').click();
     await page.waitForURL(/\/runs\/\d+$/, { timeout: 15000 });
+    await hydrated(page);
     runId = Number(new URL(page.url()).pathname.split('/').pop());
+    // A fresh result shows the progress bar first (a reused one is done at once and shows the diagram).
     const bar = page.getByTestId('run-progress');
     if (await bar.count()) {
       expect(await bar.getAttribute('role')).toBe('progressbar');
+      expect(Number(await bar.getAttribute('aria-valuenow'))).toBeGreaterThanOrEqual(0);
+      await page.screenshot({ path: screenshotPath('run-progress-light'), fullPage: true });
     }
     await page.getByTestId('diagram-view').waitFor({ timeout: 120_000 });
     const api = await page.request.get(`${BASE_URL}/api/runs/${runId}/result`);
@@ -162,11 +181,14 @@ describe('the same model as the demo reviewer', () => {
   it('shows no edit controls, the API refuses an edit, and a comment can be added to the run', async () => {
     const { context, page } = await signedIn('reviewer');
     await page.goto(`${BASE_URL}${modelPath}`);
+    await hydrated(page);
     expect(await page.getByTestId('edit-model').count()).toBe(0);
     expect(await page.getByTestId('start-run').count()).toBe(0);
     await page.goto(`${BASE_URL}/models`);
+    await hydrated(page);
     expect(await page.getByTestId('new-model').count()).toBe(0);
     await page.goto(`${BASE_URL}${modelPath}/edit`);
+    await hydrated(page);
     expect(await page.getByRole('form', { name: 'Model editor' }).count()).toBe(0);
 
     const id = modelPath.split('/').pop();
@@ -178,13 +200,17 @@ describe('the same model as the demo reviewer', () => {
     expect(preview.status()).toBe(403);
 
     await page.goto(`${BASE_URL}/runs/${runId}`);
+
+    await hydrated(page);
     await page.getByRole('textbox', { name: 'Comment' }).fill('Please state where the loading values come from.');
     await page.getByTestId('add-comment').click();
     await expect.poll(() => page.getByTestId('comments').textContent(), { timeout: 10000 }).toContain('where the loading values come from');
     await page.goto(`${BASE_URL}/reviews?resolved=1`);
+    await hydrated(page);
     expect(await page.getByTestId('review-comments').textContent()).toContain('where the loading values come from');
     await shootBothThemes(page, 'reviews-reviewer');
     await page.goto(`${BASE_URL}/report?runs=${runId}`);
+    await hydrated(page);
     expect(await page.getByTestId('report-section').count()).toBe(1);
     expect(await page.locator('[data-testid="report-section"] svg path[data-special]').count()).toBeGreaterThanOrEqual(0);
     await shootBothThemes(page, 'report');
@@ -194,6 +220,7 @@ describe('the same model as the demo reviewer', () => {
   it('the modeler sees the open comment on their model, and compares two runs', async () => {
     const { context, page } = await signedIn('modeler');
     await page.goto(`${BASE_URL}/reviews`);
+    await hydrated(page);
     expect(await page.getByTestId('review-comments').textContent()).toContain('where the loading values come from');
     await shootBothThemes(page, 'reviews-modeler');
     const runs = await page.request.get(`${BASE_URL}/api/runs?status=done`);
@@ -202,6 +229,7 @@ describe('the same model as the demo reviewer', () => {
     const ids = items.filter((r, k) => items.findIndex((q) => q.modelId === r.modelId) === k).map((r) => r.id).slice(0, 2);
     expect(ids.length).toBe(2);
     await page.goto(`${BASE_URL}/compare?runs=${ids.join(',')}`);
+    await hydrated(page);
     expect(await page.getByTestId('compare-view').count()).toBe(1);
     expect(await page.getByTestId('compare-special-table').count()).toBe(1);
     await shootBothThemes(page, 'compare');

@@ -56,7 +56,7 @@ export function VersionHistory({ modelId, refreshKey, onLoad }: { modelId: strin
             <li key={v.number}>
               <span className="ed-mono">v{v.number}</span>
               <span>{v.changeNote || <em>no change note</em>}</span>
-              <span className="ed-hint">{[v.createdBy, v.createdAt ? new Date(v.createdAt).toLocaleString() : ''].filter(Boolean).join(' · ')}</span>
+              <span className="ed-hint">{[v.createdByName ?? v.createdBy, v.createdAt ? new Date(v.createdAt).toLocaleString() : ''].filter(Boolean).join(' · ')}</span>
               {v.hash ? <span className="ed-hint ed-mono" title={`content hash ${v.hash}`}>{v.hash.slice(0, 10)}</span> : null}
               {onLoad ? <button type="button" className="ed-btn ed-btn-quiet" onClick={() => load(v.number)}>Load into editor</button> : null}
             </li>

@@ -54,7 +54,7 @@ export interface PreviewResponse {
   elapsedMs?: number;
   truncated?: boolean;
 }
-export interface VersionSummary { id?: number | string; number: number; hash?: string; changeNote?: string; createdAt?: string; createdBy?: string | null }
+export interface VersionSummary { id?: number | string; number: number; hash?: string; changeNote?: string; createdAt?: string; createdBy?: string | null; createdByName?: string | null }
 
 export const api = {
   validate: (document: NetworkDocument, signal?: AbortSignal) => request<ValidateResponse>('POST', '/api/validate', { document }, signal),

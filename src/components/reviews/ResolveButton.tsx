@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { request } from '../editor/api-client';
+import '../editor/editor.css';
 
 /** Marks a review comment resolved or open again (modelers act on reviews of their models). */
 export default function ResolveButton({ commentId, resolved }: { commentId: number; resolved: boolean }) {
