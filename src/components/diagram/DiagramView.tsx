@@ -42,7 +42,9 @@ export function DiagramView(props: DiagramViewProps) {
   const drawnRef = useRef<Drawn>({ sx: new Float32Array(0), sy: new Float32Array(0), branch: new Int32Array(0), index: new Int32Array(0), n: 0 });
 
   const options = useMemo(() => availableProjections(diagram, thresholds), [diagram, thresholds]);
-  const [projKey, setProjKey] = useState(() => props.initialProjection && options.some((o) => o.key === props.initialProjection) ? props.initialProjection : options[0]?.key ?? 'node:0');
+  // Default: one node's state for one or two nodes (the classic fold picture), the mean state for larger networks.
+  const [projKey, setProjKey] = useState(() => props.initialProjection && options.some((o) => o.key === props.initialProjection)
+    ? props.initialProjection : diagram.variables.length > 2 ? 'mean' : options[0]?.key ?? 'node:0');
   const projection: Projection = useMemo(() => projectionFromKey(projKey, thresholds), [projKey, thresholds]);
   const [transform, setTransform] = useState<ZoomTransform>(zoomIdentity);
   const [zoomY, setZoomY] = useState(false);

@@ -68,9 +68,9 @@ export function diagramExtent(diagram: Diagram, projection: Projection): { p: [n
   return { p: [p0, p1], y: [y0, y1] };
 }
 
-/** Greedy word wrap by an average glyph width of 0.55 em (Inter's mean advance, from memory). */
+/** Greedy word wrap by an average glyph width of 0.5 em (Inter's mean advance on prose, estimated from the exported figures). */
 export function wrapText(text: string, size: number, width: number): string[] {
-  const maxChars = Math.max(10, Math.floor(width / (size * 0.55)));
+  const maxChars = Math.max(10, Math.floor(width / (size * 0.5)));
   const lines: string[] = [];
   for (const para of text.split(/\n/)) {
     let line = '';
@@ -107,6 +107,11 @@ export function buildFigure(input: FigureInput): Figure {
       items.push({ t: 'text', x: r2((x0 + x1) / 2), y: plot.y - 9, text: x1 - x0 > 130 ? REGIME_LABEL[band.regime] : band.regime, size: 10.5, weight: 600, anchor: 'middle', fill: pal.bandInk[band.regime] });
     }
   }
+  // Grid and axes.
+  for (const t of px.ticks) items.push({ t: 'path', d: `M${r2(t.pos)},${plot.y}V${plot.y + plot.h}`, stroke: pal.grid, strokeWidth: 0.6 });
+  const yTicks = projection.kind === 'tipped' ? integerTicks(py) : py.ticks;
+  for (const t of yTicks) items.push({ t: 'path', d: `M${plot.x},${r2(t.pos)}H${plot.x + plot.w}`, stroke: pal.grid, strokeWidth: 0.6 });
+
   if (input.showTags) {
     for (const tag of input.tags ?? []) {
       const x0 = Math.max(plot.x, X(tag.from)), x1 = Math.min(plot.x + plot.w, X(tag.to));
@@ -115,11 +120,6 @@ export function buildFigure(input: FigureInput): Figure {
       items.push({ t: 'text', x: r2(x0 + 3), y: plot.y + plot.h - 11, text: tag.name, size: 9.5, anchor: 'start', fill: pal.ink, italic: true, clip: true });
     }
   }
-
-  // Grid and axes.
-  for (const t of px.ticks) items.push({ t: 'path', d: `M${r2(t.pos)},${plot.y}V${plot.y + plot.h}`, stroke: pal.grid, strokeWidth: 0.6 });
-  const yTicks = projection.kind === 'tipped' ? integerTicks(py) : py.ticks;
-  for (const t of yTicks) items.push({ t: 'path', d: `M${plot.x},${r2(t.pos)}H${plot.x + plot.w}`, stroke: pal.grid, strokeWidth: 0.6 });
 
   // Branches, one path per run of constant stability index.
   const budget = input.pointBudget ?? Math.max(200, Math.round(plot.w * 4));

@@ -2,12 +2,29 @@
  * Development-only harness: builds the invented analytic two-lake fixture in the browser (so 50,000
  * points need not travel as island props) and mounts the islands on it. Used by /dev/diagram-preview.
  */
-import { useMemo } from 'react';
+import { useEffect, useMemo, useState } from 'react';
+import type { Diagram } from '../../../lib/atlas/types';
+import type { EscapeGraph, RegimeBand } from '../../../lib/regimes/types';
 import { makeTwoLakeBands, makeTwoLakeDiagram, makeTwoLakeEscapeGraph, TWO_LAKE_PROVENANCE, TWO_LAKE_TAGS } from '../../../../tests/fixtures/two-lake';
 import { CompareView } from '../../compare/CompareView';
 import { DiagramView } from '../DiagramView';
 
-export function PreviewHarness({ points = 400, coupling = 0.1, compare = false }: { points?: number; coupling?: number; compare?: boolean }) {
+interface EngineFixture { diagram: Diagram; regimes: RegimeBand[]; escapeGraphs: EscapeGraph[] }
+
+/** The engine's own output on an invented three-lake chain (scripts/make-fixtures.ts). */
+function EnginePreview() {
+  const [data, setData] = useState<EngineFixture | null>(null);
+  useEffect(() => { void import('../../../../tests/fixtures/engine-three-lakes.json').then((m) => setData((m.default ?? m) as unknown as EngineFixture)); }, []);
+  if (!data) return <p>Loading the engine fixture…</p>;
+  return <DiagramView diagram={data.diagram} regimes={data.regimes} escapeGraphs={data.escapeGraphs} provenance={{ ...TWO_LAKE_PROVENANCE, modelName: 'Three invented lakes (engine fixture)', engineVersion: data.diagram.engineVersion }} title="Three lakes (engine fixture, invented model)" />;
+}
+
+export function PreviewHarness({ points = 400, coupling = 0.1, compare = false, source = 'analytic' }: { points?: number; coupling?: number; compare?: boolean; source?: string }) {
+  if (source === 'engine') return <EnginePreview />;
+  return <AnalyticPreview points={points} coupling={coupling} compare={compare} />;
+}
+
+function AnalyticPreview({ points, coupling, compare }: { points: number; coupling: number; compare: boolean }) {
   const data = useMemo(() => {
     const diagram = makeTwoLakeDiagram({ coupling, pointsPerBranch: Math.max(10, Math.round(points / 3)) });
     const regimes = makeTwoLakeBands(diagram);
