@@ -8,3 +8,4 @@ export * from './branch-point-data.js';
 export * from './pseudo-arclength.js';
 export * from './locate.js';
 export * from './branch-switch.js';
+export { continueBranch as pseudoArclength } from './pseudo-arclength.js';

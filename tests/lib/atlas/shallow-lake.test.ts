@@ -47,6 +47,8 @@ describe('traceDiagram on the shallow-lake model', () => {
     for (let i = 0; i < 2; i++) {
       expect(Math.abs(folds[i].p - ref[i].a)).toBeLessThan(1e-10);
       expect(Math.abs(folds[i].x[0] - ref[i].P)).toBeLessThan(1e-7);
+      // The location bracket itself is below the 1e-10 asked for in p.
+      expect(folds[i].evidence.parameterBracket as number).toBeLessThan(1e-10);
     }
     // One S-shaped branch from the single clear-water equilibrium at a = -0.3 to the turbid one at a = 0.6.
     expect(d.branches).toHaveLength(1);
