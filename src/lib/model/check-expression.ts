@@ -105,8 +105,8 @@ interface ConvertContext {
 type AnyNode = any;
 
 function convert(node: AnyNode, depth: number, ctx: ConvertContext): Expr | null {
-  if (depth > MODEL_LIMITS.maxExpressionDepth * 2) {
-    ctx.report(`expression nests deeper than ${MODEL_LIMITS.maxExpressionDepth} levels`);
+  if (depth > MODEL_LIMITS.maxTreeDepth) {
+    ctx.report(`expression is nested more than ${MODEL_LIMITS.maxTreeDepth} operations deep (split long products or chains)`);
     return null;
   }
   const type: string = node?.type;

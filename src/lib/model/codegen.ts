@@ -44,7 +44,6 @@ export function emit(e: Expr, symbolCode: (name: string) => string, powers?: Set
 }
 
 function emitTree(e: Expr, symbolCode: (name: string) => string, powers: Set<number>): string {
-  const emit = (x: Expr) => emitTree(x, symbolCode, powers);
   switch (e.kind) {
     case 'num': return numberLiteral(e.value);
     case 'sym': {
@@ -52,10 +51,10 @@ function emitTree(e: Expr, symbolCode: (name: string) => string, powers: Set<num
       if (!SYMBOL_CODE.test(code)) throw new Error(`codegen: bad symbol reference for ${e.name}`);
       return code;
     }
-    case 'neg': return `(-(${emit(e.arg)}))`;
-    case 'call': return CALL_CODE[e.fn](emit(e.arg));
+    case 'neg': return `(-(${emitTree(e.arg, symbolCode, powers)}))`;
+    case 'call': return CALL_CODE[e.fn](emitTree(e.arg, symbolCode, powers));
     case 'bin': {
-      const l = emit(e.left);
+      const l = emitTree(e.left, symbolCode, powers);
       if (e.op === '^') {
         const k = e.right.kind === 'num' ? e.right.value : NaN;
         if (Number.isInteger(k) && Math.abs(k) >= 2 && Math.abs(k) <= MAX_MULTIPLIED_POWER) {
@@ -63,9 +62,9 @@ function emitTree(e: Expr, symbolCode: (name: string) => string, powers: Set<num
           const base = m === 2 && e.left.kind === 'sym' ? `(${l} * ${l})` : (powers.add(m), `ipow${m}(${l})`);
           return k > 0 ? base : `(1 / ${base})`;
         }
-        return `Math.pow(${l}, ${emit(e.right)})`;
+        return `Math.pow(${l}, ${emitTree(e.right, symbolCode, powers)})`;
       }
-      return `(${l} ${e.op} ${emit(e.right)})`;
+      return `(${l} ${e.op} ${emitTree(e.right, symbolCode, powers)})`;
     }
   }
 }

@@ -1,7 +1,7 @@
 import type { CompiledSystem, NetworkStructure } from './compiled-system';
 import { compileFunction, emit } from './codegen';
 import { differentiate } from './differentiate';
-import { bin, num, replaceSymbols, sym, symbolsOf, type Expr } from './expr';
+import { bin, countNodes, num, replaceSymbols, sym, symbolsOf, type Expr } from './expr';
 import { fold, foldConstants } from './fold';
 import { atPath, internalTree } from './internal-tree';
 import type { NetworkDocument } from './schema';
@@ -14,10 +14,13 @@ type VectorFn = (x: Float64Array, p: number, out: Float64Array) => Float64Array;
  * How the network's rates are evaluated. 'unrolled' generates one straight-line function per output
  * (every node and link written out, parameters inlined); 'loop' evaluates the element and the term
  * through per-node parameter vectors in loops. Both come from the same symbolic derivatives; 'auto'
- * unrolls up to UNROLL_MAX_LINKS directed links and loops beyond, to bound the generated source.
+ * unrolls up to UNROLL_MAX_LINKS directed links and UNROLL_MAX_TREE_NODES generated tree nodes and
+ * loops beyond, to bound the generated source and its compile time.
  */
 export type NetworkStrategy = 'auto' | 'unrolled' | 'loop';
 export const UNROLL_MAX_LINKS = 1024;
+/** Upper bound on the tree nodes the unrolled form would generate (about 1 MB of source). */
+export const UNROLL_MAX_TREE_NODES = 60_000;
 
 /**
  * Compile a network document. Node i (state x_i, parameters q_i = element parameters overridden by
@@ -125,7 +128,11 @@ export function compileNetwork(
   };
 
   const shared = { n, links, q, free, sweepIsCoupling, sweptIndex, sweptName, couplingValue, element, term, termUsesSwept };
-  const useUnrolled = strategy === 'unrolled' || (strategy === 'auto' && links.length <= UNROLL_MAX_LINKS);
+  const unrolledSize =
+    n * (countNodes(element.f) + countNodes(element.fx) + countNodes(element.fp))
+    + links.length * (countNodes(term.g) + countNodes(term.gs) + countNodes(term.gt) + countNodes(term.gp));
+  const useUnrolled = strategy === 'unrolled'
+    || (strategy === 'auto' && links.length <= UNROLL_MAX_LINKS && unrolledSize <= UNROLL_MAX_TREE_NODES);
   const fns = useUnrolled
     ? atPath('links', () => unrolled(shared))
     : atPath('links', () => looped(shared, f, fx, elementFn, termFn));

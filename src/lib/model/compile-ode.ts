@@ -1,7 +1,9 @@
 import type { CompiledSystem } from './compiled-system';
 import { compileFunction, emit } from './codegen';
-import { differentiate } from './differentiate';
-import { num, symbolsOf } from './expr';
+import { differentiate, symbolIndex } from './differentiate';
+import { countNodes, num, symbolsOf, type Expr } from './expr';
+import { ModelError } from './errors';
+import { MODEL_LIMITS } from './limits';
 import { atPath, internalTree, substitute } from './internal-tree';
 import type { OdeDocument } from './schema';
 
@@ -45,17 +47,31 @@ export function compileOde(doc: OdeDocument, parameter: string, sweep: { from: n
   const jacPowers = new Set<number>();
   const dpPowers = new Set<number>();
   let jacobianHasZeros = false;
+  let generated = 0;
   doc.variables.forEach((v, i) => {
     atPath(`rates.${v}`, () => {
       const tree = substitute(internalTree(doc.rates[v], allowed, rename, `rates.${v}`), fixedValue);
       rateLines.push(`out[${i}] = ${emit(tree, code, ratePowers)};`);
+      generated += countNodes(tree);
       const used = symbolsOf(tree);
+      const index = symbolIndex(tree);
+      const spend = (d: Expr) => {
+        generated += countNodes(d);
+        if (generated > MODEL_LIMITS.maxGeneratedTreeNodes) {
+          throw new ModelError([{
+            path: `rates.${v}`,
+            message: `the symbolic Jacobian grows beyond ${MODEL_LIMITS.maxGeneratedTreeNodes} terms at this rate; shorten the rates or use fewer variables per rate`,
+          }]);
+        }
+      };
       for (let j = 0; j < n; j++) {
-        const d = used.has(`v${j}`) ? differentiate(tree, `v${j}`) : num(0);
+        const d = used.has(`v${j}`) ? differentiate(tree, `v${j}`, index) : num(0);
+        spend(d);
         if (d.kind === 'num' && d.value === 0) jacobianHasZeros = true;
         else jacLines.push(`out[${i * n + j}] = ${emit(d, code, jacPowers)};`);
       }
-      const dp = used.has(sweptName) ? differentiate(tree, sweptName) : num(0);
+      const dp = used.has(sweptName) ? differentiate(tree, sweptName, index) : num(0);
+      spend(dp);
       dpLines.push(`out[${i}] = ${emit(dp, code, dpPowers)};`);
     });
   });

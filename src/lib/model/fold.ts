@@ -15,8 +15,9 @@ const isNum = (e: Expr, v?: number): e is Extract<Expr, { kind: 'num' }> =>
 /**
  * Light algebraic clean-up of trees from mathjs `derivative` (run with simplify: false, whose output
  * carries many `* 1`, `0 +`, `(8 - 1)`): folds constant subtrees whose value is finite and drops
- * neutral elements. `0 * u -> 0` assumes u is finite where it is evaluated (it differs from IEEE only
- * where u is infinite or NaN). `c * abs(u) / u -> c * sign(u)`, the derivative of |u| away from u = 0,
+ * neutral elements. The rules `0 * u -> 0`, `0 + u -> u` and `0 - u -> -u` differ from evaluating
+ * the literal expansion only in the sign of a zero result or where u is infinite or NaN, i.e. at
+ * points where the expression is singular anyway; an exact-zero term of a derivative stays zero. `c * abs(u) / u -> c * sign(u)`, the derivative of |u| away from u = 0,
  * taken as 0 at u = 0 (a subgradient) instead of mathjs's 0/0.
  * mathjs `simplify` is not used: it is slow on these trees and may rewrite symbols it knows as
  * constants (e, pi); this fold never touches symbols.
@@ -34,18 +35,18 @@ export function foldConstants(e: Expr): Expr {
   return foldWith(e, true);
 }
 
+// Plain recursion without per-call closures: this runs over every node of every derivative.
 function foldWith(e: Expr, exact: boolean): Expr {
-  const fold = (x: Expr) => foldWith(x, exact);
   switch (e.kind) {
     case 'num': case 'sym': return e;
     case 'neg': {
-      const a = fold(e.arg);
+      const a = foldWith(e.arg, exact);
       if (isNum(a)) return num(-a.value);
       if (a.kind === 'neg') return a.arg;
       return neg(a);
     }
     case 'call': {
-      const a = fold(e.arg);
+      const a = foldWith(e.arg, exact);
       if (isNum(a)) {
         const v = UNARY_IMPL[e.fn](a.value);
         if (Number.isFinite(v)) return num(v);
@@ -53,8 +54,8 @@ function foldWith(e: Expr, exact: boolean): Expr {
       return call(e.fn, a);
     }
     case 'bin': {
-      const l = fold(e.left);
-      const r = fold(e.right);
+      const l = foldWith(e.left, exact);
+      const r = foldWith(e.right, exact);
       if (isNum(l) && isNum(r)) {
         const v = applyBinary(e.op, l.value, r.value);
         if (Number.isFinite(v)) return num(v);
@@ -68,15 +69,15 @@ function foldWith(e: Expr, exact: boolean): Expr {
           return bin('+', l, r);
         case '-':
           if (isNum(r, 0)) return l;
-          if (isNum(l, 0)) return fold(neg(r));
+          if (isNum(l, 0)) return foldWith(neg(r), exact);
           if (r.kind === 'neg') return bin('+', l, r.arg);
           return bin('-', l, r);
         case '*':
           if (isNum(l, 0) || isNum(r, 0)) return num(0);
           if (isNum(l, 1)) return r;
           if (isNum(r, 1)) return l;
-          if (isNum(l, -1)) return fold(neg(r));
-          if (isNum(r, -1)) return fold(neg(l));
+          if (isNum(l, -1)) return foldWith(neg(r), exact);
+          if (isNum(r, -1)) return foldWith(neg(l), exact);
           return bin('*', l, r);
         case '/': {
           if (isNum(r, 1)) return l;

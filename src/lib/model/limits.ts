@@ -13,10 +13,21 @@ export const MODEL_LIMITS = {
   maxNameLength: 64,
   /** Characters in one expression. */
   maxExpressionLength: 2000,
-  /** Nesting depth of one parsed expression (brackets, operators and function calls). */
+  /** Bracket nesting in one expression's text (checked before parsing). */
   maxExpressionDepth: 200,
+  /**
+   * Depth of one parsed expression tree (operators and calls); a chain like `x*x*...*x` is as deep
+   * as it is long, so this bounds chains to 400 operations.
+   */
+  maxTreeDepth: 400,
   /** Characters in the document's name. */
   maxDocumentNameLength: 200,
+  /**
+   * Tree nodes of all compiled rates and Jacobian entries together (explicit form). A symbolic
+   * Jacobian repeats shared subexpressions in every entry, so dense nonlinear systems grow fast;
+   * at this size compiling takes about a second here.
+   */
+  maxGeneratedTreeNodes: 500_000,
   /** Entries in the `start` list. */
   maxStartGuesses: 256,
 } as const;

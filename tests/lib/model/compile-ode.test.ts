@@ -115,7 +115,38 @@ describe('derivatives of every allowed function', () => {
   });
 });
 
+describe('operands that both depend on the variable', () => {
+  it('x^x, x / sin(x) and x * exp(x) differentiate like central differences', () => {
+    const sys = compileModelJson({
+      format: 'brinkmap/ode-1', name: 'both operands', variables: ['x', 'y'], parameters: { c: 1 },
+      rates: { x: 'x^x + x / sin(x) * c', y: 'x * exp(x) * y^y' }, sweep: { parameter: 'c', from: 0, to: 2 },
+    });
+    for (const [x, y] of [[0.7, 1.3], [1.9, 0.4]]) {
+      const s = Float64Array.from([x, y]);
+      // Source: central differences (independent of the symbolic derivative).
+      expect(maxAbsDiff(sys.jacobian(s, 1.2, new Float64Array(4)), fdJacobian(sys, s, 1.2))).toBeLessThan(1e-7);
+      expect(maxAbsDiff(sys.parameterDerivative(s, 1.2, new Float64Array(2)), fdParameter(sys, s, 1.2))).toBeLessThan(1e-7);
+    }
+  });
+});
+
 describe('compile errors', () => {
+  it('refuses a dense nonlinear 64-variable system whose symbolic Jacobian exceeds the cap, naming the rate', () => {
+    const vars = Array.from({ length: 64 }, (_, i) => `x${i}`);
+    const rate = `exp(sin(${vars.join(' * ')}) * cos(${vars.join(' + ')}))`;
+    let error: unknown;
+    try {
+      compileModelJson({
+        format: 'brinkmap/ode-1', name: 'dense', variables: vars, parameters: { c: 1 },
+        rates: Object.fromEntries(vars.map((v) => [v, rate])), sweep: { parameter: 'c', from: 0, to: 1 },
+      });
+    } catch (err) {
+      error = err;
+    }
+    expect(error).toBeInstanceOf(ModelError);
+    expect((error as ModelError).message).toMatch(/^rates\.x\d+: the symbolic Jacobian grows beyond 500000 terms/);
+  });
+
   it('throws ModelError naming rates.y for a bad rate', () => {
     const d = copy(lorenz);
     d.rates.y = 'x * (rho - w) - y';

@@ -109,6 +109,7 @@ describe('validateModelDocument names the path of every problem', () => {
     ['an expression that is not a string', rate(3 as any), { path: 'element.rate', message: 'expected a string, got a number' }],
     ['too long an expression', rate(`P${' + P'.repeat(500)}`), { path: 'element.rate', message: 'expression is too long: at most 2000 characters are allowed, got 2001' }],
     ['too deep brackets', rate(`${'('.repeat(250)}P${')'.repeat(250)}`), { path: 'element.rate', message: 'expression nests brackets deeper than 200 levels (character 201)' }],
+    ['a chain of more than 400 operations', rate(Array(450).fill('P').join('*')), { path: 'element.rate', message: 'expression is nested more than 400 operations deep (split long products or chains)' }],
     ['65 nodes', network((d) => { d.nodes = Array.from({ length: 65 }, (_, i) => ({ id: `n${i}` })); d.links = []; }), { path: 'nodes', message: 'at most 64 nodes are allowed, got 65' }],
     ['65 variables', ode((d) => { d.variables = Array.from({ length: 65 }, (_, i) => `x${i}`); }), { path: 'variables', message: 'at most 64 variables are allowed, got 65' }],
     ['too long a node id', network((d) => (d.nodes[0].id = 'n'.repeat(65))), { path: 'nodes[0].id', message: 'at most 64 characters are allowed, got 65' }],
