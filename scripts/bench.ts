@@ -18,6 +18,7 @@ import { compileModelJson } from '../src/lib/model/index.js';
 import { DenseLu, newton } from '../src/lib/numerics/index.js';
 import { findStartingEquilibria } from '../src/lib/atlas/starting-equilibria.js';
 import { defaultTraceSettings } from '../src/lib/atlas/trace-settings.js';
+import { labelRegimes, type RegimeBand } from '../src/lib/regimes/index.js';
 
 export interface BenchSection {
   readonly title: string;
@@ -235,7 +236,43 @@ const engineSection: BenchSection = {
   },
 };
 
-export const sections: BenchSection[] = [engineSection];
+/**
+ * Coupling regimes (docs/regimes.md): time to label every band of the 2-, 3- and 6-node diagrams with
+ * the default settings, against a baseline in the same process that cuts at every special point and
+ * integrates the unstable manifolds with tight settings (rtol 1e-10, atol 1e-12, offset 1e-6, arrival
+ * radius 1e-4). "agree" says whether both give the same bands (regime and edges).
+ */
+const regimesSection: BenchSection = {
+  title: 'Coupling regimes: label all bands, default settings vs every-cut tight-tolerance baseline (same process, one core)',
+  run() {
+    const widths = [28, 9, 8, 10, 10, 8, 6, 6];
+    console.log(row(['network', 'intervals', 'saddles', 'label ms', 'base ms', 'speed x', 'bands', 'agree'], widths));
+    const same = (a: RegimeBand[], b: RegimeBand[]) => a.length === b.length && a.every((x, i) => x.regime === b[i].regime && x.from === b[i].from && x.to === b[i].to);
+    for (const spec of networks.filter((n) => n.a.length <= 6)) {
+      const system = compileModelJson(networkDoc(spec));
+      const diagram = traceDiagram(system);
+      const small = spec.a.length <= 3;
+      if (small) labelRegimes(system, diagram); // warm-up (JIT), not timed
+      let best = Infinity;
+      let found: ReturnType<typeof labelRegimes> | null = null;
+      for (let k = 0; k < (small ? 3 : 1); k++) {
+        const t = time(() => labelRegimes(system, diagram));
+        if (t.ms < best) { best = t.ms; found = t.value; }
+      }
+      const result = found!;
+      const base = time(() => labelRegimes(system, diagram, { allCuts: true, relativeTolerance: 1e-10, absoluteTolerance: 1e-12, manifoldOffset: 1e-6, arrivalRadius: 1e-4 }));
+      const saddles = result.escapeGraphs.reduce((sum, g) => sum + g.saddles.length, 0);
+      console.log(row([spec.name, result.escapeGraphs.length, saddles, fmt(best, 4), fmt(base.ms, 4), fmt(base.ms / best, 3), result.regimes.length,
+        same(result.regimes, base.value.regimes) ? 'yes' : 'NO'], widths));
+      if (spec.a.length === 3) {
+        console.log(`  3-node goal: all bands labelled < 1 s -> ${best < 1000 ? 'met' : 'NOT met'} (${fmt(best, 4)} ms, best of 3)`);
+      }
+    }
+    console.log('  intervals = escape graphs built (one per interval between special points that can change the graph); saddles = edges in all of them.');
+  },
+};
+
+export const sections: BenchSection[] = [engineSection, regimesSection];
 
 for (const s of sections) {
   console.log(`\n== ${s.title}`);
