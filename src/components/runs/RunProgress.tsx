@@ -81,7 +81,7 @@ export default function RunProgress({ runId, initial, canCancel }: { runId: numb
   const pct = Math.round(Math.max(0, Math.min(1, p.progress || 0)) * 100);
   const active = !TERMINAL.has(p.status);
   return (
-    <div className="ed-root"><section className="ed-section run-progress" aria-labelledby="run-progress-h" data-status={p.status}>
+    <div className="ed-root" style={{ maxWidth: "none", marginBottom: "1.25rem" }}><section className="ed-section run-progress" aria-labelledby="run-progress-h" data-status={p.status}>
       <h2 id="run-progress-h">{STATUS_WORDS[p.status] ?? p.status}</h2>
       <div
         className="run-bar"
