@@ -47,6 +47,24 @@ describe('worker killed mid-run', () => {
   }, 90_000);
 });
 
+describe('worker shutdown', () => {
+  it('SIGTERM mid-run: the worker hands the run back to the queue uncounted and exits 0 within seconds', async () => {
+    const w = await workspaceWithRoles('Service shutdown');
+    const queue = `term-${Date.now()}`;
+    const { modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0655 }), 'Shutdown lakes');
+    const worker = spawnWorker(queue, { BRINKMAP_WORKER_TEST_DELAY_MS: '60000' });
+    const run = await startRun(w.workspaceId, null, { modelId, settings: {}, notify: false, queue });
+    await until('running', async () => (await runRow(run.id)).status === 'running');
+    const t = Date.now();
+    expect(await worker.stop()).toBe(0);
+    expect(Date.now() - t).toBeLessThan(8000);
+    const row = await runRow(run.id);
+    expect(row).toMatchObject({ status: 'queued', attempts: 0, lease_owner: null });
+    expect(worker.output()).toMatch(/handed back to the queue/);
+    await db('runs').where({ id: run.id }).update({ status: 'cancelled' });
+  }, 30_000);
+});
+
 describe('claiming', () => {
   it('claimRun: 16 concurrent claimers over 8 queued runs get 8 distinct runs and 8 nulls', async () => {
     const w = await workspaceWithRoles('Service claims');
