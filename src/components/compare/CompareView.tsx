@@ -140,7 +140,7 @@ function AlignedTable({ caption, rows, labels, testId }: { caption: string; rows
           <tr key={k} className={r.values.some((v) => v == null) ? 'dg-row-missing' : ''}>
             <th scope="row">{r.label}</th>
             {r.values.map((v, i) => <td key={i} className="num">{v == null ? <em>none</em> : formatValue(v, 8)}</td>)}
-            {r.deltas.slice(1).map((d, i) => <td key={`d${i}`} className="num">{d == null ? '—' : (d >= 0 ? '+' : '') + formatValue(d, 4)}</td>)}
+            {r.deltas.slice(1).map((d, i) => <td key={`d${i}`} className="num">{d == null ? '—' : d === 0 ? '0' : (d > 0 ? '+' : '') + formatValue(d, 4)}</td>)}
           </tr>
         ))}
       </tbody>

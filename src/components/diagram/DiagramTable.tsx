@@ -1,4 +1,5 @@
 /** The diagram's content as tables, for screen readers and for reading values off exactly. */
+import { memo } from 'react';
 import type { Diagram } from '../../lib/atlas/types';
 import { REGIME_LABEL } from '../../lib/plot/figure';
 import { SPECIAL_LABEL } from '../../lib/plot/markers';
@@ -12,7 +13,7 @@ const END_WORDS: Record<string, string> = {
   'step-collapse': 'step size collapsed', 'newton-failure': 'corrector failed', 'state-bound': 'left the state box',
 };
 
-export function DiagramTable({ diagram, projection, regimes, tags, onOpenSpecial }: {
+export const DiagramTable = memo(function DiagramTable({ diagram, projection, regimes, tags, onOpenSpecial }: {
   diagram: Diagram; projection: Projection; regimes: readonly RegimeBand[]; tags: readonly BandTag[]; onOpenSpecial: (id: string) => void;
 }) {
   return (
@@ -74,4 +75,4 @@ export function DiagramTable({ diagram, projection, regimes, tags, onOpenSpecial
       ) : null}
     </details>
   );
-}
+});

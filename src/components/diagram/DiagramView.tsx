@@ -14,7 +14,7 @@ import { INDICATIVE_NOTE } from '../../lib/plot/provenance';
 import { splitRuns, type BranchRun } from '../../lib/plot/runs';
 import { decimateByPixel } from '../../lib/plot/thin';
 import { formatValue, integerTicks, linearAxis } from '../../lib/plot/ticks';
-import type { BandTag } from '../../lib/regimes/types';
+import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
 import { ExportMenu } from '../export/ExportMenu';
 import { DiagramTable } from './DiagramTable';
 import { Legend } from './Legend';
@@ -28,11 +28,14 @@ const M = { left: 66, right: 14, top: 30, bottom: 42 };
 const MARKER_R = 7;
 const HIT_PX = 9;
 
+const NO_BANDS: RegimeBand[] = [];
+const NO_GRAPHS: EscapeGraph[] = [];
+
 interface Projected { readonly ps: Float64Array; readonly ys: Float64Array; readonly runs: BranchRun[] }
 interface Drawn { sx: Float32Array; sy: Float32Array; branch: Int32Array; index: Int32Array; n: number }
 
 export function DiagramView(props: DiagramViewProps) {
-  const { diagram, regimes = [], escapeGraphs = [], thresholds, provenance } = props;
+  const { diagram, regimes = NO_BANDS, escapeGraphs = NO_GRAPHS, thresholds, provenance } = props;
   const height = props.height ?? 420;
   const [wrapRef, width] = useWidth<HTMLDivElement>();
   const rootRef = useRef<HTMLDivElement>(null);
@@ -231,6 +234,7 @@ export function DiagramView(props: DiagramViewProps) {
     .filter(({ cx, cy }) => cx >= -MARKER_R && cx <= plotW + MARKER_R && cy >= -MARKER_R && cy <= plotH + MARKER_R);
 
   const openSpecial = (sp: SpecialPoint) => setSelection({ kind: 'special', id: sp.id });
+  const openSpecialById = useCallback((id: string) => setSelection({ kind: 'special', id }), []);
   const keyOpen = (ev: React.KeyboardEvent, open: () => void) => {
     if (ev.key === 'Enter' || ev.key === ' ') { ev.preventDefault(); ev.stopPropagation(); open(); }
   };
@@ -395,7 +399,7 @@ export function DiagramView(props: DiagramViewProps) {
       </div>
       <Legend regimes={regimes} showTags={showTags && tags.length > 0} />
       <p className="dg-note">{INDICATIVE_NOTE}</p>
-      <DiagramTable diagram={diagram} projection={projection} regimes={regimes} tags={tags} onOpenSpecial={(id) => setSelection({ kind: 'special', id })} />
+      <DiagramTable diagram={diagram} projection={projection} regimes={regimes} tags={tags} onOpenSpecial={openSpecialById} />
     </div>
   );
 }

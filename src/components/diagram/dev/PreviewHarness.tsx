@@ -44,7 +44,7 @@ function AnalyticPreview({ points, coupling, compare }: { points: number; coupli
       {variant ? (
         <CompareView items={[
           { label: `coupling ${coupling}`, diagram: data.diagram, regimes: data.regimes, provenance: TWO_LAKE_PROVENANCE },
-          { label: `coupling ${coupling * 1.6}`, diagram: variant.diagram, regimes: variant.regimes, provenance: { ...TWO_LAKE_PROVENANCE, runId: 'fixture-run-b' } },
+          { label: `coupling ${Number((coupling * 1.6).toPrecision(6))}`, diagram: variant.diagram, regimes: variant.regimes, provenance: { ...TWO_LAKE_PROVENANCE, runId: 'fixture-run-b' } },
         ]} />
       ) : null}
     </div>
