@@ -5,7 +5,7 @@
  * time and prints requests per second and p50/p95/p99 latency.
  *
  *   npm run load -- [--url http://127.0.0.1:4321] [--seconds 10] [--clients 16] [--max-requests 50000]
- *                   [--view preview|full] [--email E --password P]
+ *                   [--view preview|full] [--email E --password P] [--sub progress]
  *
  * Goal on the 2-core development machine: 200 requests/s with p99 under 250 ms and no errors, for
  * the drawing view (?view=preview: the stored diagram thinned at store time, special points and
@@ -27,6 +27,8 @@ const clients = Math.min(256, Math.max(1, Number(arg('clients', '16'))));
 const maxRequests = Math.min(1_000_000, Math.max(1, Number(arg('max-requests', '50000'))));
 const view = arg('view', 'preview') === 'full' ? 'full' : 'preview';
 const email = arg('email', modeler.email);
+/** Diagnostics: fetch another path of the same run instead (e.g. "progress" for a tiny response). */
+const sub = arg('sub', '');
 const password = arg('password', modeler.password);
 
 if (!['127.0.0.1', 'localhost', '[::1]', '::1'].includes(base.hostname)) {
@@ -89,10 +91,10 @@ async function main(): Promise<void> {
   const signIn = await call('POST', '/api/auth/sign-in', { email, password });
   if (signIn.status !== 200) throw new Error(`sign-in as ${email} failed: ${signIn.status}`);
   const runId = await sixNodeRun();
-  const path = `/api/runs/${runId}/result${view === 'preview' ? '?view=preview' : ''}`;
+  const path = sub ? `/api/runs/${runId}/${sub}` : `/api/runs/${runId}/result${view === 'preview' ? '?view=preview' : ''}`;
   const probe = await call('GET', path);
   if (probe.status !== 200) throw new Error(`GET ${path}: ${probe.status}`);
-  console.log(`load: ${origin}${path}  (run ${runId}: ${probe.json.result.pointCount} stored points, ${probe.json.result.viewPoints} served, ${(probe.bytes / 1024).toFixed(0)} KiB per response)`);
+  console.log(`load: ${origin}${path}  (run ${runId}${probe.json?.result ? `: ${probe.json.result.pointCount} stored points, ${probe.json.result.viewPoints} served` : ''}, ${(probe.bytes / 1024).toFixed(0)} KiB per response)`);
   for (let i = 0; i < 20; i++) await call('GET', path);
 
   const latencies: number[] = [];
