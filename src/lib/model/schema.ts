@@ -125,6 +125,12 @@ function reportExpression(text: string, allowed: readonly string[], at: (string 
 
 function checkNetwork(doc: NetworkShape, add: Add): void {
   const { element, coupling } = doc;
+  // Over a size cap zod has already reported it; cross-checks would only repeat work and noise.
+  if (doc.nodes.length > MODEL_LIMITS.maxVariables || doc.links.length > MODEL_LIMITS.maxLinks) return;
+  if (Object.keys(element.parameters).length > MODEL_LIMITS.maxParameters) {
+    add(['element', 'parameters'], `at most ${MODEL_LIMITS.maxParameters} parameters are allowed, got ${Object.keys(element.parameters).length}`);
+    return;
+  }
   const taken = new Map<string, string>([
     ['source', 'the coupling source state'],
     ['target', 'the coupling target state'],
@@ -189,6 +195,15 @@ function checkNetwork(doc: NetworkShape, add: Add): void {
 }
 
 function checkOde(doc: OdeShape, add: Add): void {
+  if (doc.variables.length > MODEL_LIMITS.maxVariables) return;
+  if (Object.keys(doc.parameters).length > MODEL_LIMITS.maxParameters) {
+    add(['parameters'], `at most ${MODEL_LIMITS.maxParameters} parameters are allowed, got ${Object.keys(doc.parameters).length}`);
+    return;
+  }
+  if (Object.keys(doc.rates).length > MODEL_LIMITS.maxVariables) {
+    add(['rates'], `at most ${MODEL_LIMITS.maxVariables} rates are allowed, got ${Object.keys(doc.rates).length}`);
+    return;
+  }
   const taken = new Map<string, string>();
   doc.variables.forEach((v, i) => {
     const problem = nameProblem(v);

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { formatPath, type ModelIssue } from './errors';
+import { MODEL_LIMITS } from './limits';
 import { KNOWN_FIELDS, modelDocumentSchema, type ModelDocument } from './schema';
 
 export type ValidationResult =
@@ -64,6 +65,8 @@ function roleOf(path: readonly (string | number)[], input: unknown): string | un
  * "links[0].to"); unknown fields give one issue per field. Never throws.
  */
 export function validateModelDocument(input: unknown): ValidationResult {
+  const oversized = sizeIssues(input);
+  if (oversized.length > 0) return { ok: false, issues: oversized };
   let result: z.SafeParseReturnType<unknown, ModelDocument>;
   try {
     result = modelDocumentSchema.safeParse(input, { errorMap });
@@ -86,5 +89,49 @@ export function validateModelDocument(input: unknown): ValidationResult {
       issues.push({ path: formatPath(issue.path), message: issue.message });
     }
   }
+  if (issues.length > MAX_ISSUES) {
+    const rest = issues.length - MAX_ISSUES;
+    issues.length = MAX_ISSUES;
+    issues.push({ path: '(document)', message: `and ${rest} more problem${rest === 1 ? '' : 's'}` });
+  }
   return { ok: false, issues };
+}
+
+/** Issues listed at most; the rest are counted in a last issue. */
+export const MAX_ISSUES = 50;
+
+/**
+ * Cheap size checks on the raw input, before zod walks every entry: an oversized list or map is
+ * refused at once (naming the cap), so a huge document costs microseconds, not seconds.
+ */
+function sizeIssues(input: unknown): ModelIssue[] {
+  if (!isRecord(input)) return [];
+  const out: ModelIssue[] = [];
+  const list = (value: unknown, path: string, max: number, noun: string) => {
+    if (Array.isArray(value) && value.length > max) out.push({ path, message: `at most ${max} ${noun} are allowed, got ${value.length}` });
+  };
+  const map = (value: unknown, path: string, max: number, noun: string) => {
+    if (isRecord(value) && !Array.isArray(value)) {
+      let count = 0;
+      for (const key in value) if (Object.hasOwn(value, key)) count++;
+      if (count > max) out.push({ path, message: `at most ${max} ${noun} are allowed, got ${count}` });
+    }
+  };
+  list(input.nodes, 'nodes', MODEL_LIMITS.maxVariables, 'nodes');
+  list(input.variables, 'variables', MODEL_LIMITS.maxVariables, 'variables');
+  list(input.links, 'links', MODEL_LIMITS.maxLinks, 'links');
+  list(input.start, 'start', MODEL_LIMITS.maxStartGuesses, 'start guesses');
+  map(input.parameters, 'parameters', MODEL_LIMITS.maxParameters, 'parameters');
+  map(input.rates, 'rates', MODEL_LIMITS.maxVariables, 'rates');
+  if (isRecord(input.element)) map(input.element.parameters, 'element.parameters', MODEL_LIMITS.maxParameters, 'parameters');
+  if (Array.isArray(input.nodes) && input.nodes.length <= MODEL_LIMITS.maxVariables) {
+    input.nodes.forEach((node, i) => {
+      if (isRecord(node)) map(node.parameters, `nodes[${i}].parameters`, MODEL_LIMITS.maxParameters, 'parameters');
+    });
+  }
+  return out;
+}
+
+function isRecord(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null;
 }

@@ -148,6 +148,23 @@ describe('validateModelDocument names the path of every problem', () => {
     }
   });
 
+  it('lists at most 50 issues and counts the rest', () => {
+    const d = network((x) => {
+      x.links = Array.from({ length: 300 }, () => ({ from: 'upper', to: 'middle' }));
+    });
+    const issues = issuesOf(d);
+    expect(issues.length).toBe(51);
+    // 300 copies of one link: 299 repeats, 50 listed.
+    expect(issues[50]).toEqual({ path: '(document)', message: 'and 249 more problems' });
+  });
+
+  it('refuses an oversized list before looking at its entries', () => {
+    const d = network((x) => {
+      x.links = Array.from({ length: 100_000 }, () => 'not even a link');
+    });
+    expect(issuesOf(d)).toEqual([{ path: 'links', message: 'at most 4096 links are allowed, got 100000' }]);
+  });
+
   it('refuses more links than 64 * 64', () => {
     const d = network((x) => {
       x.links = Array.from({ length: 64 * 64 + 1 }, () => ({ from: 'upper', to: 'middle' }));
