@@ -111,7 +111,7 @@ export class RunWorker {
   private async loop(): Promise<void> {
     const running = new Set<Promise<void>>();
     while (!this.stopping) {
-      if (this.active.size >= this.opts.concurrency) {
+      if (running.size >= this.opts.concurrency) {
         await Promise.race(running);
         continue;
       }
@@ -153,6 +153,8 @@ export class RunWorker {
       lost: false,
     };
     this.active.add(a);
+    // stop() may have run while this run was being looked up: start the thread already cancelled.
+    if (this.stopping) Atomics.store(a.cancelFlag, 0, 1);
     const { port1, port2 } = new MessageChannel();
     let progress = { fraction: 0, phrase: 'starting' };
     port1.on('message', (m: ProgressMessage) => { progress = m; });

@@ -146,6 +146,8 @@ export function DiagramView(props: DiagramViewProps) {
     let cap = 4096;
     let out: Drawn = { sx: new Float32Array(cap), sy: new Float32Array(cap), branch: new Int32Array(cap), index: new Int32Array(cap), n: 0 };
     const push = (x: number, y: number, b: number, i: number) => {
+      // Consecutive runs share their boundary point; count it once.
+      if (out.n > 0 && out.branch[out.n - 1] === b && out.index[out.n - 1] === i) return;
       if (out.n === cap) {
         cap *= 2;
         const grow = <A extends Float32Array | Int32Array>(a: A, C: new (n: number) => A) => { const c = new C(cap); c.set(a); return c; };

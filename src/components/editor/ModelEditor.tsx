@@ -47,6 +47,8 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   const [announcement, setAnnouncement] = useState('');
   const [version, setVersion] = useState(latestVersion ?? 0);
   const savedDescription = useRef((initialDescription ?? '').trim());
+  /** Set just before navigating away after a successful save, so the unsaved-changes guard stays quiet. */
+  const leaving = useRef(false);
 
   const setState = useCallback((f: (s: EditorState) => EditorState) => {
     setStateRaw(f);
@@ -127,7 +129,10 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
 
   useEffect(() => {
     if (!dirty) return;
-    const warn = (e: BeforeUnloadEvent) => { e.preventDefault(); };
+    const warn = (e: BeforeUnloadEvent) => {
+      if (leaving.current) return;
+      e.preventDefault();
+    };
     window.addEventListener('beforeunload', warn);
     return () => window.removeEventListener('beforeunload', warn);
   }, [dirty]);
@@ -170,6 +175,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
       const id = (r.data as { model: { id: number | string } }).model.id;
       setSaved('Saved. Opening the model…');
       announce('Model saved.');
+      leaving.current = true;
       window.location.assign(`/models/${encodeURIComponent(String(id))}`);
       return;
     }

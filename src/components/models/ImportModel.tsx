@@ -14,10 +14,16 @@ export default function ImportModel() {
     if (!file) return;
     setBusy(true);
     setError('');
-    const form = new FormData();
-    form.append('file', file, file.name);
     try {
-      const res = await fetch('/api/models/import', { method: 'POST', body: form, credentials: 'same-origin' });
+      // The file's bytes as the body (the service keeps them exactly); the change note names the file.
+      const text = await file.text();
+      const note = encodeURIComponent(`imported from ${file.name}`.slice(0, 1000));
+      const res = await fetch(`/api/models/import?changeNote=${note}`, {
+        method: 'POST',
+        body: text,
+        headers: { 'Content-Type': 'application/json' },
+        credentials: 'same-origin',
+      });
       const body = await res.json().catch(() => null);
       if (!res.ok) {
         const issues = (body?.error?.details?.issues ?? body?.error?.issues ?? []) as { path?: string; field?: string; message: string }[];

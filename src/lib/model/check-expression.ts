@@ -16,7 +16,7 @@ export type CheckResult =
 
 const MAX_MESSAGES = 8;
 
-const OPERATOR_NAMES: Record<string, string> = {
+const NODE_TYPE_MESSAGES: Record<string, string> = {
   AssignmentNode: "assignment ('=') is not allowed: an expression only computes a value",
   FunctionAssignmentNode: 'function definitions are not allowed',
   ArrayNode: 'matrices and lists are not allowed',
@@ -194,7 +194,7 @@ function convert(node: AnyNode, depth: number, ctx: ConvertContext): Expr | null
       return call(name as UnaryFunction, xs[0]);
     }
     default: {
-      const message = OPERATOR_NAMES[type];
+      const message = NODE_TYPE_MESSAGES[type];
       ctx.report(message ?? `'${type ?? typeof node}' is not allowed in an expression`);
       return null;
     }

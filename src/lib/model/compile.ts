@@ -2,6 +2,7 @@ import type { CompiledSystem } from './compiled-system';
 import { compileNetwork } from './compile-network';
 import { compileOde } from './compile-ode';
 import { ModelError, type ModelIssue } from './errors';
+import { atPath } from './internal-tree';
 import { listNames } from './names';
 import type { ModelDocument } from './schema';
 import { validateModelDocument } from './validate';
@@ -24,9 +25,18 @@ export interface CompileOptions {
  * ModelError whose message names the field path.
  */
 export function compileModel(document: ModelDocument, options: CompileOptions = {}): CompiledSystem {
-  const checked = validateModelDocument(document);
+  return compileModelJson(document, options);
+}
+
+/** Validate untrusted input (parsed JSON) and compile it; throws ModelError on any problem. */
+export function compileModelJson(input: unknown, options: CompileOptions = {}): CompiledSystem {
+  const checked = validateModelDocument(input);
   if (!checked.ok) throw new ModelError(checked.issues);
-  const doc = checked.document;
+  // Anything but a ModelError from here on is a compiler bug; it still leaves as a ModelError.
+  return atPath('(document)', () => compileValidated(checked.document, options));
+}
+
+function compileValidated(doc: ModelDocument, options: CompileOptions): CompiledSystem {
   const issues: ModelIssue[] = [];
 
   const parameter = options.sweepParameter ?? doc.sweep.parameter;
@@ -53,11 +63,4 @@ export function compileModel(document: ModelDocument, options: CompileOptions = 
   return doc.format === 'brinkmap/network-1'
     ? compileNetwork(doc, parameter, sweep)
     : compileOde(doc, parameter, sweep);
-}
-
-/** Validate untrusted input (parsed JSON) and compile it; throws ModelError on any problem. */
-export function compileModelJson(input: unknown, options: CompileOptions = {}): CompiledSystem {
-  const checked = validateModelDocument(input);
-  if (!checked.ok) throw new ModelError(checked.issues);
-  return compileModel(checked.document, options);
 }

@@ -57,36 +57,23 @@ function hermiteTangent(a: TracedPoint, b: TracedPoint, u: number): Float64Array
   return d.map((v) => v / nn);
 }
 
-/** The test function of `kind` at a traced point. */
-export function testValue(kind: TestFunctionKind, pt: TracedPoint): number {
-  if (kind === 'fold') return pt.t[pt.t.length - 1];
-  if (kind === 'branch') return pt.det;
-  return pt.hopf.value;
-}
-
 /**
- * Locates a zero of a test function between two consecutive branch points a and b where it changes sign.
- * The branch between them is parametrized by s in [0, 1]: y(s) solves the extended system
- * F(y) = 0, d(s) . (y - g(s)) = 0 (Newton, bordered LU), where g is the cubic Hermite interpolant of
- * the arc through (y_a, t_a) and (y_b, t_b) and d(s) its unit derivative; the hyperplane cuts the
- * short arc once because consecutive tangents differ by less than the continuation's turn limit.
- * The test function along s is bracketed and refined by the Illinois variant of regula falsi
- * (Dahlquist & Björck, Numerical Methods, §6.2), which keeps a bracket and converges superlinearly;
- * it falls back to bisection when a secant estimate is unusable. Tangents keep a's orientation, so the
- * determinant and t_p signs are consistent with the trace (Seydel, §5.2; Kuznetsov §10.2).
+ * The point of the arc between consecutive branch points a and b at Hermite parameter u in [0, 1]:
+ * Newton on F(y) = 0, g'(u) . (y - g(u)) = 0 with g the cubic Hermite interpolant through (y_a, t_a),
+ * (y_b, t_b); tangent oriented like `from`. Returns null when the corrector fails.
  */
-export function locateZero(
+export function arcPoint(
   system: CompiledSystem,
-  kind: TestFunctionKind,
   a: TracedPoint,
   b: TracedPoint,
-  options: Partial<LocateOptions> = {},
-): LocateResult {
-  const o = { ...defaultLocateOptions, ...options };
+  u: number,
+  from: TracedPoint,
+  ws: BorderedWorkspace,
+  o: Pick<LocateOptions, 'residualTolerance' | 'stepTolerance'> = defaultLocateOptions,
+): TracedPoint | null {
   const n = system.dimension;
-  const ws = new BorderedWorkspace(n);
   const len = dist2(a.y, b.y);
-  const evalAt = (u: number, from: TracedPoint): TracedPoint | null => {
+  {
     // Cubic Hermite interpolation of the arc from the end points and their unit tangents: an O(len^4)
     // guess, and its derivative as the hyperplane normal, so the trial hyperplane cuts the traced arc
     // transversally (a chord guess can land on a crossing branch near a branch point).
@@ -123,7 +110,39 @@ export function locateZero(
     const t = sign >= 0 ? tan.tangent : tan.tangent.map((v) => -v);
     const det = sign >= 0 ? tan.determinant : -tan.determinant;
     return pointData(system, res.y, t, det, ws);
-  };
+  }
+}
+
+/** The test function of `kind` at a traced point. */
+export function testValue(kind: TestFunctionKind, pt: TracedPoint): number {
+  if (kind === 'fold') return pt.t[pt.t.length - 1];
+  if (kind === 'branch') return pt.det;
+  return pt.hopf.value;
+}
+
+/**
+ * Locates a zero of a test function between two consecutive branch points a and b where it changes sign.
+ * The branch between them is parametrized by s in [0, 1]: y(s) solves the extended system
+ * F(y) = 0, d(s) . (y - g(s)) = 0 (Newton, bordered LU), where g is the cubic Hermite interpolant of
+ * the arc through (y_a, t_a) and (y_b, t_b) and d(s) its unit derivative; the hyperplane cuts the
+ * short arc once because consecutive tangents differ by less than the continuation's turn limit.
+ * The test function along s is bracketed and refined by the Illinois variant of regula falsi
+ * (Dahlquist & Björck, Numerical Methods, §6.2), which keeps a bracket and converges superlinearly;
+ * it falls back to bisection when a secant estimate is unusable. Tangents keep a's orientation, so the
+ * determinant and t_p signs are consistent with the trace (Seydel, §5.2; Kuznetsov §10.2).
+ */
+export function locateZero(
+  system: CompiledSystem,
+  kind: TestFunctionKind,
+  a: TracedPoint,
+  b: TracedPoint,
+  options: Partial<LocateOptions> = {},
+): LocateResult {
+  const o = { ...defaultLocateOptions, ...options };
+  const n = system.dimension;
+  const ws = new BorderedWorkspace(n);
+  const len = dist2(a.y, b.y);
+  const evalAt = (u: number, from: TracedPoint): TracedPoint | null => arcPoint(system, a, b, u, from, ws, o);
   let lo = 0;
   let hi = 1;
   let plo: TracedPoint = a;
@@ -209,4 +228,43 @@ export function locateZero(
   }
   const point = Math.abs(fl) <= Math.abs(fh) ? plo : phi;
   return { converged, iterations: it, point, parameterBracket: bracket, value: testValue(kind, point), interpolated: false };
+}
+
+export interface CountChangeResult {
+  readonly point: TracedPoint;
+  /** |p_hi - p_lo| of the final bracket. */
+  readonly parameterBracket: number;
+  readonly iterations: number;
+}
+
+/**
+ * Bisection on the arc between a and b for the place where the number of eigenvalues with positive
+ * real part changes (used when several eigenvalues cross together and no smooth test function
+ * changes sign). Stops when the bracket is narrower than parameterTolerance in p and arcTolerance
+ * along the arc, or after maxIterations; returns the bracket end nearer the change.
+ */
+export function locateCountChange(system: CompiledSystem, a: TracedPoint, b: TracedPoint, options: Partial<LocateOptions> = {}): CountChangeResult {
+  const o = { ...defaultLocateOptions, ...options };
+  const n = system.dimension;
+  const ws = new BorderedWorkspace(n);
+  const len = dist2(a.y, b.y);
+  let lo = 0;
+  let hi = 1;
+  let plo = a;
+  let phi = b;
+  let it = 0;
+  for (; it < o.maxIterations; it++) {
+    if (Math.abs(phi.y[n] - plo.y[n]) < o.parameterTolerance && (hi - lo) * len < o.arcTolerance) break;
+    const mid = 0.5 * (lo + hi);
+    const pm = arcPoint(system, a, b, mid, mid < 0.5 ? a : b, ws, o);
+    if (pm === null) break;
+    if (pm.unstable === plo.unstable) {
+      lo = mid;
+      plo = pm;
+    } else {
+      hi = mid;
+      phi = pm;
+    }
+  }
+  return { point: phi, parameterBracket: Math.abs(phi.y[n] - plo.y[n]), iterations: it };
 }

@@ -53,7 +53,7 @@ export const NIGHT_PALETTE: PlotPalette = {
     hopf: '#ffc45c',
     degenerate: '#c5cad1',
   },
-  band: { weak: '#17332f', intermediate: '#3a2e15', strong: '#33203a' },
+  band: { weak: '#142b2a', intermediate: '#2e2818', strong: '#2b2032' },
   bandInk: { weak: '#8fd9cc', intermediate: '#f1c97a', strong: '#e3aef0' },
 };
 

@@ -37,9 +37,9 @@ export function linearAxis(domain: readonly [number, number], range: readonly [n
   };
 }
 
-/** Integer ticks only, for counts such as the number of tipped nodes. */
+/** Integer ticks only, labelled without decimals, for counts such as the number of tipped nodes. */
 export function integerTicks(axis: LinearAxis): Tick[] {
-  return axis.ticks.filter((t) => Number.isInteger(t.value));
+  return axis.ticks.filter((t) => Number.isInteger(t.value)).map((t) => ({ ...t, label: String(t.value) }));
 }
 
 /** A number printed with `digits` significant digits, for tooltips and tables. */

@@ -67,11 +67,11 @@ export function equilibriaAt(
     diagnostics.push({ level: 'info', code: 'refine-failed', p,
       message: `${failures} of ${guesses.length} branch guesses at ${system.parameter} = ${fmt(p)} did not converge under Newton's method and were left out` });
   }
-  return { equilibria: found.map((f) => describe(system, f.x, p, f.residual, settings.hyperbolicTolerance, f.branch)), diagnostics };
+  return { equilibria: found.map((f) => analyseEquilibrium(system, f.x, p, f.residual, settings.hyperbolicTolerance, f.branch)), diagnostics };
 }
 
 /** Spectrum and saddle data of one equilibrium. */
-export function describe(system: CompiledSystem, x: Float64Array, p: number, residual: number, tol: number, branch?: string): Equilibrium {
+export function analyseEquilibrium(system: CompiledSystem, x: Float64Array, p: number, residual: number, tol: number, branch?: string): Equilibrium {
   const n = system.dimension;
   const jac = system.jacobian(x, p, new Float64Array(n * n));
   const s = spectrum(jac, n);

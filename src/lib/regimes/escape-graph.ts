@@ -3,7 +3,7 @@ import type { Diagnostic } from '../atlas/types';
 import type { EscapeGraph, NodeState, SaddleEdge, StableState } from './types';
 import type { NodeRoles } from './element-roles';
 import type { RegimeOptions } from './options';
-import { describe, isIndexOneSaddle, isStable, sameState, type Equilibrium } from './equilibria-at';
+import { analyseEquilibrium, isIndexOneSaddle, isStable, sameState, type Equilibrium } from './equilibria-at';
 import { integrateFlow } from './flow';
 import { newtonAtFixedParameter } from './linear-algebra';
 import { countTipped, patternOf } from './pattern';
@@ -102,7 +102,7 @@ export function buildEscapeGraph(
           const known = states.findIndex((s) => sameState(s.x, polished.x, settings.duplicateTolerance));
           if (known >= 0) reached = known;
           else {
-            const e = describe(system, polished.x, p, polished.residual, settings.hyperbolicTolerance);
+            const e = analyseEquilibrium(system, polished.x, p, polished.residual, settings.hyperbolicTolerance);
             if (isStable(e)) {
               states.push({ x: e.x, pattern: pattern(e.x) });
               everyPoint.push(e.x);

@@ -3,7 +3,7 @@ export { labelRegimes, type RegimeResult } from './label-regimes';
 export { defaultRegimeOptions, resolveOptions, type RegimeOptions, type GivenRoles } from './options';
 export { elementRoles, stateRanges, type NodeRoles, type ElementRolesResult } from './element-roles';
 export { patternOf, progressOf, countTipped } from './pattern';
-export { equilibriaAt, isStable, isIndexOneSaddle, type Equilibrium } from './equilibria-at';
+export { equilibriaAt, analyseEquilibrium, isStable, isIndexOneSaddle, type Equilibrium } from './equilibria-at';
 export { buildEscapeGraph, slowPassageTime, type EscapeGraphResult, type ManifoldBranch } from './escape-graph';
 export { classifyEdge, type EdgeClassification } from './classify-edge';
 export { cutPoints, changesEscapeGraph, type Cut } from './intervals';

@@ -51,6 +51,12 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
       message: 'regimes undefined: the model is not a network of elements and no base, threshold and tipped roles were given' });
     return { regimes: [], escapeGraphs: [], diagnostics };
   }
+  const badBranch = diagram.branches.find((b) => b.points.some((q) => q.x.length !== n));
+  if (badBranch) {
+    note({ level: 'error', code: 'regimes-diagram-mismatch', branch: badBranch.id,
+      message: `the diagram does not belong to this model: branch ${badBranch.id} has states of length ${badBranch.points.find((q) => q.x.length !== n)!.x.length}, the model has ${n} variables` });
+    return { regimes: [], escapeGraphs: [], diagnostics };
+  }
   const ranges = stateRanges(diagram, n);
   const fixedRoles = o.roles !== undefined || system.network?.sweepIsCoupling === true;
   let roles0: (NodeRoles | null)[] | null = null;
@@ -78,27 +84,22 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
     const b = cuts[k + 1];
     if (b.p - a.p < o.minimumInterval) continue;
     const p = 0.5 * (a.p + b.p);
-    const unlabelled = (reason: string) => {
-      for (const s of starts) labels.get(s)!.push({ from: a.p, to: b.p, fromBound: cutName(a), toBound: cutName(b), regime: null, reason, start: s });
+    const push = (regime: (start: StartState) => { regime: Regime | null; reason: string }) => {
+      for (const start of starts) {
+        const lab = regime(start);
+        labels.get(start)!.push({ from: a.p, to: b.p, fromBound: cutName(a), toBound: cutName(b), regime: lab.regime, reason: lab.reason, start });
+      }
     };
-    let roles = roles0;
-    if (!roles) {
-      const r = elementRoles(system, p, ranges, o.scanPoints, o.roles);
-      r.diagnostics.forEach(note);
-      roles = r.roles;
+    try {
+      const analysed = analyseInterval(system, diagram, p, roles0, ranges, starts, names, o, note);
+      if (analysed.graph) escapeGraphs.push(analysed.graph);
+      push((start) => analysed.labels.get(start) ?? { regime: null, reason: 'regimes undefined' });
+    } catch (e) {
+      // A model function that throws must not take the whole run down.
+      note({ level: 'error', code: 'regimes-failed', p,
+        message: `regime analysis failed at ${system.parameter} = ${fmt(p)}: ${e instanceof Error ? e.message : String(e)}; the interval is not labelled` });
+      push(() => ({ regime: null, reason: 'analysis failed' }));
     }
-    if (roles.some((x) => x === null)) { unlabelled('regimes undefined'); continue; }
-    const nodeRoles = roles as NodeRoles[];
-    const eq = equilibriaAt(system, diagram, p, o);
-    eq.diagnostics.forEach(note);
-    const g = buildEscapeGraph(system, p, eq.equilibria, nodeRoles, o);
-    g.diagnostics.forEach(note);
-    const edges: SaddleEdge[] = g.graph.saddles.map((e) => ({ ...e }));
-    for (const start of starts) {
-      const lab = labelInterval(system, p, g, edges, nodeRoles, names, start, o, note);
-      labels.get(start)!.push({ from: a.p, to: b.p, fromBound: cutName(a), toBound: cutName(b), regime: lab.regime, reason: lab.reason, start });
-    }
-    escapeGraphs.push({ p, states: g.graph.states, saddles: edges });
   }
   const regimes = starts.flatMap((s) => mergeBands(labels.get(s)!));
   if (diagnostics.length > MAX_DIAGNOSTICS) {
@@ -107,6 +108,36 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
     diagnostics.push({ level: 'info', code: 'diagnostics-truncated', message: `${extra} further diagnostics were left out` });
   }
   return { regimes, escapeGraphs, diagnostics };
+}
+
+/** Escape graph and labels of one interval at its representative parameter p. */
+function analyseInterval(
+  system: CompiledSystem,
+  diagram: Diagram,
+  p: number,
+  roles0: (NodeRoles | null)[] | null,
+  ranges: [number, number][],
+  starts: StartState[],
+  names: readonly string[],
+  o: RegimeOptions,
+  note: (d: Diagnostic) => void,
+): { graph: EscapeGraph | null; labels: Map<StartState, { regime: Regime | null; reason: string }> } {
+  const labels = new Map<StartState, { regime: Regime | null; reason: string }>();
+  let roles = roles0;
+  if (!roles) {
+    const r = elementRoles(system, p, ranges, o.scanPoints, o.roles);
+    r.diagnostics.forEach(note);
+    roles = r.roles;
+  }
+  if (roles.some((x) => x === null)) return { graph: null, labels };
+  const nodeRoles = roles as NodeRoles[];
+  const eq = equilibriaAt(system, diagram, p, o);
+  eq.diagnostics.forEach(note);
+  const g = buildEscapeGraph(system, p, eq.equilibria, nodeRoles, o);
+  g.diagnostics.forEach(note);
+  const edges: SaddleEdge[] = g.graph.saddles.map((e) => ({ ...e }));
+  for (const start of starts) labels.set(start, labelInterval(system, p, g, edges, nodeRoles, names, start, o, note));
+  return { graph: { p, states: g.graph.states, saddles: edges }, labels };
 }
 
 /** Mirror x -> -x: turns the all-tipped start into an all-base one for classifyEdge. */

@@ -18,8 +18,10 @@ describe('linearAxis', () => {
     expect(a.domain[0]).toBeLessThan(2);
     expect(a.domain[1]).toBeGreaterThan(2);
   });
-  it('integerTicks keeps only whole numbers (for tipped counts)', () => {
-    expect(integerTicks(linearAxis([0, 2], [0, 100], 10)).map((t) => t.value)).toEqual([0, 1, 2]);
+  it('integerTicks keeps only whole numbers, labelled without decimals (for tipped counts)', () => {
+    const t = integerTicks(linearAxis([0, 2], [0, 100], 10));
+    expect(t.map((x) => x.value)).toEqual([0, 1, 2]);
+    expect(t.map((x) => x.label)).toEqual(['0', '1', '2']);
   });
 });
 

@@ -9,6 +9,7 @@ import { recordAudit } from '../models/audit.ts';
 import { requireVersion } from '../models/repository.ts';
 import { conflict, notFound } from '../models/service-error.ts';
 import { resultCacheKey } from './cache-key.ts';
+import { normalizeSettings } from './normalize-settings.ts';
 import type { ListRunsQuery, RunSettings, RunStatus } from './schemas.ts';
 
 export interface RunInfo {
@@ -125,7 +126,7 @@ export interface StartRunInput {
  */
 export async function startRun(workspaceId: string, actorId: string | null, input: StartRunInput): Promise<RunInfo> {
   const version = await requireVersion(workspaceId, input.modelId, input.version ?? 'latest');
-  const settings = input.settings;
+  const settings = normalizeSettings(version.document, input.settings);
   const cacheKey = resultCacheKey(version.hash, settings, ENGINE_VERSION);
   const runId = await db.transaction(async (trx) => {
     const model = await trx('models').where({ id: input.modelId, workspace_id: workspaceId }).first();
