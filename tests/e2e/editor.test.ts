@@ -177,6 +177,25 @@ describe('the model editor and the run view, as the demo modeler', () => {
   }, 180_000);
 });
 
+describe('importing a model document from the models page', () => {
+  it('a refused file names the field; a valid one becomes a new model', async () => {
+    const { context, page } = await signedIn('modeler');
+    await page.goto(`${BASE_URL}/models`);
+    await hydrated(page);
+    const id = modelPath.split('/').pop();
+    const version = await page.request.get(`${BASE_URL}/api/models/${id}/versions/latest`);
+    const document = ((await version.json()) as { version: { document: Record<string, unknown> } }).version.document;
+    const input = page.getByLabel('Import from a file (model document, JSON)');
+    const broken = { ...document, sweep: { parameter: 'nothing', from: 0, to: 1 } };
+    await input.setInputFiles({ name: 'broken.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(broken)) });
+    await expect.poll(() => page.locator('#import-error').textContent(), { timeout: 10000 }).toContain('sweep.parameter');
+    await input.setInputFiles({ name: 'imported.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify({ ...document, name: 'E2E imported copy' })) });
+    await page.waitForURL(/\/models\/\d+$/, { timeout: 15000 });
+    expect(await page.getByTestId('model-name').textContent()).toBe('E2E imported copy');
+    await context.close();
+  }, 60_000);
+});
+
 describe('the same model as the demo reviewer', () => {
   it('shows no edit controls, the API refuses an edit, and a comment can be added to the run', async () => {
     const { context, page } = await signedIn('reviewer');
@@ -190,6 +209,7 @@ describe('the same model as the demo reviewer', () => {
     await page.goto(`${BASE_URL}${modelPath}/edit`);
     await hydrated(page);
     expect(await page.getByRole('form', { name: 'Model editor' }).count()).toBe(0);
+    await shootBothThemes(page, 'model-edit-reviewer');
 
     const id = modelPath.split('/').pop();
     const version = await page.request.get(`${BASE_URL}/api/models/${id}/versions/latest`);
