@@ -21,8 +21,9 @@ export class ModelError extends Error {
   }
 }
 
+/** "path: message" on one line: control characters (from ids or expressions) are escaped. */
 export function formatIssue(issue: ModelIssue): string {
-  return `${issue.path}: ${issue.message}`;
+  return `${issue.path}: ${issue.message}`.replace(/[\u0000-\u001f\u007f\u2028\u2029]/g, (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
 }
 
 const IDENTIFIER = /^[A-Za-z_$][A-Za-z0-9_$]*$/;

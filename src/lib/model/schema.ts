@@ -28,7 +28,15 @@ export const elementSchema = z
   .strict();
 
 export const nodeSchema = z
-  .object({ id: z.string().min(1).max(MODEL_LIMITS.maxNameLength), parameters: parameterMap.optional() })
+  .object({
+    id: z
+      .string()
+      .min(1)
+      .max(MODEL_LIMITS.maxNameLength)
+      .refine((id) => !/[\u0000-\u001f\u007f]/.test(id), { message: 'must not contain control characters (line breaks, tabs, ...)' })
+      .refine((id) => id.trim() === id, { message: 'must not start or end with spaces' }),
+    parameters: parameterMap.optional(),
+  })
   .strict();
 
 export const linkSchema = z

@@ -110,6 +110,8 @@ describe('validateModelDocument names the path of every problem', () => {
     ['too long an expression', rate(`P${' + P'.repeat(500)}`), { path: 'element.rate', message: 'expression is too long: at most 2000 characters are allowed, got 2001' }],
     ['too deep brackets', rate(`${'('.repeat(250)}P${')'.repeat(250)}`), { path: 'element.rate', message: 'expression nests brackets deeper than 200 levels (character 201)' }],
     ['a chain of more than 400 operations', rate(Array(450).fill('P').join('*')), { path: 'element.rate', message: 'expression is nested more than 400 operations deep (split long products or chains)' }],
+    ['a node id with a line break', network((d) => (d.nodes[0].id = 'up\nper')), { path: 'nodes[0].id', message: 'must not contain control characters (line breaks, tabs, ...)' }],
+    ['a node id with outer spaces', network((d) => (d.nodes[0].id = ' upper')), { path: 'nodes[0].id', message: 'must not start or end with spaces' }],
     ['65 nodes', network((d) => { d.nodes = Array.from({ length: 65 }, (_, i) => ({ id: `n${i}` })); d.links = []; }), { path: 'nodes', message: 'at most 64 nodes are allowed, got 65' }],
     ['65 variables', ode((d) => { d.variables = Array.from({ length: 65 }, (_, i) => `x${i}`); }), { path: 'variables', message: 'at most 64 variables are allowed, got 65' }],
     ['too long a node id', network((d) => (d.nodes[0].id = 'n'.repeat(65))), { path: 'nodes[0].id', message: 'at most 64 characters are allowed, got 65' }],
@@ -163,6 +165,17 @@ describe('validateModelDocument names the path of every problem', () => {
       x.links = Array.from({ length: 100_000 }, () => 'not even a link');
     });
     expect(issuesOf(d)).toEqual([{ path: 'links', message: 'at most 4096 links are allowed, got 100000' }]);
+  });
+
+  it('keeps ModelError.message on one line even when an expression spans lines', () => {
+    // 'P\n+' fails to parse; whatever mathjs quotes, control characters are escaped in the message.
+    const d = rate('a -\n c * P');
+    issuesOf(d);
+    try {
+      compileModelJson(d);
+    } catch (err) {
+      expect((err as Error).message).not.toMatch(/[\n\r]/);
+    }
   });
 
   it('refuses more links than 64 * 64', () => {
