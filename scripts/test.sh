@@ -53,8 +53,11 @@ fi
 bm_wait_http "$TEST_BASE_URL/api/health" 60 "$APP_PID" || { tail -n 40 "$LOGS/app.log" >&2; bm_die "the test app did not answer on $TEST_BASE_URL"; }
 bm_log "test app on $TEST_BASE_URL (logs in $LOGS); running vitest"
 
+# vitest runs as a tracked child so that a TERM/INT to this script stops it at once, too.
+bm_spawn - npx vitest run "$@"
+VITEST_PID=$BM_LAST_PID
 set +e
-npx vitest run "$@"
+wait "$VITEST_PID"
 rc=$?
 set -e
 exit $rc
