@@ -96,6 +96,35 @@ describe('diagram island on the preview page', () => {
     await expect(p.getByTestId('special-reason').textContent()).resolves.toBe(sp.evidence.reason);
   });
 
+  it('the keyboard zooms the focused plot (+) and resets it (0)', async (ctx) => {
+    const p = ready(ctx);
+    const view = p.getByTestId('diagram-view').first();
+    const width = () => view.getAttribute('data-p-domain').then((d) => { const [a, b] = d!.split(',').map(Number); return b - a; });
+    const before = await width();
+    await p.locator('.dg-overlay').first().focus();
+    await p.keyboard.press('+');
+    await expect.poll(width).toBeLessThan(before * 0.8);
+    await p.keyboard.press('0');
+    await expect.poll(width).toBeCloseTo(before, 6);
+  });
+
+  it('clicking on a branch opens the point panel with its state and eigenvalues', async (ctx) => {
+    const p = ready(ctx);
+    const box = (await p.getByTestId('diagram-canvas').boundingBox())!;
+    const x = box.x + box.width * 0.15;
+    let y = -1;
+    for (let f = 0.05; f < 0.95; f += 0.005) {
+      await p.mouse.move(x, box.y + box.height * f);
+      if ((await p.locator('.dg-tooltip').count()) > 0) { y = box.y + box.height * f; break; }
+    }
+    expect(y).toBeGreaterThan(0);
+    await p.mouse.click(x, y);
+    const panel = p.getByTestId('side-panel');
+    await expect(panel.locator('.dg-panel-title').textContent()).resolves.toMatch(/^Branch b\d+, point \d+$/);
+    await expect(panel.getByText('Eigenvalues of the Jacobian', { exact: false }).count()).resolves.toBe(1);
+    await expect(panel.locator('.dg-kv').first().locator('tr').count()).resolves.toBe(fixture.variables.length + 1);
+  });
+
   it('exports an SVG that parses and has one path per branch run, and a CSV with one row per point', async (ctx) => {
     const p = ready(ctx);
     await p.getByTestId('export-toggle').click();
