@@ -1,8 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { CompiledSystem } from '../../../src/lib/model/compiled-system';
 import { compileModelJson } from '../../../src/lib/model/index';
-import { buildEscapeGraph, defaultRegimeOptions, equilibriaAt, labelRegimes } from '../../../src/lib/regimes/index';
-import { describe as describeEquilibrium } from '../../../src/lib/regimes/equilibria-at';
+import { analyseEquilibrium as describeEquilibrium, buildEscapeGraph, defaultRegimeOptions, equilibriaAt, labelRegimes } from '../../../src/lib/regimes/index';
 import { cubicNetwork, cubicRoots, symmetricPairDiagram, symmetricPairValues } from './fixtures';
 
 /** A hand-written linear system x' = A x (no network). */
@@ -96,5 +95,20 @@ describe('buildEscapeGraph edge cases', () => {
     expect(t1).toBeGreaterThan(100);
     expect(t1 / t4).toBeGreaterThan(1.8);
     expect(t1 / t4).toBeLessThan(2.2);
+  });
+
+  it('labelRegimes turns a model function that throws into a diagnostic, not an exception', () => {
+    const broken = { ...system, network: system.network, rates: () => { throw new Error('rate exploded'); } };
+    const result = labelRegimes(broken as CompiledSystem, symmetricPairDiagram(R));
+    expect(result.regimes).toEqual([]);
+    expect(result.diagnostics.some((d) => d.code === 'regimes-failed' && d.message.includes('rate exploded'))).toBe(true);
+  });
+
+  it('labelRegimes refuses a diagram whose states do not fit the model', () => {
+    const d = symmetricPairDiagram(R);
+    const wrong = { ...d, branches: [{ ...d.branches[0], points: d.branches[0].points.map((q) => ({ ...q, x: [q.x[0]] })) }] };
+    const result = labelRegimes(system, wrong);
+    expect(result.regimes).toEqual([]);
+    expect(result.diagnostics[0].code).toBe('regimes-diagram-mismatch');
   });
 });
