@@ -97,6 +97,20 @@ describe('labelRegimes on diagrams traced by the continuation engine', () => {
     expect(edges).toBeGreaterThan(0);
   });
 
+  it('symmetric ring of three cubic elements: weak, intermediate, strong, strong from beta = (1 - 3 m^2)/3', () => {
+    // At the symmetric middle state (m, m, m), J = f'(m) I + beta L with the ring Laplacian L
+    // (-2 on the diagonal, 1 off it), whose eigenvalues are 0 (direction (1,1,1)) and -3 (twice).
+    // So J has f'(m) = 1 - 3 m^2 > 0 along (1,1,1) and the double eigenvalue f'(m) - 3 beta, which
+    // turns negative at beta* = (1 - 3 m^2)/3: from there the only saddle is the symmetric one,
+    // tipping all three together (a double zero eigenvalue, reported by the engine as degenerate).
+    const { m } = cubicRoots(R);
+    const system = compileModelJson(cubicNetwork({ r: R, nodes: ['a', 'b', 'c'], links: [{ from: 'a', to: 'b', twoWay: true }, { from: 'b', to: 'c', twoWay: true }, { from: 'c', to: 'a', twoWay: true }] }));
+    const result = labelRegimes(system, traceDiagram(system));
+    expect(result.regimes.map((b) => b.regime)).toEqual(['weak', 'intermediate', 'strong']);
+    expect(Math.abs(result.regimes[2].from - (1 - 3 * m * m) / 3)).toBeLessThan(1e-8);
+    expect(result.regimes[2].reason).toContain('a, b and c tip together');
+  });
+
   it('non-bistable element x\' = r - x traced by the engine: regimes undefined, no labels', () => {
     const doc = { ...cubicNetwork({ r: 0, nodes: ['only', 'other'], links: [{ from: 'only', to: 'other', twoWay: true }] }),
       element: { variable: 'x', rate: 'r - x', parameters: { r: 0 } } };
