@@ -32,7 +32,7 @@ export interface CompareViewProps {
 
 const M = { left: 62, right: 12, top: 26, bottom: 40 };
 /** Overlay identities: colour plus a numeral beside every glyph, so diagrams differ without colour too. */
-const OVERLAY = ['var(--dg-stable)', 'var(--dg-mark-saddle-node)', 'var(--dg-mark-pitchfork)', 'var(--dg-mark-transcritical)'];
+const OVERLAY = ['var(--dg-overlay-1)', 'var(--dg-overlay-2)', 'var(--dg-overlay-3)', 'var(--dg-overlay-4)'];
 
 function commonProjections(items: readonly CompareItem[]): { key: string; label: string; projection: Projection }[] {
   const n = Math.min(...items.map((i) => i.diagram.variables.length));

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { NIGHT_PALETTE, PAPER_PALETTE, type PlotPalette } from '../../../src/lib/plot/palette';
+import { contrastRatio, NIGHT_PALETTE, PAPER_PALETTE, type PlotPalette } from '../../../src/lib/plot/palette';
 
 /** The diagram CSS repeats the plot palette as variables; both themes must match palette.ts (whose contrast is tested). */
 const css = readFileSync('src/components/diagram/diagram.css', 'utf8');
@@ -33,6 +33,19 @@ describe('diagram.css plot variables', () => {
     for (const start of ["[data-theme='dark'] .dg-diagram", ':root:not(.light)']) {
       const vars = block(start);
       for (const [k, v] of Object.entries(expected(NIGHT_PALETTE))) expect([start, k, vars[k]]).toEqual([start, k, v]);
+    }
+  });
+});
+
+describe('overlay identities in compare (--dg-overlay-1..4)', () => {
+  it('are defined in every theme block and reach 3:1 on that theme\'s paper (WCAG 2.1 1.4.11)', () => {
+    for (const [start, paper] of [['.dg-diagram {', PAPER_PALETTE.paper], ["[data-theme='dark'] .dg-diagram", NIGHT_PALETTE.paper], [':root:not(.light)', NIGHT_PALETTE.paper]] as const) {
+      const vars = block(start);
+      for (let i = 1; i <= 4; i++) {
+        const c = vars[`--dg-overlay-${i}`];
+        expect(c, `${start} --dg-overlay-${i}`).toBeDefined();
+        expect(contrastRatio(c, paper)).toBeGreaterThanOrEqual(3);
+      }
     }
   });
 });
