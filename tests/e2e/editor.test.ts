@@ -220,8 +220,9 @@ describe('the same model as the demo reviewer', () => {
     expect(preview.status()).toBe(403);
 
     await page.goto(`${BASE_URL}/runs/${runId}`);
-
     await hydrated(page);
+    expect(await page.getByTestId('start-run').count()).toBe(0);
+    await shootBothThemes(page, 'run-view-reviewer');
     await page.getByRole('textbox', { name: 'Comment' }).fill('Please state where the loading values come from.');
     await page.getByTestId('add-comment').click();
     await expect.poll(() => page.getByTestId('comments').textContent(), { timeout: 10000 }).toContain('where the loading values come from');
@@ -229,7 +230,10 @@ describe('the same model as the demo reviewer', () => {
     await hydrated(page);
     expect(await page.getByTestId('review-comments').textContent()).toContain('where the loading values come from');
     await shootBothThemes(page, 'reviews-reviewer');
-    await page.goto(`${BASE_URL}/report?runs=${runId}`);
+    // Export a report from the reviews page: tick the run, press the report button.
+    await page.getByLabel(`Choose run ${runId}`, { exact: true }).check();
+    await page.getByRole('button', { name: 'Printable report of the chosen runs' }).click();
+    await page.waitForURL(/\/report\?/);
     await hydrated(page);
     expect(await page.getByTestId('report-section').count()).toBe(1);
     expect(await page.locator('[data-testid="report-section"] svg path[data-special]').count()).toBeGreaterThanOrEqual(0);
