@@ -200,6 +200,17 @@ export function CompareView({ items, initialMode = 'side' }: CompareViewProps) {
           ? <Panel items={items} indices={items.map((_, i) => i)} projection={projection} transform={transform} onZoom={setTransform} width={panelW} height={panelH} overlay pExtent={pExtent} />
           : items.map((_, i) => <Panel key={i} items={items} indices={[i]} projection={projection} transform={transform} onZoom={setTransform} width={panelW} height={panelH} overlay={false} pExtent={pExtent} />)}
       </div>
+      {mode === 'overlay' ? (
+        <div className="dg-legend" aria-label="Overlay legend">
+          {items.map((it, i) => (
+            <span key={i} className="dg-legend-item">
+              <svg width={30} height={12} aria-hidden="true"><line x1={2} x2={28} y1={6} y2={6} stroke={OVERLAY[i]} strokeWidth={STABLE_WIDTH} /></svg>
+              <b>{i + 1}</b> {it.label}
+            </span>
+          ))}
+          <span className="dg-legend-item">solid: stable · dashed: unstable · numerals beside glyphs name the diagram</span>
+        </div>
+      ) : null}
       <div className="dg-tables">
         <AlignedTable caption="Special points matched by type and order along the parameter" rows={special} labels={labels} testId="compare-special-table" />
         <AlignedTable caption="Band edges matched by the regimes they separate" rows={edges} labels={labels} testId="compare-band-table" />
