@@ -2,7 +2,7 @@ import type { CompiledSystem } from '../model/compiled-system.js';
 import { BorderedWorkspace, nullSpace, tangentAt } from '../numerics/bordered.js';
 import { pointData, type TracedPoint } from '../numerics/branch-point-data.js';
 import { nearZeroCount, spectralScale } from '../numerics/eigenvalues.js';
-import { locateZero, type TestFunctionKind } from '../numerics/locate.js';
+import { locateCountChange, locateZero, type TestFunctionKind } from '../numerics/locate.js';
 import { continueBranch, type ContinuationOptions, type DirectionEnd } from '../numerics/pseudo-arclength.js';
 import { switchAtBranchPoint } from '../numerics/branch-switch.js';
 import { dist2, normInf } from '../numerics/vector.js';
@@ -140,6 +140,16 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
         if (a.hopf.critical?.kind === 'real-pair' && b.hopf.critical?.kind === 'real-pair') neutralSaddles++;
         else kinds.push('hopf');
       }
+      // Two or more eigenvalues crossing zero at once (a symmetry-forced multiple zero eigenvalue)
+      // leave det [DH; t] with its sign; only the unstable count shows it.
+      // (A complex pair crossing also changes the count by 2; that is left to the Hopf test.)
+      if (Math.abs(b.unstable - a.unstable) >= 2 && !kinds.includes('hopf')) {
+        try {
+          handleMultipleCrossing(a, b);
+        } catch (e) {
+          diagnostics.push({ level: 'warning', code: 'locate-failed', message: `locating a multiple zero eigenvalue failed: ${errorText(e)}`, branch: id, p: a.y[n] });
+        }
+      }
       for (const kind of kinds) {
         try {
           handleSignChange(kind, a, b, a.t[n] * b.t[n] < 0);
@@ -147,6 +157,27 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
           diagnostics.push({ level: 'warning', code: 'locate-failed', message: `locating a ${kind} test-function zero failed: ${errorText(e)}`, branch: id, p: a.y[n] });
         }
       }
+    };
+
+    const handleMultipleCrossing = (a: TracedPoint, b: TracedPoint) => {
+      const loc = locateCountChange(system, a, b, locOpts);
+      const pt = loc.point;
+      const k = Math.abs(b.unstable - a.unstable);
+      registry.add({
+        type: 'degenerate',
+        p: pt.y[n],
+        x: Array.from(pt.y.subarray(0, n)),
+        branches: new Set([id]),
+        evidence: {
+          kind: 'multiple-zero',
+          reason: `the unstable count changes by ${k} (${a.unstable} -> ${b.unstable}) with no sign change of the Hopf test: ${k} real eigenvalues cross zero together`,
+          parameterBracket: loc.parameterBracket,
+          iterations: loc.iterations,
+          eigenvalues: Array.from(pt.spectrum.re, (re, i) => ({ re, im: pt.spectrum.im[i] })),
+        },
+        note: `${k} eigenvalues cross zero together (a multiple zero eigenvalue, typical of symmetric networks): several branches may meet here; the branch-point test does not change sign, so no branch switching was attempted`,
+      });
+      inserts.push({ after: a, point: pt });
     };
 
     const handleSignChange = (kind: TestFunctionKind, a: TracedPoint, b: TracedPoint, foldToo: boolean) => {

@@ -2,6 +2,7 @@ import type { CompiledSystem } from '../model/compiled-system.js';
 import { BorderedWorkspace, correct, tangentAt } from './bordered.js';
 import { pointData, type TracedPoint } from './branch-point-data.js';
 import { dist2 } from './vector.js';
+import { unstableCount } from './eigenvalues.js';
 
 export type TestFunctionKind = 'fold' | 'branch' | 'hopf';
 
@@ -73,44 +74,42 @@ export function arcPoint(
 ): TracedPoint | null {
   const n = system.dimension;
   const len = dist2(a.y, b.y);
-  {
-    // Cubic Hermite interpolation of the arc from the end points and their unit tangents: an O(len^4)
-    // guess, and its derivative as the hyperplane normal, so the trial hyperplane cuts the traced arc
-    // transversally (a chord guess can land on a crossing branch near a branch point).
-    const u2 = u * u;
-    const u3 = u2 * u;
-    const h00 = 2 * u3 - 3 * u2 + 1;
-    const h10 = u3 - 2 * u2 + u;
-    const h01 = -2 * u3 + 3 * u2;
-    const h11 = u3 - u2;
-    const d00 = 6 * u2 - 6 * u;
-    const d10 = 3 * u2 - 4 * u + 1;
-    const d01 = -6 * u2 + 6 * u;
-    const d11 = 3 * u2 - 2 * u;
-    const guess = new Float64Array(n + 1);
-    const d = new Float64Array(n + 1);
-    for (let i = 0; i <= n; i++) {
-      guess[i] = h00 * a.y[i] + h10 * len * a.t[i] + h01 * b.y[i] + h11 * len * b.t[i];
-      d[i] = d00 * a.y[i] + d10 * len * a.t[i] + d01 * b.y[i] + d11 * len * b.t[i];
-    }
-    const dn = Math.hypot(...d);
-    for (let i = 0; i <= n; i++) d[i] /= dn;
-    let c = 0;
-    for (let i = 0; i <= n; i++) c += d[i] * guess[i];
-    const res = correct(system, guess, d, c, ws, { residualTolerance: o.residualTolerance, stepTolerance: o.stepTolerance, maxIterations: 20, maxDisplacement: 0.1 * len });
-    // Next to a singular point the Newton steps stall along the near-null direction while the residual
-    // is already at rounding level; such a point is on the solution set and is accepted.
-    const onCurve = res.converged || (res.residual <= o.residualTolerance && dist2(res.y, guess) <= 0.1 * len);
-    if (!onCurve) return null;
-    const tan = tangentAt(system, res.y, d, ws);
-    if (tan.tangent.every((v) => v === 0)) return null;
-    // Orient along the direction of travel (the tangent at the nearer known point).
-    let sign = 0;
-    for (let i = 0; i <= n; i++) sign += tan.tangent[i] * from.t[i];
-    const t = sign >= 0 ? tan.tangent : tan.tangent.map((v) => -v);
-    const det = sign >= 0 ? tan.determinant : -tan.determinant;
-    return pointData(system, res.y, t, det, ws);
+  // Cubic Hermite interpolation of the arc from the end points and their unit tangents: an O(len^4)
+  // guess, and its derivative as the hyperplane normal, so the trial hyperplane cuts the traced arc
+  // transversally (a chord guess can land on a crossing branch near a branch point).
+  const u2 = u * u;
+  const u3 = u2 * u;
+  const h00 = 2 * u3 - 3 * u2 + 1;
+  const h10 = u3 - 2 * u2 + u;
+  const h01 = -2 * u3 + 3 * u2;
+  const h11 = u3 - u2;
+  const d00 = 6 * u2 - 6 * u;
+  const d10 = 3 * u2 - 4 * u + 1;
+  const d01 = -6 * u2 + 6 * u;
+  const d11 = 3 * u2 - 2 * u;
+  const guess = new Float64Array(n + 1);
+  const d = new Float64Array(n + 1);
+  for (let i = 0; i <= n; i++) {
+    guess[i] = h00 * a.y[i] + h10 * len * a.t[i] + h01 * b.y[i] + h11 * len * b.t[i];
+    d[i] = d00 * a.y[i] + d10 * len * a.t[i] + d01 * b.y[i] + d11 * len * b.t[i];
   }
+  const dn = Math.hypot(...d);
+  for (let i = 0; i <= n; i++) d[i] /= dn;
+  let c = 0;
+  for (let i = 0; i <= n; i++) c += d[i] * guess[i];
+  const res = correct(system, guess, d, c, ws, { residualTolerance: o.residualTolerance, stepTolerance: o.stepTolerance, maxIterations: 20, maxDisplacement: 0.1 * len });
+  // Next to a singular point the Newton steps stall along the near-null direction while the residual
+  // is already at rounding level; such a point is on the solution set and is accepted.
+  const onCurve = res.converged || (res.residual <= o.residualTolerance && dist2(res.y, guess) <= 0.1 * len);
+  if (!onCurve) return null;
+  const tan = tangentAt(system, res.y, d, ws);
+  if (tan.tangent.every((v) => v === 0)) return null;
+  // Orient along the direction of travel (the tangent at the nearer known point).
+  let sign = 0;
+  for (let i = 0; i <= n; i++) sign += tan.tangent[i] * from.t[i];
+  const t = sign >= 0 ? tan.tangent : tan.tangent.map((v) => -v);
+  const det = sign >= 0 ? tan.determinant : -tan.determinant;
+  return pointData(system, res.y, t, det, ws);
 }
 
 /** The test function of `kind` at a traced point. */
@@ -253,12 +252,15 @@ export function locateCountChange(system: CompiledSystem, a: TracedPoint, b: Tra
   let plo = a;
   let phi = b;
   let it = 0;
+  // Inside the bracket the count uses Re > 0 strictly: the tolerance band of unstableCount would
+  // bias the location by tol / |d lambda / dp|.
+  const loCount = unstableCount(a.spectrum, 0);
   for (; it < o.maxIterations; it++) {
     if (Math.abs(phi.y[n] - plo.y[n]) < o.parameterTolerance && (hi - lo) * len < o.arcTolerance) break;
     const mid = 0.5 * (lo + hi);
     const pm = arcPoint(system, a, b, mid, mid < 0.5 ? a : b, ws, o);
     if (pm === null) break;
-    if (pm.unstable === plo.unstable) {
+    if (unstableCount(pm.spectrum, 0) === loCount) {
       lo = mid;
       plo = pm;
     } else {
