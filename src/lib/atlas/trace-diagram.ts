@@ -142,8 +142,9 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
       }
       // Two or more eigenvalues crossing zero at once (a symmetry-forced multiple zero eigenvalue)
       // leave det [DH; t] with its sign; only the unstable count shows it.
-      // (A complex pair crossing also changes the count by 2; that is left to the Hopf test.)
-      if (Math.abs(b.unstable - a.unstable) >= 2 && !kinds.includes('hopf')) {
+      // Only when no other test function explains the jump (a complex pair, or a fold and a branch
+      // point in one step, also change the count by 2).
+      if (Math.abs(b.unstable - a.unstable) >= 2 && kinds.length === 0) {
         try {
           handleMultipleCrossing(a, b);
         } catch (e) {
