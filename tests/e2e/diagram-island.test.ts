@@ -125,6 +125,21 @@ describe('diagram island on the preview page', () => {
     await expect(panel.locator('.dg-kv').first().locator('tr').count()).resolves.toBe(fixture.variables.length + 1);
   });
 
+  it('a band opens its reason and escape graph; a tag added there appears in the tag layer and the toggle hides the layer', async (ctx) => {
+    const p = ready(ctx);
+    await p.getByTestId('band-ribbon').nth(2).click();
+    await expect(p.getByTestId('band-reason').textContent()).resolves.toMatch(/strong band/);
+    await expect(p.getByTestId('escape-graph').count()).resolves.toBe(1);
+    const before = await p.getByTestId('tag-layer-item').count();
+    const form = p.getByTestId('tag-form');
+    await form.getByLabel('Name').fill('Checked by e2e');
+    await form.getByRole('button', { name: 'Add tag' }).click();
+    await expect.poll(() => p.getByTestId('tag-layer-item').count()).toBe(before + 1);
+    await p.getByTestId('toggle-tags').uncheck();
+    await expect.poll(() => p.getByTestId('tag-layer-item').count()).toBe(0);
+    await p.getByTestId('toggle-tags').check();
+  });
+
   it('exports an SVG that parses and has one path per branch run, and a CSV with one row per point', async (ctx) => {
     const p = ready(ctx);
     await p.getByTestId('export-toggle').click();

@@ -48,7 +48,9 @@ export function DiagramView(props: DiagramViewProps) {
   // Default: one node's state for one or two nodes (the classic fold picture), the mean state for larger networks.
   const [projKey, setProjKey] = useState(() => props.initialProjection && options.some((o) => o.key === props.initialProjection)
     ? props.initialProjection : diagram.variables.length > 2 ? 'mean' : options[0]?.key ?? 'node:0');
-  const projection: Projection = useMemo(() => projectionFromKey(projKey, thresholds), [projKey, thresholds]);
+  // A new diagram (live preview after a node was removed) may no longer offer the chosen projection.
+  const activeKey = options.some((o) => o.key === projKey) ? projKey : diagram.variables.length > 2 ? 'mean' : options[0]?.key ?? 'node:0';
+  const projection: Projection = useMemo(() => projectionFromKey(activeKey, thresholds), [activeKey, thresholds]);
   const [transform, setTransform] = useState<ZoomTransform>(zoomIdentity);
   const [zoomY, setZoomY] = useState(false);
   const [showTags, setShowTags] = useState(true);
@@ -123,7 +125,7 @@ export function DiagramView(props: DiagramViewProps) {
     const svg = overlayRef.current;
     if (svg && zoomRef.current) select(svg).call(zoomRef.current.transform, zoomIdentity);
   }, []);
-  useEffect(() => { resetView(); }, [projKey, zoomY, resetView]);
+  useEffect(() => { resetView(); }, [activeKey, zoomY, resetView]);
 
   // Canvas: branches, thinned to the pixels in view.
   useEffect(() => {
@@ -266,7 +268,7 @@ export function DiagramView(props: DiagramViewProps) {
         {props.title ? <h3 className="dg-title">{props.title}</h3> : null}
         <label className="dg-field">
           <span>Vertical axis</span>
-          <select value={projKey} onChange={(e) => setProjKey(e.target.value)} data-testid="projection-select">
+          <select value={activeKey} onChange={(e) => setProjKey(e.target.value)} data-testid="projection-select">
             {options.map((o) => <option key={o.key} value={o.key}>{o.label}</option>)}
           </select>
         </label>
