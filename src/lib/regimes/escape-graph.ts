@@ -23,7 +23,12 @@ export interface EscapeGraphResult {
   readonly graph: EscapeGraph;
   readonly saddles: readonly { readonly equilibrium: Equilibrium; readonly branches: readonly [ManifoldBranch, ManifoldBranch] }[];
   readonly diagnostics: Diagnostic[];
+  /** True when the integration budget ran out before every saddle was followed (the graph is partial). */
+  readonly truncated: boolean;
 }
+
+/** Integrations still allowed; decremented by buildEscapeGraph. */
+export interface IntegrationBudget { left: number }
 
 type GraphSettings = Pick<RegimeOptions,
   'manifoldOffset' | 'settledSpeed' | 'relativeTolerance' | 'absoluteTolerance' | 'timeCap' | 'maxSteps' | 'stateBound' |
@@ -39,7 +44,8 @@ type GraphSettings = Pick<RegimeOptions,
  * to the nearest other equilibrium), max norm, while moving towards it ((x - x_k) . F(x) < 0). A branch that settles elsewhere (max|F| < settledSpeed
  * farther than 100 offsets from the saddle) or stops at the time or step cap is polished by Newton's method; if it lands on a stable equilibrium not yet known, that state is added
  * with a warning, otherwise the saddle is left out with a "manifold-unresolved" diagnostic.
- * `from` is the end with fewer tipped nodes (ties: lower index). Patterns use `roles`; without roles
+ * `from` is the end with fewer tipped nodes (ties: lower index). Each saddle costs two integrations
+ * from `budget`; when it runs out the remaining saddles are skipped and `truncated` is set. Patterns use `roles`; without roles
  * every node counts as base.
  */
 export function buildEscapeGraph(
@@ -48,6 +54,7 @@ export function buildEscapeGraph(
   equilibria: readonly Equilibrium[],
   roles: readonly NodeRoles[] | null,
   settings: GraphSettings,
+  budget: IntegrationBudget = { left: Infinity },
 ): EscapeGraphResult {
   const n = system.dimension;
   const diagnostics: Diagnostic[] = [];
@@ -74,7 +81,10 @@ export function buildEscapeGraph(
 
   const edges: SaddleEdge[] = [];
   const saddleData: { equilibrium: Equilibrium; branches: [ManifoldBranch, ManifoldBranch] }[] = [];
+  let truncated = false;
   for (const saddle of equilibria.filter(isIndexOneSaddle)) {
+    if (budget.left < 2) { truncated = true; break; }
+    budget.left -= 2;
     const v = saddle.unstableVector!;
     const step = settings.manifoldOffset * (1 + maxAbs(saddle.x));
     const found: ManifoldBranch[] = [];
@@ -140,7 +150,7 @@ export function buildEscapeGraph(
     });
     saddleData.push({ equilibrium: saddle, branches: [a, b] });
   }
-  return { graph: { p, states, saddles: edges }, saddles: saddleData, diagnostics };
+  return { graph: { p, states, saddles: edges }, saddles: saddleData, diagnostics, truncated };
 }
 
 /**

@@ -4,7 +4,7 @@ export { defaultRegimeOptions, resolveOptions, type RegimeOptions, type GivenRol
 export { elementRoles, stateRanges, type NodeRoles, type ElementRolesResult } from './element-roles';
 export { patternOf, progressOf, countTipped } from './pattern';
 export { equilibriaAt, analyseEquilibrium, isStable, isIndexOneSaddle, type Equilibrium } from './equilibria-at';
-export { buildEscapeGraph, slowPassageTime, type EscapeGraphResult, type ManifoldBranch } from './escape-graph';
+export { buildEscapeGraph, slowPassageTime, type EscapeGraphResult, type ManifoldBranch, type IntegrationBudget } from './escape-graph';
 export { classifyEdge, type EdgeClassification } from './classify-edge';
 export { cutPoints, changesEscapeGraph, type Cut } from './intervals';
 export { mergeBands, type IntervalLabel } from './merge-bands';

@@ -4,7 +4,7 @@ import type { EdgeKind, EscapeGraph, NodeState, Regime, RegimeBand, SaddleEdge, 
 import { resolveOptions, type RegimeOptions } from './options';
 import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles';
 import { equilibriaAt } from './equilibria-at';
-import { buildEscapeGraph, type EscapeGraphResult } from './escape-graph';
+import { buildEscapeGraph, type EscapeGraphResult, type IntegrationBudget } from './escape-graph';
 import { classifyEdge, type EdgeClassification } from './classify-edge';
 import { changesEscapeGraph, cutName, cutPoints } from './intervals';
 import { mergeBands, type IntervalLabel } from './merge-bands';
@@ -79,6 +79,8 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
   }
   const labels = new Map<StartState, IntervalLabel[]>(starts.map((s) => [s, []]));
   const escapeGraphs: EscapeGraph[] = [];
+  const budget = { left: o.maxIntegrations };
+  let exhausted = false;
   for (let k = 0; k + 1 < cuts.length; k++) {
     const a = cuts[k];
     const b = cuts[k + 1];
@@ -90,8 +92,16 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
         labels.get(start)!.push({ from: a.p, to: b.p, fromBound: cutName(a), toBound: cutName(b), regime: lab.regime, reason: lab.reason, start });
       }
     };
+    if (exhausted) { push(() => ({ regime: null, reason: 'integration budget used up' })); continue; }
     try {
-      const analysed = analyseInterval(system, diagram, p, roles0, ranges, starts, names, o, note);
+      const analysed = analyseInterval(system, diagram, p, roles0, ranges, starts, names, o, note, budget);
+      if (analysed.truncated) {
+        exhausted = true;
+        note({ level: 'warning', code: 'regimes-budget', p,
+          message: `the cap of ${o.maxIntegrations} manifold integrations was reached at ${system.parameter} = ${fmt(p)}; this and the later intervals are not labelled (raise maxIntegrations for larger networks)` });
+        push(() => ({ regime: null, reason: 'integration budget used up' }));
+        continue;
+      }
       if (analysed.graph) escapeGraphs.push(analysed.graph);
       push((start) => analysed.labels.get(start) ?? { regime: null, reason: 'regimes undefined' });
     } catch (e) {
@@ -121,7 +131,8 @@ function analyseInterval(
   names: readonly string[],
   o: RegimeOptions,
   note: (d: Diagnostic) => void,
-): { graph: EscapeGraph | null; labels: Map<StartState, { regime: Regime | null; reason: string }> } {
+  budget: IntegrationBudget,
+): { graph: EscapeGraph | null; truncated: boolean; labels: Map<StartState, { regime: Regime | null; reason: string }> } {
   const labels = new Map<StartState, { regime: Regime | null; reason: string }>();
   let roles = roles0;
   if (!roles) {
@@ -129,15 +140,16 @@ function analyseInterval(
     r.diagnostics.forEach(note);
     roles = r.roles;
   }
-  if (roles.some((x) => x === null)) return { graph: null, labels };
+  if (roles.some((x) => x === null)) return { graph: null, truncated: false, labels };
   const nodeRoles = roles as NodeRoles[];
   const eq = equilibriaAt(system, diagram, p, o);
   eq.diagnostics.forEach(note);
-  const g = buildEscapeGraph(system, p, eq.equilibria, nodeRoles, o);
+  const g = buildEscapeGraph(system, p, eq.equilibria, nodeRoles, o, budget);
   g.diagnostics.forEach(note);
+  if (g.truncated) return { graph: null, truncated: true, labels };
   const edges: SaddleEdge[] = g.graph.saddles.map((e) => ({ ...e }));
   for (const start of starts) labels.set(start, labelInterval(system, p, g, edges, nodeRoles, names, start, o, note));
-  return { graph: { p, states: g.graph.states, saddles: edges }, labels };
+  return { graph: { p, states: g.graph.states, saddles: edges }, truncated: false, labels };
 }
 
 /** Mirror x -> -x: turns the all-tipped start into an all-base one for classifyEdge. */

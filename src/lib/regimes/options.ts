@@ -49,6 +49,8 @@ export interface RegimeOptions {
   readonly slowExclusion: number;
   /** Cut at every special point, also those where only equilibria with two or more unstable eigenvalues meet. */
   readonly allCuts: boolean;
+  /** Cap on manifold-branch integrations in one labelRegimes call; intervals past it stay unlabelled. */
+  readonly maxIntegrations: number;
   /** Intervals narrower than this (absolute in p) are not analysed. */
   readonly minimumInterval: number;
 }
@@ -74,6 +76,7 @@ export const defaultRegimeOptions: RegimeOptions = {
   slowSpeedFraction: 0.1,
   slowExclusion: 0.1,
   allCuts: false,
+  maxIntegrations: 40_000,
   minimumInterval: 1e-12,
 };
 

@@ -111,4 +111,12 @@ describe('buildEscapeGraph edge cases', () => {
     expect(result.regimes).toEqual([]);
     expect(result.diagnostics[0].code).toBe('regimes-diagram-mismatch');
   });
+
+  it('labelRegimes stops at the integration cap with a warning and labels only the intervals before it', () => {
+    // The weak interval has 4 index-1 saddles (8 integrations); a cap of 10 runs out in the next one.
+    const result = labelRegimes(system, symmetricPairDiagram(R), { maxIntegrations: 10 });
+    expect(result.regimes.map((b) => b.regime)).toEqual(['weak']);
+    expect(result.escapeGraphs).toHaveLength(1);
+    expect(result.diagnostics.some((d) => d.code === 'regimes-budget')).toBe(true);
+  });
 });
