@@ -10,6 +10,7 @@ import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import Papa from 'papaparse';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { alignSpecialPoints } from '../../src/lib/plot/compare';
 import { splitAllRuns } from '../../src/lib/plot/runs';
 import { formatValue } from '../../src/lib/plot/ticks';
 import { makeTwoLakeDiagram } from '../fixtures/two-lake';
@@ -164,5 +165,23 @@ describe('diagram island on the preview page', () => {
     const pdf = await downloadText(p, 'export-pdf');
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
     expect(pdf.length).toBeGreaterThan(10_000);
+  });
+
+  it('compare: zooming one panel moves the shared axis of the other, and the table aligns every special point', async (ctx) => {
+    const p = ready(ctx);
+    await p.goto(`${base}/dev/diagram-preview?compare=1`, { waitUntil: 'load' });
+    await p.waitForSelector('[data-testid=compare-view] .dg-compare-panel', { timeout: 60_000 });
+    const panels = p.locator('.dg-compare-panel');
+    const ticks = () => panels.nth(1).locator('.dg-axis').first().locator('text').allTextContents();
+    const before = await ticks();
+    await panels.nth(0).scrollIntoViewIfNeeded();
+    const b = (await panels.nth(0).boundingBox())!;
+    await p.mouse.move(b.x + b.width / 2, b.y + b.height / 2);
+    for (let i = 0; i < 3; i++) await p.mouse.wheel(0, -300);
+    await expect.poll(ticks).not.toEqual(before);
+    // The page compares the two-lake fixture at coupling 0.1 and 0.16, 400 points per branch.
+    const rows = alignSpecialPoints([makeTwoLakeDiagram({ coupling: 0.1, pointsPerBranch: 400 }), makeTwoLakeDiagram({ coupling: 0.16, pointsPerBranch: 400 })]);
+    await expect(p.getByTestId('compare-special-table').locator('tbody tr').count()).resolves.toBe(rows.length);
+    await p.getByTestId('compare-view').screenshot({ path: screenshotPath('diagram-compare-zoomed') });
   });
 });
