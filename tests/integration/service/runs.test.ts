@@ -119,6 +119,10 @@ describe('run life cycle through the API', () => {
     expect(second.body.run).toMatchObject({ status: 'done', reused: true, resultId: done.result_id, progress: 1 });
     expect(Number((await db('results').count({ n: '*' }))[0].n)).toBe(resultsBefore);
 
+    // The document's own sweep range and the engine's default point cap, typed in, are the same inputs.
+    const restated = await w.modeler.post(ws('/api/runs', w.workspaceId), { modelId: twin, settings: { from: 0, to: 0.3, maxPointsPerBranch: 5000, maxStep: 2e-2 } });
+    expect(restated.body.run).toMatchObject({ status: 'done', reused: true, resultId: done.result_id });
+
     const other = await w.modeler.post(ws('/api/runs', w.workspaceId), { modelId, settings: { maxPointsPerBranch: 4000 } });
     expect(other.body.run.status).toBe('queued');
     expect(other.body.run.reused).toBe(false);
