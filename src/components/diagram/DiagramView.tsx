@@ -279,6 +279,9 @@ export function DiagramView(props: DiagramViewProps) {
         </div>
         <label className="dg-check"><input type="checkbox" checked={zoomY} onChange={(e) => setZoomY(e.target.checked)} /> Zoom vertical axis too</label>
         <label className="dg-check"><input type="checkbox" checked={showTags} onChange={(e) => setShowTags(e.target.checked)} data-testid="toggle-tags" /> Show manual tags</label>
+        {props.canTag && (props.onAddTag || props.tagEndpoint) ? (
+          <button type="button" onClick={() => setSelection({ kind: 'range', from: Number(xDomain[0].toPrecision(6)), to: Number(xDomain[1].toPrecision(6)) })} data-testid="tag-range">Tag the range in view…</button>
+        ) : null}
         <ExportMenu diagram={diagram} projection={projection} regimes={regimes} escapeGraphs={escapeGraphs} tags={tags} showTags={showTags}
           pDomain={xDomain} yDomain={yDomain} provenance={provenance} />
       </div>

@@ -49,7 +49,7 @@ function Evidence({ evidence }: { evidence: Record<string, unknown> }) {
   );
 }
 
-function TagForm({ band, onAddTag }: { band: RegimeBand; onAddTag: (tag: BandTag) => Promise<void> }) {
+function TagForm({ band, onAddTag }: { band: Pick<RegimeBand, 'from' | 'to'>; onAddTag: (tag: BandTag) => Promise<void> }) {
   const [name, setName] = useState('');
   const [colour, setColour] = useState('#2f7d6d');
   const [note, setNote] = useState('');
@@ -137,6 +137,14 @@ export function SidePanel({ diagram, projection, selection, regimes, escapeGraph
         <Evidence evidence={sp.evidence} />
       </>
     ) : null;
+  } else if (selection.kind === 'range') {
+    body = (
+      <>
+        <h3 className="dg-panel-title" tabIndex={-1} ref={headRef}>Tag a parameter range</h3>{close}
+        <p className="dg-muted">Starts as the range in view; edit “from” and “to” as needed.</p>
+        {canTag ? <TagForm key={`${selection.from}:${selection.to}`} band={selection} onAddTag={onAddTag} /> : <p className="dg-muted">Only modelers and owners add tags.</p>}
+      </>
+    );
   } else {
     const band = regimes[selection.index];
     const graph = band ? escapeGraphs.find((g) => g.p >= band.from && g.p <= band.to) : undefined;
