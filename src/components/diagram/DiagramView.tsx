@@ -379,7 +379,8 @@ export function DiagramView(props: DiagramViewProps) {
                       onClick={(e) => { e.stopPropagation(); openSpecial(sp); }} onKeyDown={(e) => keyOpen(e, () => openSpecial(sp))}>
                       <title>{`${SPECIAL_LABEL[sp.type]} at ${formatValue(sp.p)}`}</title>
                       <circle className="dg-hit" r={MARKER_R + 4} />
-                      {focusId === sp.id || selected ? <circle className="dg-focus-ring" r={MARKER_R + 4} /> : null}
+                      {/* A dashed rounded square, so the focus mark cannot be read as the Hopf ring. */}
+                      {focusId === sp.id || selected ? <rect className="dg-focus-ring" x={-MARKER_R - 5} y={-MARKER_R - 5} width={2 * MARKER_R + 10} height={2 * MARKER_R + 10} rx={3} /> : null}
                       <path d={markerPath(sp.type, 0, 0, MARKER_R)} fillRule={markerFillRule(sp.type)} className="dg-glyph" />
                     </g>
                   );
