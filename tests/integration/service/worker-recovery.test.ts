@@ -4,7 +4,7 @@
  * that loses its worker too often ending failed with a diagnostic.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeDbAfterAll, db, workspaceWithRoles } from '../helpers.ts';
+import { closeDbAfterAll, db, waitForMail, workspaceWithRoles } from '../helpers.ts';
 import { startRun } from '../../../src/lib/server/runs/repository.ts';
 import { claimRun } from '../../../src/lib/server/runs/queue.ts';
 import { createModel, runRow, spawnWorker, twoLakes, until } from './fixtures.ts';
@@ -45,6 +45,34 @@ describe('worker killed mid-run', () => {
       expect(await rescuer.stop()).toBe(0);
     }
   }, 90_000);
+});
+
+describe('a run that keeps failing', () => {
+  it('is retried up to max_attempts, then ends failed with its diagnostic and a mail to its starter', async () => {
+    const w = await workspaceWithRoles('Service failing');
+    const queue = `fail-${Date.now()}`;
+    const { modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0666 }), 'Failing lakes');
+    const run = await startRun(w.workspaceId, w.modeler.user!.id, { modelId, settings: {}, notify: true, queue, maxAttempts: 2 });
+    // Test-only damage behind the API's back: the stored text no longer parses, so every attempt throws.
+    await db('model_versions').where({ id: run.versionId }).update({ document: '{"format": "brinkmap/network-1",' });
+    const worker = spawnWorker(queue);
+    try {
+      const failed = await until('failed', async () => {
+        const r = await runRow(run.id);
+        return r.status === 'failed' && r;
+      }, 30_000);
+      expect(failed.attempts).toBe(2);
+      const error = typeof failed.error === 'string' ? JSON.parse(failed.error) : failed.error;
+      expect(error.code).toBe('compute-error');
+      expect(error.message).toMatch(/SyntaxError/);
+      expect(worker.output()).toMatch(new RegExp(`run ${run.id}: attempt failed .*queued for retry`));
+      const mail = await waitForMail(w.modeler.user!.email);
+      expect(mail.subject).toMatch(new RegExp(`run ${run.id} .* failed`));
+      expect(mail.text).toMatch(/SyntaxError/);
+    } finally {
+      expect(await worker.stop()).toBe(0);
+    }
+  }, 60_000);
 });
 
 describe('worker shutdown', () => {
