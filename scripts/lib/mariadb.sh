@@ -112,7 +112,7 @@ mariadb_start() {
   "${detach[@]}" "$MARIADBD" --no-defaults "${as_user[@]}" --datadir="$DB_DATADIR" --socket="$DB_SOCKET_PATH" \
     --port="$port" --bind-address=127.0.0.1 --pid-file="$DB_PIDFILE" --log-error="$DB_LOGFILE" \
     --character-set-server=utf8mb4 --collation-server=utf8mb4_unicode_ci \
-    --default-storage-engine=InnoDB --innodb-buffer-pool-size=64M --max-connections=200 \
+    --default-storage-engine=InnoDB --innodb-buffer-pool-size=64M --max-connections=200 --max-allowed-packet=256M \
     --skip-name-resolve >/dev/null 2>&1 &
   MARIADBD_PID=$!
   local i

@@ -212,7 +212,19 @@ export class RunWorker {
         return;
       }
       if (output) {
-        const ok = await completeRun(run, this.owner, output, ENGINE_VERSION);
+        let ok: boolean;
+        try {
+          ok = await completeRun(run, this.owner, output, ENGINE_VERSION);
+        } catch (e) {
+          // A diagram larger than the server's max_allowed_packet fails the same way on every attempt.
+          if ((e as { errno?: number }).errno !== 1153) throw e;
+          const mb = (Buffer.byteLength(output.diagramJson) / 1048576).toFixed(1);
+          const error = { code: 'result-too-large', message: `the diagram (${mb} MB of JSON, ${output.pointCount} points) is larger than the database accepts in one statement (max_allowed_packet); narrow the sweep or lower maxPointsPerBranch, or raise max_allowed_packet` };
+          const status = await failRun(run, this.owner, error, false);
+          log(`run ${run.id}: ${error.message}`);
+          if (status === 'failed') await this.notify(run, 'failed');
+          return;
+        }
         log(`run ${run.id}: ${ok ? `done (${output.branchCount} branches, ${output.pointCount} points, ${output.computeMs} ms)` : 'finished but no longer ours; discarded'}`);
         if (ok) await this.notify(run, 'done');
         return;
