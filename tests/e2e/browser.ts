@@ -27,3 +27,12 @@ export function launchBrowser(): Promise<Browser> {
 export function screenshotPath(name: string): string {
   return join(SCREENSHOT_DIR, `${name}.png`);
 }
+
+/** Signs in through the real form and waits until the app has sent the browser on. */
+export async function signIn(page: import('playwright-core').Page, email: string, password: string, next = '/'): Promise<void> {
+  await page.goto(`${BASE_URL}/sign-in?next=${encodeURIComponent(next)}`);
+  await page.getByLabel('E-mail address').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((url) => url.pathname !== '/sign-in');
+}
