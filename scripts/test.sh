@@ -45,7 +45,8 @@ bm_wait_port "$FAKE_SMTP_PORT" 30 "$BM_LAST_PID" || { cat "$LOGS/fake-smtp.log" 
 bm_log "building the app for tests (astro build --outDir dist-$TEST_NAME)"
 npx astro build --outDir "dist-$TEST_NAME" >"$LOGS/build.log" 2>&1 || { tail -n 40 "$LOGS/build.log" >&2; bm_die "astro build failed (full log $LOGS/build.log)"; }
 
-NODE_ENV=production bm_spawn "$LOGS/app.log" node "dist-$TEST_NAME/server/entry.mjs"
+# DEV_PAGES=1 serves /dev/diagram-preview, which tests/e2e/diagram-island.test.ts drives (skips without it).
+NODE_ENV=production DEV_PAGES=1 bm_spawn "$LOGS/app.log" node "dist-$TEST_NAME/server/entry.mjs"
 APP_PID=$BM_LAST_PID
 if [ -f src/worker/main.ts ]; then
   bm_spawn "$LOGS/worker.log" node --import tsx src/worker/main.ts
