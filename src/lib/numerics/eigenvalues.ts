@@ -1,4 +1,5 @@
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { hessenbergQrEigenvalues } from './hessenberg-qr.js';
 
 export interface Spectrum {
   readonly re: Float64Array;
@@ -8,9 +9,13 @@ export interface Spectrum {
 }
 
 /**
- * Eigenvalues of a real square row-major matrix (ml-matrix EigenvalueDecomposition: reduction to
- * Hessenberg form and the shifted QR algorithm; Golub & Van Loan, §7.5). Complex eigenvalues come
- * in conjugate pairs with exactly opposite imaginary parts.
+ * Eigenvalues of a real square row-major matrix. n <= 2: closed form. Non-symmetric n >= 3:
+ * eigenvalue-only Hessenberg reduction plus Francis double-shift QR (hessenberg-qr.ts; Golub &
+ * Van Loan, 4th ed., Alg. 7.4.2 / 7.5.2), bit-identical to ml-matrix's EigenvalueDecomposition but
+ * without eigenvectors; if its sweep cap is hit, ml-matrix's decomposition is used instead.
+ * Exactly symmetric n >= 3: ml-matrix's EigenvalueDecomposition (Householder tridiagonalisation
+ * and the implicit QL iteration, tred2/tql2). Complex eigenvalues come in conjugate pairs with
+ * exactly opposite imaginary parts.
  */
 export function eigenvalues(a: Float64Array, n: number): Spectrum {
   for (let i = 0; i < n * n; i++) {
@@ -34,8 +39,18 @@ export function eigenvalues(a: Float64Array, n: number): Spectrum {
     const w = Math.sqrt(-disc);
     return { re: Float64Array.of(0.5 * tr, 0.5 * tr), im: Float64Array.of(w, -w), ok: true };
   }
+  if (!isSymmetric(a, n)) {
+    const r = hessenbergQrEigenvalues(a, n);
+    if (r.converged) return { re: r.values.re, im: r.values.im, ok: true };
+  }
   const evd = new EigenvalueDecomposition(Matrix.from1DArray(n, n, a));
   return { re: Float64Array.from(evd.realEigenvalues), im: Float64Array.from(evd.imaginaryEigenvalues), ok: true };
+}
+
+/** Exact symmetry, the test ml-matrix uses to choose its symmetric path. */
+function isSymmetric(a: Float64Array, n: number): boolean {
+  for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) if (a[i * n + j] !== a[j * n + i]) return false;
+  return true;
 }
 
 /** Spectral scale max(1, max |lambda|), used to make eigenvalue tolerances relative. */
