@@ -36,6 +36,7 @@ export class BranchIndex {
   private readonly weights2: Float64Array;
   private readonly projWidth: number;
   private seq = 0;
+  private readonly visitLists: Entry[][] = [];
   /** Largest 2-norm distance between consecutive points of a list: bounds how far a hit can be from its indexed point. */
   private maxSegment = 0;
 
@@ -97,13 +98,13 @@ export class BranchIndex {
   hasPoint(y: Float64Array, tol: number): boolean {
     const [pc, xc] = this.coords(y);
     const f = this.fine(y);
-    const reach = this.fineReach(tol);
+    const fr = this.fineReach(tol);
     for (let a = -1; a <= 1; a++) {
       for (let b = -1; b <= 1; b++) {
         const c = this.cells.get(BranchIndex.key(pc + a, xc + b));
         if (!c) continue;
-        for (const [fk, entries] of reach > 1 ? c : sub(c, f)) {
-          if (Math.abs(fk - f) > reach) continue;
+        for (const [fk, entries] of c) {
+          if (Math.abs(fk - f) > fr) continue;
           for (const e of entries) if (dist2(this.lists[e.list].points[e.idx].y, y) < tol) return true;
         }
       }
@@ -123,16 +124,24 @@ export class BranchIndex {
     // A hit lies within tol of a segment that ends at the indexed point.
     const fr = this.fineReach(tol + this.maxSegment);
     let best: Entry | null = null;
-    let bestCell = 9;
     for (let a = -1; a <= 1; a++) {
       for (let b = -1; b <= 1; b++) {
-        const cell = (a + 1) * 3 + (b + 1);
-        if (cell > bestCell) return best;
         const c = this.cells.get(BranchIndex.key(pc + a, xc + b));
         if (!c) continue;
-        for (const [fk, entries] of fr > 1 ? c : sub(c, f)) {
-          if (Math.abs(fk - f) > fr) continue;
-          for (const e of entries) {
+        const lists = this.visitLists;
+        lists.length = 0;
+        if (fr === 1) {
+          for (let k = f - 1; k <= f + 1; k++) {
+            const entries = c.get(k);
+            if (entries) lists.push(entries);
+          }
+        } else {
+          for (const [fk, entries] of c) if (Math.abs(fk - f) <= fr) lists.push(entries);
+        }
+        for (let li = 0; li < lists.length; li++) {
+          const entries = lists[li];
+          for (let ei = 0; ei < entries.length; ei++) {
+            const e = entries[ei];
             if (best !== null && e.seq >= best.seq) break;
             const pts = this.lists[e.list].points;
             const q = pts[e.idx];
@@ -151,23 +160,14 @@ export class BranchIndex {
             const dd = Math.min(distanceToSegment(y, prev.y, q.y), distanceToSegment(y, q.y, next.y));
             if (dd < tol) {
               best = e;
-              bestCell = cell;
               break;
             }
           }
         }
+        // Coarse cells are scanned in the plain scan's order: a hit in an earlier cell wins.
+        if (best !== null) return best;
       }
     }
-    return best;
+    return null;
   }
-}
-
-/** The sub-cells f-1, f, f+1 of a coarse cell that exist. */
-function sub(c: Map<number, Entry[]>, f: number): [number, Entry[]][] {
-  const out: [number, Entry[]][] = [];
-  for (let k = f - 1; k <= f + 1; k++) {
-    const e = c.get(k);
-    if (e) out.push([k, e]);
-  }
-  return out;
 }

@@ -33,7 +33,8 @@ export class DenseLu {
     const piv = new Int32Array(size);
     for (let i = 0; i < size; i++) piv[i] = i;
     let pivotSign = 1;
-    const col = new Float64Array(size);
+    let col = columns.get(size);
+    if (!col) columns.set(size, (col = new Float64Array(size)));
     for (let j = 0; j < size; j++) {
       for (let i = 0; i < size; i++) col[i] = lu[i * size + j];
       for (let i = 0; i < size; i++) {
@@ -92,3 +93,6 @@ export class DenseLu {
     return x;
   }
 }
+
+/** Column scratch per size (the factorization itself is kept by the object, so it is not shared). */
+const columns = new Map<number, Float64Array>();

@@ -27,7 +27,7 @@ export interface HessenbergQrResult {
  * Returns { converged: false } instead of throwing when the cap is hit.
  */
 export function hessenbergQrEigenvalues(a: ArrayLike<number>, n: number, options: HessenbergQrOptions = {}): HessenbergQrResult {
-  const H = new Float64Array(n * n);
+  const H = scratch(n);
   for (let i = 0; i < n * n; i++) H[i] = a[i];
   const d = new Float64Array(n);
   const e = new Float64Array(n);
@@ -37,11 +37,21 @@ export function hessenbergQrEigenvalues(a: ArrayLike<number>, n: number, options
   return { converged: r.converged, iterations: r.iterations, values: { re: d, im: e } };
 }
 
+// One working copy and one Householder vector per size, reused: the engine calls this at every point.
+const squares = new Map<number, Float64Array>();
+const vectors = new Map<number, Float64Array>();
+function scratch(n: number): Float64Array {
+  let h = squares.get(n);
+  if (!h) squares.set(n, (h = new Float64Array(n * n)));
+  return h;
+}
+
 /** Householder reduction of H (row-major, in place) to upper Hessenberg form (orthes without V). */
 function reduceToHessenberg(H: Float64Array, n: number): void {
   const low = 0;
   const high = n - 1;
-  const ort = new Float64Array(n);
+  let ort = vectors.get(n);
+  if (!ort) vectors.set(n, (ort = new Float64Array(n)));
   for (let m = low + 1; m <= high - 1; m++) {
     let scale = 0;
     for (let i = m; i <= high; i++) scale = scale + Math.abs(H[i * n + m - 1]);
