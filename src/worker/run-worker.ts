@@ -119,7 +119,7 @@ export class RunWorker {
       try {
         run = await claimRun(this.owner, this.opts.queue, this.opts.leaseMs);
       } catch (e) {
-        this.opts.log(`claim failed (${(e as Error).message}); retrying`);
+        this.opts.log(`claim failed (${short(e)}); retrying`);
       }
       if (this.stopping) {
         if (run) await releaseRun(run, this.owner).catch(() => undefined);
@@ -168,7 +168,7 @@ export class RunWorker {
         const ours = await heartbeat(run.id, this.owner, this.opts.leaseMs, progress.fraction, progress.phrase);
         if (!ours) this.cancelThread(a, 'the run was cancelled or taken over');
       } catch (e) {
-        log(`run ${run.id}: heartbeat failed (${(e as Error).message})`);
+        log(`run ${run.id}: heartbeat failed (${short(e)})`);
       } finally {
         beating = false;
       }
@@ -235,7 +235,7 @@ export class RunWorker {
       if (status === 'failed') await this.notify(run, 'failed');
     } catch (e) {
       // The database went away while finishing: the lease will expire and another worker retries.
-      log(`run ${run.id}: could not record the outcome (${(e as Error).message}); the lease will lapse and the run be retried`);
+      log(`run ${run.id}: could not record the outcome (${short(e)}); the lease will lapse and the run be retried`);
     }
   }
 
@@ -254,9 +254,15 @@ export class RunWorker {
     try {
       await notifyRunFinished(run.id, status);
     } catch (e) {
-      this.opts.log(`run ${run.id}: e-mail notice failed (${(e as Error).message})`);
+      this.opts.log(`run ${run.id}: e-mail notice failed (${short(e)})`);
     }
   }
+}
+
+/** Database errors quote their SQL, which may hold a whole diagram: keep log lines short. */
+function short(e: unknown): string {
+  const m = (e as Error)?.message ?? String(e);
+  return m.length > 300 ? `${m.slice(0, 140)} … ${m.slice(-140)}` : m;
 }
 
 function describeFailure(e: unknown): RunError {

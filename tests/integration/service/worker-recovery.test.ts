@@ -6,7 +6,9 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { closeDbAfterAll, db, waitForMail, workspaceWithRoles } from '../helpers.ts';
 import { startRun } from '../../../src/lib/server/runs/repository.ts';
-import { claimRun } from '../../../src/lib/server/runs/queue.ts';
+import { claimRun, completeRun } from '../../../src/lib/server/runs/queue.ts';
+import { computeTrace } from '../../../src/lib/server/runs/compute.ts';
+import { ENGINE_VERSION } from '../../../src/lib/atlas/engine-version.ts';
 import { createModel, runRow, spawnWorker, twoLakes, until } from './fixtures.ts';
 
 closeDbAfterAll(afterAll);
@@ -110,6 +112,28 @@ describe('claiming', () => {
     await db('runs').whereIn('id', ids).update({ status: 'cancelled' });
   });
 
+  it('completeRun: concurrent stores of distinct and of identical keys neither deadlock nor duplicate results', async () => {
+    const w = await workspaceWithRoles('Service concurrent stores');
+    const queue = `stores-${Date.now()}`;
+    const { modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0677 }), 'Store lakes');
+    const distinct = [];
+    for (let i = 0; i < 6; i++) distinct.push(await startRun(w.workspaceId, null, { modelId, settings: { to: 0.2 + i / 100 }, notify: false, queue }));
+    const same = [];
+    for (let i = 0; i < 4; i++) same.push(await startRun(w.workspaceId, null, { modelId, settings: { to: 0.15 }, notify: false, queue }));
+    const claimed = await Promise.all(Array.from({ length: 10 }, (_, i) => claimRun(`store-${i}`, queue, 60_000)));
+    expect(claimed.every((c) => c !== null)).toBe(true);
+    // One real computation stands in for all (this test is about locking, not numbers).
+    const out = computeTrace(claimed[0]!.documentText, { to: 0.15 }, { onProgress: () => undefined, isCancelled: () => false });
+    const ok = await Promise.all(claimed.map((c, i) => completeRun(c!, `store-${i}`, out, ENGINE_VERSION)));
+    expect(ok).toEqual(Array(10).fill(true));
+    const rows = await db('runs').whereIn('id', [...distinct, ...same].map((r) => r.id));
+    const byId = new Map(rows.map((r) => [r.id, r]));
+    expect(new Set(distinct.map((r) => byId.get(r.id).result_id)).size).toBe(6);
+    const shared = new Set(same.map((r) => byId.get(r.id).result_id));
+    expect(shared.size).toBe(1);
+    expect(same.filter((r) => !byId.get(r.id).reused).length).toBe(1);
+  });
+
   it('two worker processes on one queue finish every run exactly once', async () => {
     const w = await workspaceWithRoles('Service two workers');
     const queue = `pair-${Date.now()}`;
@@ -124,8 +148,8 @@ describe('claiming', () => {
         return rows.every((r) => r.status === 'done') && rows;
       }, 60_000);
       const rows = await db('runs').whereIn('id', runs.map((r) => r.id));
-      for (const r of rows) expect(r.attempts).toBe(1);
       const logs = a.output() + b.output();
+      for (const r of rows) expect(r.attempts, logs).toBe(1);
       for (const r of runs) expect(logs.match(new RegExp(`run ${r.id}: claimed`, 'g'))?.length).toBe(1);
     } finally {
       expect(await a.stop()).toBe(0);

@@ -112,12 +112,32 @@ export async function findResultId(cacheKey: string, k: Knex = db): Promise<numb
   return row ? (row.id as number) : null;
 }
 
+/** InnoDB deadlock (1213) or lock wait timeout (1205): the transaction may simply be run again. */
+function isRetryableLockError(e: unknown): boolean {
+  const errno = (e as { errno?: number })?.errno;
+  return errno === 1213 || errno === 1205;
+}
+
 /**
  * Stores the result and finishes the run in one transaction. Returns false (and stores nothing)
  * when the run stopped being ours. A result row with the same key written by a concurrent run is
- * reused rather than duplicated.
+ * reused rather than duplicated (the unique cache key refuses the second insert, which then reads
+ * the first). READ COMMITTED keeps two such transactions from deadlocking on gap locks (they did,
+ * under REPEATABLE READ, with a locking read of the not-yet-existing key); deadlocks and lock
+ * timeouts are retried a few times anyway.
  */
 export async function completeRun(run: ClaimedRun, owner: string, out: ComputeOutput | { reuse: number }, engineVersion: string, k: Knex = db): Promise<boolean> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await completeRunOnce(run, owner, out, engineVersion, k);
+    } catch (e) {
+      if (attempt >= 4 || !isRetryableLockError(e)) throw e;
+      await new Promise((r) => setTimeout(r, 50 * attempt + Math.random() * 50));
+    }
+  }
+}
+
+async function completeRunOnce(run: ClaimedRun, owner: string, out: ComputeOutput | { reuse: number }, engineVersion: string, k: Knex): Promise<boolean> {
   return k.transaction(async (trx) => {
     const row = await trx('runs').where({ id: run.id }).forUpdate().first('status', 'lease_owner');
     if (!row || row.status !== 'running' || row.lease_owner !== owner) return false;
@@ -127,23 +147,23 @@ export async function completeRun(run: ClaimedRun, owner: string, out: ComputeOu
       resultId = out.reuse;
       reused = true;
     } else {
-      const existing = await trx('results').where({ cache_key: run.cacheKey }).forUpdate().first('id');
+      const existing = await trx('results').where({ cache_key: run.cacheKey }).first('id');
       if (existing) {
         resultId = existing.id;
         reused = true;
       } else {
-        [resultId] = await trx('results').insert({
-          cache_key: run.cacheKey,
-          engine_version: engineVersion,
-          diagram: out.diagramJson,
-          regimes: out.regimesJson,
-          preview: out.previewJson,
-          preview_points: out.previewPoints,
-          branch_count: out.branchCount,
-          point_count: out.pointCount,
-          special_point_count: out.specialPointCount,
-          compute_ms: out.computeMs,
-        });
+        try {
+          [resultId] = await trx('results').insert({
+            cache_key: run.cacheKey, engine_version: engineVersion, diagram: out.diagramJson, regimes: out.regimesJson,
+            preview: out.previewJson, preview_points: out.previewPoints, branch_count: out.branchCount,
+            point_count: out.pointCount, special_point_count: out.specialPointCount, compute_ms: out.computeMs,
+          });
+        } catch (e) {
+          // Another run stored the same key since our check: InnoDB rolled back just this statement; use theirs.
+          if ((e as { errno?: number }).errno !== 1062) throw e;
+          resultId = (await trx('results').where({ cache_key: run.cacheKey }).first('id')).id;
+          reused = true;
+        }
       }
     }
     await trx('runs').where({ id: run.id }).update({
@@ -153,7 +173,7 @@ export async function completeRun(run: ClaimedRun, owner: string, out: ComputeOu
     });
     await recordAudit(trx, { workspaceId: run.workspaceId, actorId: null, action: 'run.done', targetType: 'run', targetId: run.id, details: { resultId, reused, worker: owner } });
     return true;
-  });
+  }, { isolationLevel: 'read committed' });
 }
 
 /**
