@@ -12,6 +12,7 @@ import type { PlotPalette } from '../../lib/plot/palette';
 import { availableProjections, project, projectionFromKey, projectionKey, projectionLabel, type Projection } from '../../lib/plot/projection';
 import { INDICATIVE_NOTE } from '../../lib/plot/provenance';
 import { splitRuns, type BranchRun } from '../../lib/plot/runs';
+import { labelWidth, stackRows } from '../../lib/plot/stack-rows';
 import { decimateByPixel } from '../../lib/plot/thin';
 import { formatValue, integerTicks, linearAxis } from '../../lib/plot/ticks';
 import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
@@ -202,6 +203,8 @@ export function DiagramView(props: DiagramViewProps) {
   };
   const onMove = (ev: React.MouseEvent<SVGSVGElement>) => {
     if (ev.buttons) return;
+    // Over a glyph or band ribbon its own title speaks; a branch tooltip there would cover the glyph.
+    if ((ev.target as Element).closest('.dg-focusable')) { setHover(null); return; }
     const [mx, my] = local(ev);
     if (mx < 0 || my < 0 || mx > plotW || my > plotH) { setHover(null); return; }
     setHover(nearest(mx, my));
@@ -259,6 +262,10 @@ export function DiagramView(props: DiagramViewProps) {
   const hovered = hover ? diagram.branches[hover.branch]?.points[hover.index] : null;
   const hoverY = hovered ? project(hovered.x, projection) : 0;
   const yLabel = projectionLabel(projection, diagram.variables);
+  const tagRows = stackRows(tags.map((t) => {
+    const x0 = Math.max(-2, xs(t.from)), x1 = Math.min(plotW + 2, xs(t.to));
+    return x1 <= x0 ? { start: 0, end: 0 } : { start: x0, end: Math.max(x1, x0 + 8 + labelWidth(t.name, 10.5)) };
+  }));
   const clipId = useMemo(() => `dg-clip-${Math.random().toString(36).slice(2, 9)}`, []);
 
   return (
@@ -303,13 +310,15 @@ export function DiagramView(props: DiagramViewProps) {
                 {showTags && tags.map((t, i) => {
                   const x0 = Math.max(-2, xs(t.from)), x1 = Math.min(plotW + 2, xs(t.to));
                   if (x1 <= x0) return null;
+                  // Overlapping tags (or names running past their range) get their labels on stacked lines.
+                  const row = tagRows[i];
                   return (
                     <g key={i} className="dg-tag" data-testid="tag-layer-item">
                       <rect x={x0} width={x1 - x0} y={0} height={plotH} fill={t.colour} fillOpacity={0.08} />
                       <rect x={x0} width={x1 - x0} y={plotH - 6} height={6} fill={t.colour} />
                       <line x1={x0} x2={x0} y1={0} y2={plotH} stroke={t.colour} strokeDasharray="2 3" />
                       <line x1={x1} x2={x1} y1={0} y2={plotH} stroke={t.colour} strokeDasharray="2 3" />
-                      <text x={x0 + 4} y={plotH - 10} className="dg-tag-label">{t.name}</text>
+                      <text x={x0 + 4} y={plotH - 10 - row * 13} className="dg-tag-label">{t.name}</text>
                     </g>
                   );
                 })}

@@ -11,6 +11,7 @@ import { PAPER_PALETTE, type PlotPalette } from './palette';
 import { project, projectionLabel, type Projection } from './projection';
 import { provenanceLine, type Provenance } from './provenance';
 import { splitRuns } from './runs';
+import { labelWidth, stackRows } from './stack-rows';
 import { thinToBudget } from './thin';
 import { integerTicks, linearAxis } from './ticks';
 
@@ -113,11 +114,17 @@ export function buildFigure(input: FigureInput): Figure {
   for (const t of yTicks) items.push({ t: 'path', d: `M${plot.x},${r2(t.pos)}H${plot.x + plot.w}`, stroke: pal.grid, strokeWidth: 0.6 });
 
   if (input.showTags) {
-    for (const tag of input.tags ?? []) {
+    const tags = input.tags ?? [];
+    // Overlapping tags (or names running past their range) get their labels on stacked lines.
+    const rows = stackRows(tags.map((tag) => {
+      const x0 = Math.max(plot.x, X(tag.from)), x1 = Math.min(plot.x + plot.w, X(tag.to));
+      return x1 <= x0 ? { start: 0, end: 0 } : { start: x0, end: Math.max(x1, x0 + 6 + labelWidth(tag.name, 9.5)) };
+    }));
+    for (const [k, tag] of tags.entries()) {
       const x0 = Math.max(plot.x, X(tag.from)), x1 = Math.min(plot.x + plot.w, X(tag.to));
       if (x1 <= x0) continue;
       items.push({ t: 'rect', x: r2(x0), y: plot.y + plot.h - 7, w: r2(x1 - x0), h: 7, fill: tag.colour, opacity: 0.85, clip: true, data: { layer: 'tag' } });
-      items.push({ t: 'text', x: r2(x0 + 3), y: plot.y + plot.h - 11, text: tag.name, size: 9.5, anchor: 'start', fill: pal.ink, italic: true, clip: true });
+      items.push({ t: 'text', x: r2(x0 + 3), y: plot.y + plot.h - 11 - rows[k] * 12, text: tag.name, size: 9.5, anchor: 'start', fill: pal.ink, italic: true, clip: true });
     }
   }
 

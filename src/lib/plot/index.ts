@@ -10,3 +10,4 @@ export * from './svg';
 export * from './data-export';
 export * from './escape-layout';
 export * from './compare';
+export * from './stack-rows';
