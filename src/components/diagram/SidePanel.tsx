@@ -26,11 +26,11 @@ function StateTable({ names, x, projection }: { names: readonly string[]; x: rea
   );
 }
 
-function EigenTable({ values }: { values?: readonly Eigenvalue[] }) {
+function EigenTable({ values, testId }: { values?: readonly Eigenvalue[]; testId?: string }) {
   if (!values?.length) return <p className="dg-muted">Eigenvalues were not stored for this point.</p>;
   const sorted = [...values].sort((a, b) => b.re - a.re);
   return (
-    <table className="dg-kv">
+    <table className="dg-kv" data-testid={testId}>
       <caption>Eigenvalues of the Jacobian (largest real part first)</caption>
       <thead><tr><th scope="col">Real part</th><th scope="col">Imaginary part</th></tr></thead>
       <tbody>{sorted.map((e, i) => <tr key={i} className={e.re > 0 ? 'is-positive' : ''}><td className="num">{formatValue(e.re, 8)}</td><td className="num">{formatValue(e.im, 8)}</td></tr>)}</tbody>
@@ -38,8 +38,15 @@ function EigenTable({ values }: { values?: readonly Eigenvalue[] }) {
   );
 }
 
+/** Eigenvalues stored in a special point's evidence (the classifier records them there), if any. */
+function evidenceEigenvalues(evidence: Record<string, unknown>): Eigenvalue[] | undefined {
+  const v = evidence.eigenvalues;
+  return Array.isArray(v) && v.every((e) => typeof e?.re === 'number' && typeof e?.im === 'number') ? v as Eigenvalue[] : undefined;
+}
+
 function Evidence({ evidence }: { evidence: Record<string, unknown> }) {
-  const rest = Object.entries(evidence).filter(([k]) => k !== 'reason');
+  const shownApart = evidenceEigenvalues(evidence) ? ['reason', 'eigenvalues'] : ['reason'];
+  const rest = Object.entries(evidence).filter(([k]) => !shownApart.includes(k));
   if (!rest.length) return null;
   const show = (v: unknown): string => typeof v === 'number' ? formatValue(v, 8) : Array.isArray(v) ? v.map(show).join(', ') : typeof v === 'object' && v ? JSON.stringify(v) : String(v);
   return (
@@ -134,6 +141,7 @@ export function SidePanel({ diagram, projection, selection, regimes, escapeGraph
         <p className="dg-reason" data-testid="special-reason">{sp.evidence.reason}</p>
         {sp.note ? <p className="dg-warn">{sp.note}</p> : null}
         <StateTable names={diagram.variables} x={sp.x} projection={projection} />
+        {evidenceEigenvalues(sp.evidence) ? <EigenTable values={evidenceEigenvalues(sp.evidence)} testId="special-eigenvalues" /> : null}
         <Evidence evidence={sp.evidence} />
       </>
     ) : null;
