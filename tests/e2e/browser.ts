@@ -1,6 +1,6 @@
 /** Shared Chromium launcher for browser tests: Debian's /usr/bin/chromium through playwright-core. */
-import { chromium, type Browser } from 'playwright-core';
-import { mkdirSync } from 'node:fs';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 
 export const BASE_URL = (process.env.TEST_BASE_URL ?? 'http://127.0.0.1:4322').replace(/\/$/, '');
@@ -28,11 +28,28 @@ export function screenshotPath(name: string): string {
   return join(SCREENSHOT_DIR, `${name}.png`);
 }
 
+/** The invented demo accounts that the seed creates (seeds/demo-accounts.json). */
+export interface DemoAccount { email: string; password: string; role: string; displayName: string }
+const demoAccounts = (JSON.parse(readFileSync('seeds/demo-accounts.json', 'utf8')) as { users: DemoAccount[] }).users;
+export function demoAccount(role: 'owner' | 'modeler' | 'reviewer' | string): DemoAccount {
+  const found = demoAccounts.find((u) => u.role === role);
+  if (!found) throw new Error(`no demo account with role ${role}`);
+  return found;
+}
+
+/** Waits until every island on the page has hydrated (Astro drops the ssr attribute then). */
+export async function hydrated(page: Page): Promise<void> {
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout: 30_000 });
+}
+
 /** Signs in through the real form and waits until the app has sent the browser on. */
-export async function signIn(page: import('playwright-core').Page, email: string, password: string, next = '/'): Promise<void> {
-  await page.goto(`${BASE_URL}/sign-in?next=${encodeURIComponent(next)}`);
+export async function signIn(page: Page, email: string, password: string, next?: string): Promise<void> {
+  await page.goto(`${BASE_URL}/sign-in${next ? `?next=${encodeURIComponent(next)}` : ''}`);
+  await hydrated(page);
   await page.getByLabel('E-mail address').fill(email);
   await page.getByLabel('Password').fill(password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((url) => url.pathname !== '/sign-in');
+  await Promise.all([
+    page.waitForURL((u) => u.pathname !== '/sign-in', { timeout: 20_000 }),
+    page.getByRole('button', { name: 'Sign in' }).click(),
+  ]);
 }

@@ -6,15 +6,10 @@
  * API, and comments on the run. Every page built for the issue is screenshotted in both themes into
  * the git-ignored screenshots/ folder.
  */
-import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { BASE_URL, launchBrowser, screenshotPath } from './browser.ts';
+import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, signIn } from './browser.ts';
 
-const demo = JSON.parse(readFileSync('seeds/demo-accounts.json', 'utf8')) as {
-  users: { email: string; password: string; role: string }[];
-};
-const account = (role: string) => demo.users.find((u) => u.role === role)!;
 
 let browser: Browser;
 beforeAll(async () => {
@@ -28,18 +23,8 @@ async function signedIn(role: string): Promise<{ context: BrowserContext; page: 
   const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, colorScheme: 'light' });
   const page = await context.newPage();
   page.on('pageerror', (e) => console.error(`[${role} page error]`, e.message));
-  await page.goto(`${BASE_URL}/sign-in`);
-  await hydrated(page);
-  await page.getByLabel('E-mail address').fill(account(role).email);
-  await page.getByLabel('Password').fill(account(role).password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((u) => u.pathname !== '/sign-in');
+  await signIn(page, demoAccount(role).email, demoAccount(role).password);
   return { context, page };
-}
-
-/** Waits until every island on the page has hydrated (Astro drops the ssr attribute then). */
-async function hydrated(page: Page) {
-  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout: 30_000 });
 }
 
 /** Full-page screenshots in the light and the dark theme (the layout's toggle sets data-theme). */

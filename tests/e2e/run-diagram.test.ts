@@ -17,10 +17,8 @@ import { SPECIAL_LABEL } from '../../src/lib/plot/markers';
 import { splitAllRuns } from '../../src/lib/plot/runs';
 import { formatValue } from '../../src/lib/plot/ticks';
 import type { RegimeBand } from '../../src/lib/regimes/types';
-import { BASE_URL, launchBrowser, screenshotPath } from './browser.ts';
+import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, signIn } from './browser.ts';
 
-const demo = JSON.parse(readFileSync('seeds/demo-accounts.json', 'utf8')) as { users: { email: string; password: string; role: string }[] };
-const account = (role: string) => demo.users.find((u) => u.role === role)!;
 
 interface ApiResult { result: { diagram: Diagram; regimes: RegimeBand[] | { regimes?: RegimeBand[] } } }
 interface ApiTag { id: number; from: number; to: number; name: string; colour: string; note: string }
@@ -38,17 +36,8 @@ async function signedIn(role: string): Promise<{ context: BrowserContext; page: 
   const context = await browser.newContext({ viewport: { width: 1360, height: 1000 }, colorScheme: 'light', acceptDownloads: true });
   const page = await context.newPage();
   page.on('pageerror', (e) => console.error(`[${role} page error]`, e.message));
-  await page.goto(`${BASE_URL}/sign-in`);
-  await hydrated(page);
-  await page.getByLabel('E-mail address').fill(account(role).email);
-  await page.getByLabel('Password').fill(account(role).password);
-  await Promise.all([page.waitForURL((u) => u.pathname !== '/sign-in', { timeout: 20_000 }), page.getByRole('button', { name: 'Sign in' }).click()]);
+  await signIn(page, demoAccount(role).email, demoAccount(role).password);
   return { context, page };
-}
-
-/** Every island hydrated (Astro drops the ssr attribute then). */
-async function hydrated(page: Page) {
-  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout: 30_000 });
 }
 
 async function openRun(page: Page) {
