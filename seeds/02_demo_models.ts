@@ -88,7 +88,8 @@ export async function seed(knex: Knex): Promise<void> {
     const checked = checkDocument(variant.document);
     const settings = {};
     const cacheKey = resultCacheKey(checked.hash, settings, ENGINE_VERSION);
-    let result: { id: number; regimes: string } | null = await knex('results').where({ cache_key: cacheKey }).first('id', 'regimes') ?? null;
+    let result: { id: number; regimes: string; compute_ms: number } | null =
+      (await knex('results').where({ cache_key: cacheKey }).first('id', 'regimes', 'compute_ms')) ?? null;
     if (!result) {
       try {
         const out = computeInChild(checked.text, settings);
@@ -97,7 +98,7 @@ export async function seed(knex: Knex): Promise<void> {
           preview: out.previewJson, preview_points: out.previewPoints,
           branch_count: out.branchCount, point_count: out.pointCount, special_point_count: out.specialPointCount, compute_ms: out.computeMs,
         });
-        result = { id, regimes: out.regimesJson };
+        result = { id, regimes: out.regimesJson, compute_ms: out.computeMs };
       } catch (e) {
         // Never block set-up on the engine: the run is queued instead and the worker computes it on start.
         console.warn(`[seed] computing "${variant.name}" here failed (${(e as Error).message.split('\n')[0]}); queued it for the worker instead`);
@@ -118,7 +119,8 @@ export async function seed(knex: Knex): Promise<void> {
       };
       const [runId] = await trx('runs').insert(result
         ? { ...base, status: 'done', progress: 1, phrase: 'finished (computed by the demo seed)', attempts: 1, result_id: result.id,
-            started_at: trx.raw('NOW(3)'), finished_at: trx.raw('NOW(3)') }
+            // The run took as long as the seed's computation did, so the runs list shows a real duration.
+            started_at: trx.raw('NOW(3) - INTERVAL ? MICROSECOND', [Math.round(Number(result.compute_ms) * 1000)]), finished_at: trx.raw('NOW(3)') }
         : { ...base, status: 'queued', phrase: 'waiting for a worker (queued by the demo seed)' });
       // Tags follow the automatic bands where there are any, so the demo shows both layers together.
       const bands: { from: number; to: number; regime: string }[] = result ? (JSON.parse(result.regimes).regimes ?? []) : [];
