@@ -24,8 +24,10 @@ import { resultCacheKey } from '../src/lib/server/runs/cache-key.ts';
 import { ENGINE_VERSION } from '../src/lib/atlas/engine-version.ts';
 
 const element = { variable: 'P', rate: 'a - b * P + P^8 / (1 + P^8)', parameters: { a: 0.05, b: 0.6 } };
-// Up to 1.5 so each variant shows all three coupling bands (strong begins near 0.52–1.12 in these variants).
-const sweep = { parameter: 'beta', from: 0, to: 1.5 };
+// Up to 1.2: the two-way variant reaches its strong band (from about beta = 0.52) and the one-way
+// variants show their long intermediate band; a width of at most 1.2 keeps the engine's parameter
+// step (width / 600) under 0.002, so special points that close are not stepped over (docs/numerics.md).
+const sweep = { parameter: 'beta', from: 0, to: 1.2 };
 const coupling = { parameter: 'beta', value: 0, term: 'source - target' };
 
 export const DEMO_VARIANTS = [
