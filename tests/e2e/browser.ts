@@ -53,3 +53,16 @@ export async function signIn(page: Page, email: string, password: string, next?:
     page.getByRole('button', { name: 'Sign in' }).click(),
   ]);
 }
+
+/** Full-page screenshots in the light and the dark theme (the layout's toggle sets data-theme and fires bm-theme-change). */
+export async function shootBothThemes(page: Page, name: string): Promise<void> {
+  for (const theme of ['light', 'dark'] as const) {
+    await page.evaluate((t) => {
+      document.documentElement.dataset.theme = t;
+      window.dispatchEvent(new CustomEvent('bm-theme-change', { detail: t }));
+    }, theme);
+    await page.waitForTimeout(250);
+    await page.screenshot({ path: screenshotPath(`${name}-${theme}`), fullPage: true });
+  }
+  await page.evaluate(() => { document.documentElement.dataset.theme = 'light'; });
+}

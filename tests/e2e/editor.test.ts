@@ -8,7 +8,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, signIn } from './browser.ts';
+import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, shootBothThemes, signIn } from './browser.ts';
 
 
 let browser: Browser;
@@ -27,18 +27,6 @@ async function signedIn(role: string): Promise<{ context: BrowserContext; page: 
   return { context, page };
 }
 
-/** Full-page screenshots in the light and the dark theme (the layout's toggle sets data-theme). */
-async function shootBothThemes(page: Page, name: string) {
-  for (const theme of ['light', 'dark'] as const) {
-    await page.evaluate((t) => {
-      document.documentElement.dataset.theme = t;
-      window.dispatchEvent(new CustomEvent('bm-theme-change', { detail: t }));
-    }, theme);
-    await page.waitForTimeout(150);
-    await page.screenshot({ path: screenshotPath(`${name}-${theme}`), fullPage: true });
-  }
-  await page.evaluate(() => { document.documentElement.dataset.theme = 'light'; });
-}
 
 const rate = 'a - b * P + P^8 / (1 + P^8)';
 let modelPath = '';

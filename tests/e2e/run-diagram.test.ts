@@ -17,7 +17,7 @@ import { SPECIAL_LABEL } from '../../src/lib/plot/markers';
 import { splitAllRuns } from '../../src/lib/plot/runs';
 import { formatValue } from '../../src/lib/plot/ticks';
 import type { RegimeBand } from '../../src/lib/regimes/types';
-import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, signIn } from './browser.ts';
+import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, shootBothThemes, signIn } from './browser.ts';
 
 
 interface ApiResult { result: { diagram: Diagram; regimes: RegimeBand[] | { regimes?: RegimeBand[] } } }
@@ -44,22 +44,6 @@ async function openRun(page: Page) {
   await page.goto(`${BASE_URL}/runs/${runId}`);
   await hydrated(page);
   await page.waitForSelector('[data-testid=diagram-view]:not([data-drawn-points="0"])', { timeout: 30_000 });
-}
-
-/** Screenshots in the light and the dark theme (the layout's toggle sets data-theme and fires bm-theme-change). */
-async function shootBothThemes(page: Page, name: string) {
-  for (const theme of ['light', 'dark'] as const) {
-    await page.evaluate((t) => {
-      document.documentElement.dataset.theme = t;
-      window.dispatchEvent(new CustomEvent('bm-theme-change', { detail: t }));
-    }, theme);
-    await page.waitForTimeout(250);
-    await page.screenshot({ path: screenshotPath(`${name}-${theme}`), fullPage: true });
-  }
-  await page.evaluate(() => {
-    document.documentElement.dataset.theme = 'light';
-    window.dispatchEvent(new CustomEvent('bm-theme-change', { detail: 'light' }));
-  });
 }
 
 async function download(page: Page, testId: string): Promise<string> {
