@@ -1,28 +1,9 @@
-import { spawn } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { runCli, scratchFiles } from './run-cli';
 import { cubicNetwork, symmetricPairValues } from '../lib/regimes/fixtures';
 
-const dir = mkdtempSync(join(tmpdir(), 'atlas-regimes-'));
-
-function run(args: string[]): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', 'src/cli/atlas.ts', ...args], { timeout: 90_000 });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.setEncoding('utf8').on('data', (c: string) => (stdout += c));
-    child.stderr.setEncoding('utf8').on('data', (c: string) => (stderr += c));
-    child.on('close', (code) => resolve({ code, stdout, stderr }));
-  });
-}
-
-function file(name: string, content: unknown): string {
-  const path = join(dir, name);
-  writeFileSync(path, JSON.stringify(content));
-  return path;
-}
+const run = runCli;
+const { file } = scratchFiles('atlas-regimes-');
 
 const R = 0.1;
 const pair = cubicNetwork({ r: R, nodes: ['left', 'right'], links: [{ from: 'left', to: 'right', twoWay: true }] });

@@ -1,28 +1,10 @@
-import { spawn } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { runCli, scratchFiles } from './run-cli';
 
-const dir = mkdtempSync(join(tmpdir(), 'atlas-cli-'));
-
-/** Runs the CLI as `npm run atlas` does (node --import tsx src/cli/atlas.ts), without blocking the test worker. */
-function run(args: string[]): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', 'src/cli/atlas.ts', ...args], { timeout: 90_000 });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.setEncoding('utf8').on('data', (c: string) => (stdout += c));
-    child.stderr.setEncoding('utf8').on('data', (c: string) => (stderr += c));
-    child.on('close', (code) => resolve({ code, stdout, stderr }));
-  });
-}
-
-function file(name: string, content: unknown): string {
-  const path = join(dir, name);
-  writeFileSync(path, typeof content === 'string' ? content : JSON.stringify(content));
-  return path;
-}
+const run = runCli;
+const { dir, file } = scratchFiles('atlas-cli-');
 
 const lakes = {
   format: 'brinkmap/network-1',
