@@ -77,24 +77,8 @@ export function arcPoint(
   // Cubic Hermite interpolation of the arc from the end points and their unit tangents: an O(len^4)
   // guess, and its derivative as the hyperplane normal, so the trial hyperplane cuts the traced arc
   // transversally (a chord guess can land on a crossing branch near a branch point).
-  const u2 = u * u;
-  const u3 = u2 * u;
-  const h00 = 2 * u3 - 3 * u2 + 1;
-  const h10 = u3 - 2 * u2 + u;
-  const h01 = -2 * u3 + 3 * u2;
-  const h11 = u3 - u2;
-  const d00 = 6 * u2 - 6 * u;
-  const d10 = 3 * u2 - 4 * u + 1;
-  const d01 = -6 * u2 + 6 * u;
-  const d11 = 3 * u2 - 2 * u;
-  const guess = new Float64Array(n + 1);
-  const d = new Float64Array(n + 1);
-  for (let i = 0; i <= n; i++) {
-    guess[i] = h00 * a.y[i] + h10 * len * a.t[i] + h01 * b.y[i] + h11 * len * b.t[i];
-    d[i] = d00 * a.y[i] + d10 * len * a.t[i] + d01 * b.y[i] + d11 * len * b.t[i];
-  }
-  const dn = Math.hypot(...d);
-  for (let i = 0; i <= n; i++) d[i] /= dn;
+  const guess = hermite(a, b, u);
+  const d = hermiteTangent(a, b, u);
   let c = 0;
   for (let i = 0; i <= n; i++) c += d[i] * guess[i];
   const res = correct(system, guess, d, c, ws, { residualTolerance: o.residualTolerance, stepTolerance: o.stepTolerance, maxIterations: 20, maxDisplacement: 0.1 * len });
