@@ -3,21 +3,11 @@
  * Exit codes: 0 done (numerical trouble is reported in the output's diagnostics), 2 invalid input
  * (one line on stderr naming the field), 1 unexpected internal error.
  */
-import { readFileSync, writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { toTraceJson, traceDiagram } from '../lib/atlas/index.js';
-import { compileModelJson, ModelError } from '../lib/model/index.js';
+import { ModelError } from '../lib/model/index.js';
 import { labelRegimes, type RegimeBand } from '../lib/regimes/index.js';
-import type { CompiledSystem } from '../lib/model/index.js';
-
-/** Bad input: message is one line naming the field. */
-class UsageError extends Error {}
-
-interface Command {
-  readonly summary: string;
-  readonly help: string;
-  run(argv: string[]): void;
-}
+import { compile, emit, numberOption, readModel, UsageError, type Command } from './cli-common.js';
 
 const TRACE_HELP = `Usage: npm run --silent atlas -- trace MODEL.json [--from P] [--to P] [--out FILE]
 
@@ -61,56 +51,7 @@ Options:
 Exit codes: 0 done, 2 invalid input (message names the field), 1 internal error.
 Results are indicative; defer to domain experts and local regulation.`;
 
-const HELP = `Usage: npm run --silent atlas -- <command> [options]
 
-Commands:
-${'  trace      equilibrium branches and bifurcations of a model document'}
-${'  regimes    weak / intermediate / strong coupling bands of a model document, as a table'}
-
-Run a command with --help for its options.`;
-
-function readModel(path: string | undefined): unknown {
-  if (path === undefined) throw new UsageError('MODEL.json: missing model file argument (see --help)');
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (e) {
-    throw new UsageError(`MODEL.json: cannot read '${path}' (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  try {
-    return JSON.parse(text);
-  } catch (e) {
-    throw new UsageError(`MODEL.json: '${path}' is not valid JSON (${(e as Error).message.split('\n')[0]})`);
-  }
-}
-
-function numberOption(name: string, value: string | undefined): number | undefined {
-  if (value === undefined) return undefined;
-  const v = Number(value);
-  if (value.trim() === '' || !Number.isFinite(v)) throw new UsageError(`--${name}: expected a finite number, got '${value}'`);
-  return v;
-}
-
-function compile(model: unknown, from: number | undefined, to: number | undefined): CompiledSystem {
-  const base = compileModelJson(model);
-  if (from === undefined && to === undefined) return base;
-  const sweep = { from: from ?? base.sweep.from, to: to ?? base.sweep.to };
-  if (sweep.from === sweep.to) throw new UsageError(`--${to !== undefined ? 'to' : 'from'}: the sweep needs from != to (both are ${sweep.from})`);
-  return compileModelJson(model, { sweep });
-}
-
-function emit(json: unknown, out: string | undefined): void {
-  const text = `${JSON.stringify(json)}\n`;
-  if (out === undefined) {
-    process.stdout.write(text);
-    return;
-  }
-  try {
-    writeFileSync(out, text);
-  } catch (e) {
-    throw new UsageError(`--out: cannot write '${out}' (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-}
 
 const trace: Command = {
   summary: 'equilibrium branches and bifurcations of a model document',
@@ -156,7 +97,7 @@ function num(v: number): string {
 }
 
 const regimes: Command = {
-  summary: 'coupling-regime bands as a table',
+  summary: 'weak / intermediate / strong coupling bands of a model document, as a table',
   help: REGIMES_HELP,
   run(argv) {
     const { values, positionals } = parseArgs({
@@ -178,19 +119,28 @@ const regimes: Command = {
   },
 };
 
-/** Subcommands; each parses its own options. */
-const commands: Record<string, Command> = { trace, regimes };
+/** Subcommands; each parses its own options. A new command lives in its own file and adds one line here. */
+const commands: Record<string, Command> = {
+  trace,
+  regimes,
+};
 
-function main(argv: string[]): number {
+function helpText(): string {
+  const width = Math.max(...Object.keys(commands).map((k) => k.length));
+  const list = Object.entries(commands).map(([name, c]) => `  ${name.padEnd(width)}  ${c.summary}`).join('\n');
+  return `Usage: npm run --silent atlas -- <command> [options]\n\nCommands:\n${list}\n\nRun a command with --help for its options.`;
+}
+
+async function main(argv: string[]): Promise<number> {
   const [name, ...rest] = argv;
   try {
     if (name === undefined || name === '--help' || name === '-h' || name === 'help') {
-      process.stdout.write(`${HELP}\n`);
+      process.stdout.write(`${helpText()}\n`);
       return name === undefined ? 2 : 0;
     }
     const cmd = commands[name];
     if (!cmd) throw new UsageError(`command: unknown command '${name}' (commands: ${Object.keys(commands).join(', ')})`);
-    cmd.run(rest);
+    await cmd.run(rest);
     return 0;
   } catch (e) {
     if (e instanceof UsageError || e instanceof ModelError) {
@@ -215,4 +165,4 @@ process.stdout.on('error', (e: NodeJS.ErrnoException) => {
   if (e.code === 'EPIPE') process.exit(process.exitCode ?? 0);
   throw e;
 });
-process.exitCode = main(process.argv.slice(2));
+process.exitCode = await main(process.argv.slice(2));
