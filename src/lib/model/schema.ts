@@ -49,6 +49,20 @@ export const couplingSchema = z
   .object({ parameter: z.string(), value: finite, term: expression.default(DEFAULT_COUPLING_TERM) })
   .strict();
 
+const positive = finite.positive();
+
+/**
+ * Additive noise on every state variable, dx = F dt + sigma dW (docs/noise.md): one amplitude for all,
+ * optionally overridden per node (network form) or per variable (ODE form). Optional: documents
+ * without it mean what they meant before and keep their hash.
+ */
+export const networkNoiseSchema = z
+  .object({ amplitude: positive, perNode: z.record(recordKey, positive).optional() })
+  .strict();
+export const odeNoiseSchema = z
+  .object({ amplitude: positive, perVariable: z.record(recordKey, positive).optional() })
+  .strict();
+
 export const networkDocumentObject = z
   .object({
     format: z.literal('brinkmap/network-1'),
@@ -59,6 +73,7 @@ export const networkDocumentObject = z
     coupling: couplingSchema,
     sweep: sweepSchema,
     start: startList.optional(),
+    noise: networkNoiseSchema.optional(),
   })
   .strict();
 
@@ -71,6 +86,7 @@ export const odeDocumentObject = z
     rates: z.record(recordKey, expression),
     sweep: sweepSchema,
     start: startList.optional(),
+    noise: odeNoiseSchema.optional(),
   })
   .strict();
 
@@ -83,6 +99,7 @@ export const KNOWN_FIELDS: Readonly<Record<string, readonly string[]>> = {
   links: Object.keys(linkSchema.shape),
   coupling: Object.keys(couplingSchema.shape),
   sweep: Object.keys(sweepSchema.shape),
+  noise: [...new Set([...Object.keys(networkNoiseSchema.shape), ...Object.keys(odeNoiseSchema.shape)])],
 };
 
 type NetworkShape = z.output<typeof networkDocumentObject>;
@@ -200,6 +217,9 @@ function checkNetwork(doc: NetworkShape, add: Add): void {
   }
   checkSweepRange(doc.sweep, add);
   checkStart(doc.start, doc.nodes.length, 'node', add);
+  for (const id of Object.keys(doc.noise?.perNode ?? {})) {
+    if (!index.has(id)) add(['noise', 'perNode', id], `unknown node '${id}' (nodes: ${nodeList})`);
+  }
 }
 
 function checkOde(doc: OdeShape, add: Add): void {
@@ -236,4 +256,7 @@ function checkOde(doc: OdeShape, add: Add): void {
   }
   checkSweepRange(doc.sweep, add);
   checkStart(doc.start, doc.variables.length, 'variable', add);
+  for (const v of Object.keys(doc.noise?.perVariable ?? {})) {
+    if (!doc.variables.includes(v)) add(['noise', 'perVariable', v], `not a declared variable (variables: ${listNames(doc.variables)})`);
+  }
 }

@@ -48,3 +48,22 @@ describe('documentHash', () => {
     expect(documentHash(threeLakes)).toMatch(/^[0-9a-f]{64}$/);
   });
 });
+
+describe('documentHash with the optional noise field', () => {
+  // Pinned by running this same computation on the commit before `noise` existed (c28e9cf); a
+  // document without `noise` must keep its hash so stored versions and cached results stay valid.
+  const HASH_BEFORE_NOISE = '940470832d4fbebf7fb4ee5b06ecf08141437f936a784a2f0c2c07a004e768b4';
+
+  it('leaves the hash of a document without noise as it was before the field existed', () => {
+    const v = validateModelDocument(threeLakes);
+    if (!v.ok) throw new Error('fixture invalid');
+    expect('noise' in v.document).toBe(false);
+    expect(documentHash(v.document)).toBe(HASH_BEFORE_NOISE);
+  });
+
+  it('changes the hash when noise is given', () => {
+    const v = validateModelDocument({ ...copy(threeLakes), noise: { amplitude: 0.1 } });
+    if (!v.ok) throw new Error(JSON.stringify(v.issues));
+    expect(documentHash(v.document)).not.toBe(HASH_BEFORE_NOISE);
+  });
+});

@@ -185,3 +185,31 @@ describe('validateModelDocument names the path of every problem', () => {
     expect(issuesOf(d)).toContainEqual({ path: 'links', message: 'at most 4096 links are allowed, got 4097' });
   });
 });
+
+describe('validateModelDocument checks the optional noise field', () => {
+  it('accepts an amplitude with per-node (network) and per-variable (ODE) overrides', () => {
+    const nodeId = copy(threeLakes).nodes[0].id;
+    expect(validateModelDocument(network((d) => { d.noise = { amplitude: 0.1, perNode: { [nodeId]: 0.05 } }; })).ok).toBe(true);
+    expect(validateModelDocument(ode((d) => { d.noise = { amplitude: 0.2, perVariable: { x: 0.1 } }; })).ok).toBe(true);
+  });
+
+  it('refuses a sigma that is zero, negative or not finite, naming the field', () => {
+    expect(issuesOf(network((d) => { d.noise = { amplitude: 0 }; })).map((i) => i.path)).toContain('noise.amplitude');
+    expect(issuesOf(network((d) => { d.noise = { amplitude: -1 }; })).map((i) => i.path)).toContain('noise.amplitude');
+    const nodeId = copy(threeLakes).nodes[0].id;
+    expect(issuesOf(network((d) => { d.noise = { amplitude: 0.1, perNode: { [nodeId]: -0.1 } }; }))[0].path).toBe(`noise.perNode.${nodeId}`);
+  });
+
+  it('refuses per-node keys that are not nodes and per-variable keys that are not variables', () => {
+    const a = issuesOf(network((d) => { d.noise = { amplitude: 0.1, perNode: { nowhere: 0.1 } }; }));
+    expect(a[0].path).toBe('noise.perNode.nowhere');
+    expect(a[0].message).toMatch(/unknown node 'nowhere'/);
+    const b = issuesOf(ode((d) => { d.noise = { amplitude: 0.1, perVariable: { w: 0.1 } }; }));
+    expect(b[0].path).toBe('noise.perVariable.w');
+  });
+
+  it('refuses the other form\'s override key and a missing amplitude', () => {
+    expect(issuesOf(network((d) => { d.noise = { amplitude: 0.1, perVariable: {} }; }))[0].message).toMatch(/perVariable/);
+    expect(issuesOf(network((d) => { d.noise = {}; }))[0].path).toBe('noise.amplitude');
+  });
+});
