@@ -1,0 +1,3 @@
+export * from './types';
+export { resolveNoise, sigmaOf, NoiseSettingError } from './noise-spec';
+export { noiseGraphAt, type NoiseGraphFailure } from './graph-at';
