@@ -30,7 +30,7 @@ export interface EscapeGraphResult {
 /** Integrations still allowed; decremented by buildEscapeGraph. */
 export interface IntegrationBudget { left: number }
 
-type GraphSettings = Pick<RegimeOptions,
+export type GraphSettings = Pick<RegimeOptions,
   'manifoldOffset' | 'settledSpeed' | 'relativeTolerance' | 'absoluteTolerance' | 'timeCap' | 'maxSteps' | 'stateBound' |
   'arrivalFraction' | 'arrivalRadius' | 'slowSpeedFraction' | 'slowExclusion' |
   'newtonTolerance' | 'newtonMaxIterations' | 'duplicateTolerance' | 'hyperbolicTolerance'>;
@@ -56,22 +56,9 @@ export function buildEscapeGraph(
   settings: GraphSettings,
   budget: IntegrationBudget = { left: Infinity },
 ): EscapeGraphResult {
-  const n = system.dimension;
   const diagnostics: Diagnostic[] = [];
-  const pattern = (x: ArrayLike<number>): NodeState[] => roles ? patternOf(x, roles) : Array.from({ length: n }, () => 'base' as const);
-  const stable = equilibria.filter(isStable);
-  const states: StableState[] = stable.map((e) => ({ x: e.x.slice(), pattern: pattern(e.x) }));
-  const everyPoint = equilibria.map((e) => e.x);
-  const radii: number[] = [];
-  const radiusOf = (x: number[]) => {
-    let nearest = Infinity;
-    for (const y of everyPoint) {
-      const d = maxDist(x, y);
-      if (d > 0 && d < nearest) nearest = d;
-    }
-    return Math.min(settings.arrivalRadius * (1 + maxAbs(x)), settings.arrivalFraction * nearest);
-  };
-  for (const s of states) radii.push(radiusOf(s.x));
+  const targets = branchTargets(system, equilibria, roles, settings);
+  const { states } = targets;
 
   const neutral = equilibria.filter((e) => e.neutral > 0);
   if (neutral.length > 0) {
@@ -86,53 +73,12 @@ export function buildEscapeGraph(
     if (budget.left < 2) { truncated = true; break; }
     budget.left -= 2;
     const v = saddle.unstableVector!;
-    const step = settings.manifoldOffset * (1 + maxAbs(saddle.x));
     const found: ManifoldBranch[] = [];
     let failed = false;
-    for (const sign of [1, -1]) {
-      const x0 = saddle.x.map((c, i) => c + sign * step * v[i]);
-      const samples: { t: number; x: number[] }[] = [];
-      let reached = -1;
-      let settled = false;
-      const fx = new Float64Array(n);
-      const xx = new Float64Array(n);
-      const flow = integrateFlow(system, p, x0, settings, (t, x) => {
-        samples.push({ t, x: x.slice() });
-        xx.set(x);
-        system.rates(xx, p, fx);
-        for (let k = 0; k < states.length; k++) {
-          if (maxDist(x, states[k].x) < radii[k] && approaching(x, states[k].x, fx)) { reached = k; return true; }
-        }
-        if (maxAbs(fx) < settings.settledSpeed && maxDist(x, saddle.x) > 100 * step) { settled = true; return true; }
-        return false;
-      });
-      if (reached < 0 && (settled || flow.end === 'time-cap' || flow.end === 'step-cap')) {
-        const polished = newtonAtFixedParameter(system, flow.x, p, settings.newtonTolerance, settings.newtonMaxIterations);
-        if (polished.converged) {
-          const known = states.findIndex((s) => sameState(s.x, polished.x, settings.duplicateTolerance));
-          if (known >= 0) reached = known;
-          else {
-            const e = analyseEquilibrium(system, polished.x, p, polished.residual, settings.hyperbolicTolerance);
-            if (isStable(e)) {
-              states.push({ x: e.x, pattern: pattern(e.x) });
-              everyPoint.push(e.x);
-              radii.push(radiusOf(e.x));
-              reached = states.length - 1;
-              diagnostics.push({ level: 'warning', code: 'state-not-in-diagram', p,
-                message: `the unstable manifold of the saddle at [${saddle.x.map(fmt).join(', ')}] reached a stable state [${e.x.map(fmt).join(', ')}] that no branch of the diagram passes through at ${system.parameter} = ${fmt(p)}; it was added to the escape graph` });
-            }
-          }
-        }
-      }
-      if (reached < 0) {
-        failed = true;
-        diagnostics.push({ level: 'warning', code: 'manifold-unresolved', p,
-          message: `the ${sign > 0 ? '+' : '-'} branch of the unstable manifold of the saddle at [${saddle.x.map(fmt).join(', ')}] (${system.parameter} = ${fmt(p)}) reached no stable state ` +
-            `(${flow.end === 'escaped' ? `left the box |x| <= ${settings.stateBound}` : flow.end === 'failed' ? 'the integrator failed' : flow.end === 'step-cap' ? `step cap ${settings.maxSteps} hit` : `time cap ${settings.timeCap} hit`} at t = ${fmt(flow.t)}); the saddle is left out of the escape graph` });
-        break;
-      }
-      found.push({ reached, time: samples.length ? samples[samples.length - 1].t : 0,
-        slowTime: slowPassageTime(system, p, saddle.x, states[reached].x, samples, settings) });
+    for (const sign of [1, -1] as const) {
+      const b = followBranch(system, p, saddle, sign, targets, settings, diagnostics);
+      if (b.reached < 0) { failed = true; break; }
+      found.push(b);
     }
     if (failed) continue;
     let [a, b] = found;
@@ -145,12 +91,106 @@ export function buildEscapeGraph(
     const tb = countTipped(states[b.reached].pattern);
     if (tb < ta || (tb === ta && b.reached < a.reached)) [a, b] = [b, a];
     edges.push({
-      x: saddle.x.slice(), pattern: pattern(saddle.x), from: a.reached, to: b.reached,
+      x: saddle.x.slice(), pattern: targets.pattern(saddle.x), from: a.reached, to: b.reached,
       eigenvalue: saddle.unstableValue, direction: v.slice(), travelTimes: [a.time, b.time],
     });
     saddleData.push({ equilibrium: saddle, branches: [a, b] });
   }
   return { graph: { p, states, saddles: edges }, saddles: saddleData, diagnostics, truncated };
+}
+
+/** The stable states a manifold branch can arrive at, with their arrival radii; followBranch adds states it discovers. */
+export interface BranchTargets {
+  readonly states: StableState[];
+  readonly radii: number[];
+  readonly everyPoint: number[][];
+  readonly pattern: (x: ArrayLike<number>) => NodeState[];
+}
+
+type TargetSettings = Pick<RegimeOptions, 'arrivalRadius' | 'arrivalFraction'>;
+
+/** Targets for followBranch: the stable equilibria among `equilibria` and their arrival balls (see buildEscapeGraph). */
+export function branchTargets(system: CompiledSystem, equilibria: readonly Equilibrium[], roles: readonly NodeRoles[] | null, settings: TargetSettings): BranchTargets {
+  const n = system.dimension;
+  const pattern = (x: ArrayLike<number>): NodeState[] => roles ? patternOf(x, roles) : Array.from({ length: n }, () => 'base' as const);
+  const states: StableState[] = equilibria.filter(isStable).map((e) => ({ x: e.x.slice(), pattern: pattern(e.x) }));
+  const everyPoint = equilibria.map((e) => e.x);
+  const t: BranchTargets = { states, radii: [], everyPoint, pattern };
+  for (const s of states) t.radii.push(arrivalRadiusOf(s.x, everyPoint, settings));
+  return t;
+}
+
+function arrivalRadiusOf(x: readonly number[], everyPoint: readonly number[][], settings: TargetSettings): number {
+  let nearest = Infinity;
+  for (const y of everyPoint) {
+    const d = maxDist(x, y);
+    if (d > 0 && d < nearest) nearest = d;
+  }
+  return Math.min(settings.arrivalRadius * (1 + maxAbs(x)), settings.arrivalFraction * nearest);
+}
+
+/**
+ * One branch of the unstable manifold of an index-1 saddle: integrated forward from
+ * x_s + sign × manifoldOffset (1 + |x_s|_inf) v until it enters the arrival ball of a target state while
+ * moving towards it, settles, escapes or hits a cap (the rules of buildEscapeGraph). A settled or capped
+ * run is polished by Newton's method; a stable state not yet among the targets is added (warning
+ * state-not-in-diagram). `reached` is -1 when no stable state was reached (warning manifold-unresolved).
+ */
+export function followBranch(
+  system: CompiledSystem,
+  p: number,
+  saddle: Equilibrium,
+  sign: 1 | -1,
+  targets: BranchTargets,
+  settings: GraphSettings,
+  diagnostics: Diagnostic[],
+): ManifoldBranch {
+  const n = system.dimension;
+  const { states, radii, everyPoint } = targets;
+  const v = saddle.unstableVector!;
+  const step = settings.manifoldOffset * (1 + maxAbs(saddle.x));
+  const x0 = saddle.x.map((c, i) => c + sign * step * v[i]);
+  const samples: { t: number; x: number[] }[] = [];
+  let reached = -1;
+  let settled = false;
+  const fx = new Float64Array(n);
+  const xx = new Float64Array(n);
+  const flow = integrateFlow(system, p, x0, settings, (t, x) => {
+    samples.push({ t, x: x.slice() });
+    xx.set(x);
+    system.rates(xx, p, fx);
+    for (let k = 0; k < states.length; k++) {
+      if (maxDist(x, states[k].x) < radii[k] && approaching(x, states[k].x, fx)) { reached = k; return true; }
+    }
+    if (maxAbs(fx) < settings.settledSpeed && maxDist(x, saddle.x) > 100 * step) { settled = true; return true; }
+    return false;
+  });
+  if (reached < 0 && (settled || flow.end === 'time-cap' || flow.end === 'step-cap')) {
+    const polished = newtonAtFixedParameter(system, flow.x, p, settings.newtonTolerance, settings.newtonMaxIterations);
+    if (polished.converged) {
+      const known = states.findIndex((s) => sameState(s.x, polished.x, settings.duplicateTolerance));
+      if (known >= 0) reached = known;
+      else {
+        const e = analyseEquilibrium(system, polished.x, p, polished.residual, settings.hyperbolicTolerance);
+        if (isStable(e)) {
+          states.push({ x: e.x, pattern: targets.pattern(e.x) });
+          everyPoint.push(e.x);
+          radii.push(arrivalRadiusOf(e.x, everyPoint, settings));
+          reached = states.length - 1;
+          diagnostics.push({ level: 'warning', code: 'state-not-in-diagram', p,
+            message: `the unstable manifold of the saddle at [${saddle.x.map(fmt).join(', ')}] reached a stable state [${e.x.map(fmt).join(', ')}] that no branch of the diagram passes through at ${system.parameter} = ${fmt(p)}; it was added to the escape graph` });
+        }
+      }
+    }
+  }
+  if (reached < 0) {
+    diagnostics.push({ level: 'warning', code: 'manifold-unresolved', p,
+      message: `the ${sign > 0 ? '+' : '-'} branch of the unstable manifold of the saddle at [${saddle.x.map(fmt).join(', ')}] (${system.parameter} = ${fmt(p)}) reached no stable state ` +
+        `(${flow.end === 'escaped' ? `left the box |x| <= ${settings.stateBound}` : flow.end === 'failed' ? 'the integrator failed' : flow.end === 'step-cap' ? `step cap ${settings.maxSteps} hit` : `time cap ${settings.timeCap} hit`} at t = ${fmt(flow.t)}); the saddle is left out of the escape graph` });
+    return { reached: -1, time: flow.t, slowTime: 0 };
+  }
+  return { reached, time: samples.length ? samples[samples.length - 1].t : 0,
+    slowTime: slowPassageTime(system, p, saddle.x, states[reached].x, samples, settings) };
 }
 
 /**
