@@ -27,8 +27,8 @@ bm_apt_install() {
   fi
   command -v apt-get >/dev/null 2>&1 || return 1
   bm_log "installing ${pkgs[*]} with apt-get (one-time)"
-  DEBIAN_FRONTEND=noninteractive "${runner[@]}" apt-get update -qq >/dev/null 2>&1 || true
-  DEBIAN_FRONTEND=noninteractive "${runner[@]}" apt-get install -y -qq --no-install-recommends "${pkgs[@]}" >/dev/null
+  DEBIAN_FRONTEND=noninteractive "${runner[@]}" apt-get -o DPkg::Lock::Timeout=600 update -qq >/dev/null 2>&1 || true
+  DEBIAN_FRONTEND=noninteractive "${runner[@]}" apt-get -o DPkg::Lock::Timeout=600 install -y -qq --no-install-recommends "${pkgs[@]}" >/dev/null
 }
 
 # Finds a binary in MARIADB_BIN_DIR, PATH, /usr/sbin or /usr/bin (mysqld-era names as fallback).
