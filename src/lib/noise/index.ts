@@ -1,3 +1,10 @@
 export * from './types';
 export { resolveNoise, sigmaOf, NoiseSettingError } from './noise-spec';
 export { noiseGraphAt, type NoiseGraphFailure } from './graph-at';
+export { isGradient, defaultGradientOptions, type GradientOptions, type GradientTest } from './gradient';
+export { potentialDifference, defaultPotentialOptions, type PotentialOptions, type PotentialDifference } from './potential';
+export { gmam, geometricAction, scaledField, resample, defaultGmamOptions, type DriftField, type GmamOptions, type GmamResult } from './gmam';
+export { barriersAt, stateLabel, saddleLabel, defaultBarrierOptions, type BarrierOptions, type BarriersResult } from './barriers';
+export { eyringKramersPrefactor, DEFAULT_DEGENERACY_TOLERANCE, type PrefactorResult } from './prefactor';
+export { solveEscapeChain, defaultEscapeChainOptions, type ChainTransition, type EscapeChain, type EscapeChainOptions, type EscapeChainResult } from './markov-chain';
+export { predictEscapes, halfwayThresholds, type Prediction, type PredictionOptions, type PredictedRate, type PrefactorKind } from './prediction';
