@@ -1,0 +1,2 @@
+export * from './types';
+export { criticalCoupling, defaultCriticalCouplingOptions } from './critical-coupling';
