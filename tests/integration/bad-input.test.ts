@@ -4,7 +4,8 @@
  * after, so test files running in parallel do not disturb the check).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Client, closeDbAfterAll, db, signedUpClient, uniqueEmail, workspaceWithRoles, type WorkspaceFixture } from './helpers.ts';
+import { Client, closeDbAfterAll, db, signedUpClient, uniqueEmail, workspaceWithRoles, type HttpResult, type WorkspaceFixture } from './helpers.ts';
+import { twoLakes } from './service/fixtures.ts';
 
 closeDbAfterAll(afterAll);
 
@@ -233,5 +234,148 @@ describe('bad input on form pages answers 400 with a message naming the field an
         expect(await footprint()).toEqual(before);
       });
     }
+  }
+});
+
+/**
+ * Hostile documents found by fuzzing the model routes (issue 11): nesting deep enough to overflow
+ * any recursive walk (JSON.parse itself is iterative and takes it), and a lone UTF-16 surrogate,
+ * which MariaDB's JSON columns refuse. Each was a 500; each must be a 400 naming the field.
+ */
+describe('hostile JSON on the model write routes answers 400 naming the field and writes nothing', () => {
+  let modelId: number;
+  const q = () => `workspace=${ws.workspaceId}`;
+
+  beforeAll(async () => {
+    const res = await ws.modeler.post(`/api/models?${q()}`, { name: 'Hostile input target', document: twoLakes() });
+    if (res.status !== 201) throw new Error(`create model: ${res.status} ${res.text}`);
+    modelId = res.body.model.id;
+  }, 60_000);
+
+  /** Models, versions and audit rows of this file's workspace. */
+  async function modelFootprint(): Promise<Record<string, number>> {
+    const count = async (query: any) => Number((await query.count({ n: '*' }))[0].n);
+    return {
+      ...(await footprint()),
+      models: await count(db('models').where({ workspace_id: ws.workspaceId })),
+      versions: await count(db('model_versions').whereIn('model_id', db('models').select('id').where({ workspace_id: ws.workspaceId }))),
+    };
+  }
+
+  /** `depth` nested arrays (2 bytes a level) or objects ({"a": …}, 6 bytes a level) as raw JSON text. */
+  const nestedText = (depth: number, kind: 'array' | 'object') =>
+    kind === 'array' ? '['.repeat(depth) + ']'.repeat(depth) : '{"a":'.repeat(depth) + '0' + '}'.repeat(depth);
+
+  /** A valid body whose document gets one extra raw-JSON field, spliced in as text (JSON.stringify would overflow). */
+  const withDocumentField = (body: Record<string, unknown>, key: string, rawValue: string) => {
+    const text = JSON.stringify(body);
+    const at = text.indexOf('"document":{') + '"document":{'.length;
+    return `${text.slice(0, at)}"${key}":${rawValue},${text.slice(at)}`;
+  };
+
+  const deepCases = [
+    { depth: 50_000, kind: 'array' as const, key: 'start', field: 'document.start' },
+    { depth: 100_000, kind: 'object' as const, key: 'element2', field: 'document.element2.a.a' },
+    { depth: 500_000, kind: 'array' as const, key: 'junk', field: 'document.junk' },
+  ];
+  const writeRoutes = [
+    { name: 'POST /api/models', path: () => `/api/models?${q()}`, body: () => ({ name: 'Never stored', document: twoLakes() }) },
+    { name: 'POST /api/models/[id]/versions', path: () => `/api/models/${modelId}/versions?${q()}`, body: () => ({ document: twoLakes({ a2: 0.07 }), changeNote: 'never stored' }) },
+  ];
+
+  for (const route of writeRoutes) {
+    for (const c of deepCases) {
+      it(`${route.name} with ${c.depth} levels of nested ${c.kind}s in document.${c.key}`, async () => {
+        const before = await modelFootprint();
+        const raw = withDocumentField(route.body(), c.key, nestedText(c.depth, c.kind));
+        const res = await ws.modeler.request('POST', route.path(), { raw, headers: { 'content-type': 'application/json' } });
+        expect(res.status).toBe(400);
+        expect(res.body.error.code).toBe('invalid_input');
+        expect(res.body.error.field).toBe(c.field);
+        expect(res.body.error.message).toContain(`${c.field}: nested more than 32 levels deep`);
+        expect(await modelFootprint()).toEqual(before);
+      });
+    }
+  }
+
+  it('POST /api/models/import with a file nested 400 000 levels deep answers 400 naming the file', async () => {
+    const before = await modelFootprint();
+    const text = JSON.stringify(twoLakes());
+    const raw = `${text.slice(0, -1)},"junk":${nestedText(400_000, 'array')}}`;
+    const res = await ws.modeler.request('POST', `/api/models/import?${q()}`, { raw, headers: { 'content-type': 'application/json' } });
+    expect(res.status).toBe(400);
+    expect(res.body.error.field).toBe('file.junk');
+    expect(res.body.error.message).toContain('file.junk: nested more than 32 levels deep');
+    expect(await modelFootprint()).toEqual(before);
+  });
+
+  it('a document nested just within the cap still reaches the model validator (the cap is not a blanket refusal)', async () => {
+    const res = await ws.modeler.request('POST', `/api/models?${q()}`, {
+      raw: withDocumentField({ name: 'Never stored', document: twoLakes() }, 'junk', nestedText(20, 'array')),
+      headers: { 'content-type': 'application/json' },
+    });
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(/unknown field "junk"|junk/);
+    expect(res.body.error.message).not.toContain('levels deep');
+  });
+
+  const lone = '\ud800lone';
+  const surrogateCases = [
+    { title: 'a model name', method: 'POST', path: () => `/api/models?${q()}`, body: () => ({ name: lone, document: twoLakes() }), field: 'name' },
+    { title: 'a document name', method: 'POST', path: () => `/api/models?${q()}`, body: () => ({ name: 'Fine', document: twoLakes({ name: lone }) }), field: 'document.name' },
+    { title: 'a tag', method: 'POST', path: () => `/api/models?${q()}`, body: () => ({ name: 'Fine', tags: ['ok', 'x\udc00'], document: twoLakes() }), field: 'tags.1' },
+    { title: 'a node id in a new version', method: 'POST', path: () => `/api/models/${modelId}/versions?${q()}`, body: () => ({ document: { ...twoLakes(), nodes: [{ id: 'upper' }, { id: lone }] }, changeNote: 'x' }), field: 'document.nodes.1.id' },
+    { title: 'a change note', method: 'POST', path: () => `/api/models/${modelId}/versions?${q()}`, body: () => ({ document: twoLakes({ a2: 0.07 }), changeNote: lone }), field: 'changeNote' },
+    { title: 'a renamed model', method: 'PATCH', path: () => `/api/models/${modelId}?${q()}`, body: () => ({ name: lone }), field: 'name' },
+    { title: 'a parameter name (a key)', method: 'POST', path: () => `/api/models?${q()}`, body: () => ({ name: 'Fine', document: { ...twoLakes(), element: { variable: 'P', rate: 'P', parameters: { [lone]: 1 } } } }), field: 'document.element.parameters.\ud800lone' },
+  ];
+  for (const c of surrogateCases) {
+    it(`${c.method} with a lone UTF-16 surrogate in ${c.title} answers 400 naming ${c.field}`, async () => {
+      const before = await modelFootprint();
+      const name = (await db('models').where({ id: modelId }).first()).name;
+      const res = await ws.modeler.request(c.method, c.path(), { json: c.body() });
+      expect(res.status).toBe(400);
+      expect(res.body.error.code).toBe('invalid_input');
+      expect(res.body.error.field).toBe(c.field);
+      expect(res.body.error.message).toContain('lone UTF-16 surrogate');
+      expect(await modelFootprint()).toEqual(before);
+      expect((await db('models').where({ id: modelId }).first()).name).toBe(name);
+    });
+  }
+
+  it('POST /api/models/import with a lone surrogate in the file\'s name answers 400 naming file.name', async () => {
+    const before = await modelFootprint();
+    const res = await ws.modeler.request('POST', `/api/models/import?${q()}`, { raw: JSON.stringify(twoLakes({ name: lone })), headers: { 'content-type': 'application/json' } });
+    expect(res.status).toBe(400);
+    expect(res.body.error.field).toBe('file.name');
+    expect(await modelFootprint()).toEqual(before);
+  });
+
+  it('a well-formed astral character (a surrogate pair) is accepted and stored intact', async () => {
+    const name = 'Lakes \u{1F30A} pair';
+    const res = await ws.modeler.post(`/api/models?${q()}`, { name, document: twoLakes({ name }) });
+    expect(res.status).toBe(201);
+    expect((await db('models').where({ id: res.body.model.id }).first()).name).toBe(name);
+  });
+});
+
+describe('error responses carry their standard status text', () => {
+  const cases: { title: string; send: () => Promise<HttpResult>; status: number; text: string }[] = [
+    { title: 'a 400 from a route', send: () => ws.modeler.request('POST', `/api/models?workspace=${ws.workspaceId}`, { json: { name: '' } }), status: 400, text: 'Bad Request' },
+    { title: 'a 401 from the middleware', send: () => new Client().get('/api/models'), status: 401, text: 'Unauthorized' },
+    { title: 'a 404 from a route', send: () => ws.modeler.get(`/api/models/999999999?workspace=${ws.workspaceId}`), status: 404, text: 'Not Found' },
+    { title: 'a 415 from the body parser', send: () => ws.owner.request('POST', '/api/workspaces', { raw: 'x', headers: { 'content-type': 'text/plain' } }), status: 415, text: 'Unsupported Media Type' },
+    { title: 'a 404 page', send: () => ws.modeler.get(`/models/999999999?workspace=${ws.workspaceId}`), status: 404, text: 'Not Found' },
+    { title: 'a 403 page', send: () => ws.reviewer.get(`/models/new?workspace=${ws.workspaceId}`), status: 403, text: 'Forbidden' },
+    { title: 'a 400 form page', send: () => new Client().request('POST', '/sign-in', { form: { email: 'x' } }), status: 400, text: 'Bad Request' },
+    { title: 'a redirect', send: () => new Client().get('/models'), status: 303, text: 'See Other' },
+    { title: 'a page that is fine', send: () => new Client().get('/sign-in'), status: 200, text: 'OK' },
+  ];
+  for (const c of cases) {
+    it(`${c.title} says "${c.status} ${c.text}" on the status line`, async () => {
+      const res = await c.send();
+      expect(res.status).toBe(c.status);
+      expect(res.statusText).toBe(c.text);
+    });
   }
 });

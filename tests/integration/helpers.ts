@@ -17,6 +17,8 @@ export { db };
 
 export interface HttpResult<T = any> {
   status: number;
+  /** The reason phrase of the status line ("Bad Request"). */
+  statusText: string;
   headers: Headers;
   /** Parsed JSON when the response is JSON, else null. */
   body: T;
@@ -79,7 +81,7 @@ export class Client {
     const text = await res.text();
     let parsed: any = null;
     if ((res.headers.get('content-type') ?? '').includes('application/json') && text) parsed = JSON.parse(text);
-    return { status: res.status, headers: res.headers, body: parsed, text };
+    return { status: res.status, statusText: res.statusText, headers: res.headers, body: parsed, text };
   }
 
   get<T = any>(path: string, headers?: Record<string, string>) {

@@ -4,7 +4,9 @@
  * with a fitting status; unexpected exceptions become a logged 500 without internals.
  */
 import type { APIContext, APIRoute } from 'astro';
+import { STATUS_CODES } from 'node:http';
 import { ZodError, type ZodTypeAny, type z } from 'zod';
+import { jsonShapeProblem, problemField } from './json-shape.ts';
 
 export interface ErrorBody {
   error: { code: string; message: string; field?: string; issues?: { field: string; message: string }[] };
@@ -30,9 +32,13 @@ export const conflict = (message: string) => new HttpError(409, 'conflict', mess
 export const tooManyRequests = (message: string, retryAfterSeconds: number) =>
   new HttpError(429, 'rate_limited', message, { headers: { 'Retry-After': String(Math.max(1, Math.ceil(retryAfterSeconds))) } });
 
+/** The standard reason phrase ("Bad Request"); a Response built without one sends an empty status line text. */
+export const statusText = (status: number): string => STATUS_CODES[status] ?? '';
+
 export function json(data: unknown, status = 200, headers: Record<string, string> = {}): Response {
   return new Response(status === 204 ? null : JSON.stringify(data), {
     status,
+    statusText: statusText(status),
     headers: status === 204 ? headers : { 'Content-Type': 'application/json; charset=utf-8', ...headers },
   });
 }
@@ -86,6 +92,16 @@ export function handler(fn: (context: APIContext) => Promise<Response> | Respons
 export interface ParseOptions {
   /** Largest accepted body in bytes (default 64 KiB). */
   maxBytes?: number;
+  /** Deepest accepted nesting of arrays and objects (default 32, see json-shape.ts). */
+  maxDepth?: number;
+}
+
+/** 400 for a body nested too deep or holding a lone surrogate, before anything recursive touches it. */
+export function checkJsonShape(value: unknown, options: { maxDepth?: number; prefix?: (string | number)[] } = {}): void {
+  const problem = jsonShapeProblem(value, { maxDepth: options.maxDepth });
+  if (!problem) return;
+  const field = problemField([...(options.prefix ?? []), ...problem.path]);
+  throw new HttpError(400, 'invalid_input', `${field}: ${problem.message}`, { field, issues: [{ field, message: problem.message }] });
 }
 
 /** Reads a JSON body and validates it with `schema` (use `.strict()` objects). Throws HttpError 400/413/415. */
@@ -105,6 +121,7 @@ export async function parseJson<S extends ZodTypeAny>(request: Request, schema: 
   } catch {
     throw new HttpError(400, 'invalid_json', 'The body is not valid JSON.');
   }
+  checkJsonShape(data, { maxDepth: options.maxDepth });
   return parseValue(data, schema);
 }
 

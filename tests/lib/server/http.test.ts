@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
-import { errorResponse, HttpError, parseJson, zodToHttpError } from '../../../src/lib/server/http.ts';
+import { errorResponse, HttpError, json, parseJson, zodToHttpError } from '../../../src/lib/server/http.ts';
 
 const schema = z.object({ name: z.string().max(5), size: z.number() }).strict();
 
@@ -53,5 +53,25 @@ describe('errorResponse(err)', () => {
     } finally {
       console.error = original;
     }
+  });
+});
+
+describe('json(data, status) and parseJson(request) on hostile bodies', () => {
+  it('json(data, 404) carries the standard reason phrase, which the Node adapter puts on the status line', () => {
+    expect(json({}, 404).statusText).toBe('Not Found');
+    expect(json({}, 400).statusText).toBe('Bad Request');
+    expect(json(null, 204).statusText).toBe('No Content');
+  });
+
+  const post = (text: string) => new Request('http://x/', { method: 'POST', headers: { 'content-type': 'application/json' }, body: text });
+  it('parseJson answers 400 naming the field for a body nested 50 000 levels deep, before zod sees it', async () => {
+    const err = await parseJson(post(`{"name":${'['.repeat(50_000)}${']'.repeat(50_000)}}`), z.object({ name: z.string() }).strict(), { maxBytes: 1 << 20 }).catch((e) => e);
+    expect(err).toBeInstanceOf(HttpError);
+    expect(err).toMatchObject({ status: 400, code: 'invalid_input', message: 'name: nested more than 32 levels deep', extra: { field: 'name' } });
+  });
+  it('parseJson answers 400 naming the field for an escaped lone surrogate', async () => {
+    const err = await parseJson(post('{"name":"\\ud800lone"}'), z.object({ name: z.string() }).strict()).catch((e) => e);
+    expect(err).toMatchObject({ status: 400, code: 'invalid_input', extra: { field: 'name' } });
+    expect(err.message).toMatch(/^name: the text contains a lone UTF-16 surrogate \(U\+D800\)/);
   });
 });

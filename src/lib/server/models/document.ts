@@ -5,6 +5,7 @@
  */
 import { validateModelDocument, documentHash, type ModelIssue } from '../../model/index.ts';
 import { badRequest } from './service-error.ts';
+import { jsonShapeProblem, problemField } from '../json-shape.ts';
 
 export interface CheckedDocument {
   /** The document as submitted (parsed). */
@@ -25,7 +26,14 @@ function refuse(issues: readonly ModelIssue[]): never {
 }
 
 /** Validates a parsed document; `text` is what gets stored (pretty-printed JSON when absent). */
-export function checkDocument(document: unknown, text?: string): CheckedDocument {
+export function checkDocument(document: unknown, text?: string, field = 'document'): CheckedDocument {
+  // Before anything recursive (stringify, zod, hash) sees it; parseJson checks request bodies too,
+  // but documents also arrive as uploaded files and from the CSV import.
+  const shape = jsonShapeProblem(document);
+  if (shape) {
+    const at = problemField([field, ...shape.path]);
+    throw badRequest(`${at}: ${shape.message}`, [{ field: at, message: shape.message }]);
+  }
   const body = text ?? JSON.stringify(document, null, 2);
   if (Buffer.byteLength(body, 'utf8') > MAX_DOCUMENT_BYTES) {
     throw badRequest(`document: larger than the ${MAX_DOCUMENT_BYTES / 1024} KiB limit`);
@@ -47,5 +55,5 @@ export function checkDocumentText(text: string): CheckedDocument {
   } catch (e) {
     throw badRequest(`file: not valid JSON (${(e as Error).message})`, [{ field: 'file', message: 'not valid JSON' }]);
   }
-  return checkDocument(parsed, text);
+  return checkDocument(parsed, text, 'file');
 }
