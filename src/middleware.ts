@@ -7,7 +7,7 @@ import { defineMiddleware } from 'astro:middleware';
 import { lucia } from './lib/server/auth/lucia.ts';
 import { clientAddress } from './lib/server/auth/client-address.ts';
 import { listMemberships } from './lib/server/workspaces/repository.ts';
-import { jsonError } from './lib/server/http.ts';
+import { jsonError, statusText } from './lib/server/http.ts';
 import { maybeHousekeep } from './lib/server/housekeeping.ts';
 
 import { WORKSPACE_COOKIE } from './lib/server/workspaces/cookie.ts';
@@ -70,7 +70,7 @@ export const onRequest = defineMiddleware(async (context, next) => {
     }
     if (!isApi && !PUBLIC_PAGES.some((re) => re.test(path))) {
       const nextPath = path + url.search;
-      return context.redirect(`/sign-in${nextPath === '/' ? '' : `?next=${encodeURIComponent(nextPath)}`}`, 303);
+      return withStatusText(context.redirect(`/sign-in${nextPath === '/' ? '' : `?next=${encodeURIComponent(nextPath)}`}`, 303));
     }
   }
 
@@ -83,5 +83,15 @@ export const onRequest = defineMiddleware(async (context, next) => {
   } catch {
     // Responses built by Response.redirect() have immutable headers; they carry no content anyway.
   }
-  return response;
+  return withStatusText(response);
 });
+
+/**
+ * Pages that set Astro.response.status keep Astro's "OK" ("HTTP/1.1 404 OK") and redirects leave the
+ * reason phrase empty; the Node adapter copies either onto the status line. Give it the standard text.
+ */
+function withStatusText(response: Response): Response {
+  const text = statusText(response.status);
+  if (!text || response.statusText === text) return response;
+  return new Response(response.body, { status: response.status, statusText: text, headers: response.headers });
+}
