@@ -42,11 +42,12 @@ export const defaultCriticalCouplingOptions: CriticalCouplingOptions = {
  *
  * For node i the pattern "only i tipped" is built at β = from (every node at the base root of its
  * uncoupled element, node i at its tipped root; elementRoles) and refined by Newton on F(x, from) = 0.
- * Its branch of F(x, β) = 0 is followed towards `to` by the engine's pseudo-arclength continuation
- * (Keller 1977; same step rules and defaults as traceDiagram) until the parameter component of the
- * tangent changes sign: the first saddle-node, located by the engine's Illinois regula falsi on t_β
- * (locateZero, bracket < locateParameterTolerance = 1e-11 in β by default). That β is node i's
- * critical coupling: the coupling beyond which the state no longer exists.
+ * Its branch of F(x, β) = 0 is followed towards `to` by pseudo-arclength continuation with the
+ * engine's corrector and step rules and defaults (Keller 1977; continueToFold, which skips the
+ * per-point spectrum) until the parameter component of the tangent changes sign: the first
+ * saddle-node, located by Illinois regula falsi on t_β along the arc (bracket below
+ * locateParameterTolerance = 1e-11 in β by default). That β is node i's critical coupling: the
+ * coupling beyond which the state no longer exists. The spectrum is computed at the start and at the fold.
  * Just past it, at β_f + dir · pastFold · |to − from|, the flow dx/dt = F(x, β) is integrated from the
  * fold state (odex; it passes the fold's ghost, Strogatz §4.3, and leaves along the centre direction)
  * until max|F| < settledSpeed; Newton's method polishes the end point and its spectrum must be
