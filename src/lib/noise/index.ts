@@ -5,6 +5,7 @@ export { isGradient, defaultGradientOptions, type GradientOptions, type Gradient
 export { potentialDifference, defaultPotentialOptions, type PotentialOptions, type PotentialDifference } from './potential';
 export { gmam, geometricAction, scaledField, resample, defaultGmamOptions, type DriftField, type GmamOptions, type GmamResult } from './gmam';
 export { barriersAt, stateLabel, saddleLabel, defaultBarrierOptions, type BarrierOptions, type BarriersResult } from './barriers';
+export { exitSwitches, saddleKeys, defaultExitSwitchOptions, type ExitSwitchOptions, type ExitSwitchResult, type ExitSample } from './exit-switches';
 export { eyringKramersPrefactor, DEFAULT_DEGENERACY_TOLERANCE, type PrefactorResult } from './prefactor';
 export { solveEscapeChain, defaultEscapeChainOptions, type ChainTransition, type EscapeChain, type EscapeChainOptions, type EscapeChainResult } from './markov-chain';
 export { predictEscapes, halfwayThresholds, type Prediction, type PredictionOptions, type PredictedRate, type PrefactorKind } from './prediction';
