@@ -9,3 +9,4 @@ export { exitSwitches, saddleKeys, defaultExitSwitchOptions, type ExitSwitchOpti
 export { eyringKramersPrefactor, DEFAULT_DEGENERACY_TOLERANCE, type PrefactorResult } from './prefactor';
 export { solveEscapeChain, defaultEscapeChainOptions, type ChainTransition, type EscapeChain, type EscapeChainOptions, type EscapeChainResult } from './markov-chain';
 export { predictEscapes, halfwayThresholds, type Prediction, type PredictionOptions, type PredictedRate, type PrefactorKind } from './prediction';
+export { meanFirstPassage1d, defaultFirstPassage1dOptions, type FirstPassage1dOptions, type FirstPassage1dResult } from './first-passage-1d';
