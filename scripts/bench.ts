@@ -19,6 +19,7 @@ import { DenseLu, newton } from '../src/lib/numerics/index.js';
 import { findStartingEquilibria } from '../src/lib/atlas/starting-equilibria.js';
 import { defaultTraceSettings } from '../src/lib/atlas/trace-settings.js';
 import { labelRegimes, type RegimeBand } from '../src/lib/regimes/index.js';
+import { onsetSection } from './bench-onset.js';
 
 export interface BenchSection {
   readonly title: string;
@@ -273,6 +274,7 @@ const regimesSection: BenchSection = {
 };
 
 export const sections: BenchSection[] = [engineSection, regimesSection];
+sections.push(onsetSection);
 
 for (const s of sections) {
   console.log(`\n== ${s.title}`);

@@ -23,7 +23,7 @@ import { continueToFold } from './continue-to-fold';
 
 export const defaultCriticalCouplingOptions: CriticalCouplingOptions = {
   trace: {},
-  pastFold: 1e-6,
+  pastFold: 1e-5,
   scanPoints: 4001,
   rootSearchBound: 10,
   relativeTolerance: 1e-8,

@@ -16,7 +16,10 @@ export interface CriticalCouplingOptions {
   readonly nodes?: readonly number[];
   /** Continuation and location settings (partial; missing ones are the engine's defaults). */
   readonly trace: Partial<TraceSettings>;
-  /** The flow is integrated at p_fold + dir × pastFold × |to − from| (default 1e-6). */
+  /**
+   * The flow is integrated at p_fold + dir × pastFold × |to − from| (default 1e-5: 170 times finer than the
+   * engine's special-point resolution, width / 600, and short enough a ghost passage, ∝ pastFold^(-1/2)).
+   */
   readonly pastFold: number;
   /** Grid points of the root scan of each uncoupled element on [−rootSearchBound, rootSearchBound] (default 4001, bound 10). */
   readonly scanPoints: number;
