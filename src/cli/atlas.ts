@@ -8,6 +8,7 @@ import { toTraceJson, traceDiagram } from '../lib/atlas/index.js';
 import { ModelError } from '../lib/model/index.js';
 import { labelRegimes, type RegimeBand } from '../lib/regimes/index.js';
 import { compile, emit, numberOption, readModel, UsageError, type Command } from './cli-common.js';
+import { barriersCommand } from './barriers-command.js';
 import { onset } from './onset-command.js';
 
 const TRACE_HELP = `Usage: npm run --silent atlas -- trace MODEL.json [--from P] [--to P] [--out FILE]
@@ -125,6 +126,7 @@ const commands: Record<string, Command> = {
   trace,
   regimes,
   onset,
+  barriers: barriersCommand,
 };
 
 function helpText(): string {

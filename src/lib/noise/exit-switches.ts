@@ -210,13 +210,18 @@ function lowest(row: Map<string, number>, tol: number): string[] {
   return [...row].filter(([, v]) => v <= cut).sort((x, y) => x[1] - y[1]).map(([k]) => k);
 }
 
-/** saddleLabel per saddle, duplicates (two saddles between the same two states) numbered in index order. */
+/**
+ * saddleLabel per saddle. Two saddles between the same two states are told apart by their own
+ * pattern ("all-base -> all-tipped via a tipped"), and where that is the same too, numbered in
+ * index order (" #2"), which is not stable along the parameter.
+ */
 export function saddleKeys(g: NoiseGraph, names: readonly string[]): string[] {
   const labels = g.graph.saddles.map((_, e) => saddleLabel(g, e, names));
+  const withPattern = labels.map((l, e) => (labels.filter((x) => x === l).length > 1 ? `${l} via ${stateLabel(g.graph.saddles[e].pattern, names)}` : l));
   const count = new Map<string, number>();
-  return labels.map((l) => {
+  return withPattern.map((l) => {
     const c = (count.get(l) ?? 0) + 1;
     count.set(l, c);
-    return labels.filter((x) => x === l).length > 1 ? `${l} #${c}` : l;
+    return withPattern.filter((x) => x === l).length > 1 ? `${l} #${c}` : l;
   });
 }
