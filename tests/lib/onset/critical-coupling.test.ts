@@ -159,6 +159,17 @@ describe('criticalCoupling(system) input checks', () => {
     expect(res.diagnostics.map((d) => d.code)).toContain('onset-undefined');
   });
 
+  it('marks every node cancelled when the cancel hook answers true, and reports progress up to 1 otherwise', () => {
+    const system = compileModelJson(cubicNetwork({ r: 0.1, nodes: ['p', 'q'], links: [{ from: 'p', to: 'q' }] }));
+    const stopped = criticalCoupling(system, {}, { isCancelled: () => true });
+    expect(stopped.nodes.map((q) => q.status)).toEqual(['cancelled', 'cancelled']);
+    expect(stopped.diagnostics.map((d) => d.code)).toEqual(['cancelled']);
+    expect(stopped.converged).toBe(false);
+    const seen: number[] = [];
+    criticalCoupling(system, {}, { onProgress: (f) => seen.push(f) });
+    expect(seen).toEqual([0, 0.5, 1]);
+  });
+
   it('does not mutate the options object and analyses only the nodes asked for', () => {
     const system = compileModelJson(cubicNetwork({ r: 0.1, nodes: ['p', 'q'], links: [{ from: 'p', to: 'q' }] }));
     const options = Object.freeze({ nodes: Object.freeze([1]), trace: Object.freeze({}) });
