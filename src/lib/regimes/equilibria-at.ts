@@ -33,7 +33,8 @@ export const isIndexOneSaddle = (e: Equilibrium) => e.unstable === 1 && e.neutra
 /**
  * Every equilibrium the diagram shows at parameter p: on each branch, every segment between
  * consecutive points whose parameter values enclose p gives a guess by linear interpolation in p,
- * refined by Newton's method at fixed p; converged points closer than duplicateTolerance
+ * refined by Newton's method at fixed p (when Newton fails or moves farther than half the segment, or a
+ * tenth of it onto an equilibrium already found, the segment's two end points are tried too); converged points closer than duplicateTolerance
  * (max norm relative to 1 + |x|) are merged. Each gets the eigenvalues of J_x(x, p).
  */
 export function equilibriaAt(
@@ -42,7 +43,7 @@ export function equilibriaAt(
   p: number,
   settings: EquilibriaSettings,
 ): { equilibria: Equilibrium[]; diagnostics: Diagnostic[] } {
-  const guesses: { x: number[]; branch: string }[] = [];
+  const guesses: { x: number[]; branch: string; ends?: [number[], number[]] }[] = [];
   for (const b of diagram.branches) {
     const pts = b.points;
     for (let k = 0; k + 1 < pts.length; k++) {
@@ -50,18 +51,35 @@ export function equilibriaAt(
       const c = pts[k + 1];
       if ((p - a.p) * (p - c.p) > 0) continue;
       const t = c.p === a.p ? 0.5 : (p - a.p) / (c.p - a.p);
-      guesses.push({ x: a.x.map((v, i) => v + t * (c.x[i] - v)), branch: b.id });
+      guesses.push({ x: a.x.map((v, i) => v + t * (c.x[i] - v)), branch: b.id, ends: [a.x, c.x] });
     }
     if (pts.length === 1 && pts[0].p === p) guesses.push({ x: pts[0].x.slice(), branch: b.id });
   }
   const found: { x: Float64Array; residual: number; branch: string }[] = [];
   let failures = 0;
+  const add = (x: Float64Array, residual: number, branch: string): boolean => {
+    if (found.some((f) => sameState(f.x, x, settings.duplicateTolerance))) return false;
+    found.push({ x, residual, branch });
+    return true;
+  };
   for (const g of guesses) {
     const r = newtonAtFixedParameter(system, g.x, p, settings.newtonTolerance, settings.newtonMaxIterations);
-    if (!r.converged) { failures++; continue; }
-    if (found.some((f) => sameState(f.x, r.x, settings.duplicateTolerance))) continue;
-    found.push({ x: r.x, residual: r.residual, branch: g.branch });
+    // Next to a pitchfork or fold the branch bends like a square root, and the straight-line guess on
+    // the segment that reaches the bifurcation can land on the other equilibrium there. When Newton
+    // moves farther than half the segment (a tenth when it lands on an equilibrium already found), the
+    // segment's own end points are tried as well.
+    const isNew = r.converged && add(r.x, r.residual, g.branch);
+    const moved = g.ends ? maxNorm(r.x, g.x) / Math.max(maxNorm(g.ends[0], g.ends[1]), 1e-300) : 0;
+    const wandered = !r.converged || moved > 0.5 || (!isNew && moved > 0.1);
+    if (wandered && g.ends) {
+      for (const end of g.ends) {
+        const e = newtonAtFixedParameter(system, end, p, settings.newtonTolerance, settings.newtonMaxIterations);
+        if (e.converged) add(e.x, e.residual, g.branch);
+      }
+    }
+    if (!r.converged) failures++;
   }
+  nearCriticalGuesses(system, p, found, settings, add);
   const diagnostics: Diagnostic[] = [];
   if (failures > 0) {
     diagnostics.push({ level: 'info', code: 'refine-failed', p,
@@ -94,6 +112,49 @@ export function analyseEquilibrium(system: CompiledSystem, x: Float64Array, p: n
     }
   }
   return { x: Array.from(x), residual, eigenvalues, unstable, neutral, unstableValue, unstableVector, branch };
+}
+
+/**
+ * Close to a pitchfork the equilibria that are about to merge sit at a distance of order
+ * sqrt(|p - p_pf|) from the symmetric one, along the eigenvector of its nearly zero eigenvalue
+ * (pitchfork normal form x' = mu x - x^3; Kuznetsov, Elements of Applied Bifurcation Theory, 3rd ed.,
+ * section 3.4 (from memory)), and branch guesses tend to fall into the symmetric one. For every
+ * equilibrium with a real eigenvalue |lambda| < 1e-3 max(1, max |lambda_j|), Newton's method is also
+ * started from x ± delta w, w that eigenvector, delta in {0.003, 0.01, 0.03, 0.1} (1 + |x|).
+ */
+function nearCriticalGuesses(
+  system: CompiledSystem,
+  p: number,
+  found: readonly { x: Float64Array }[],
+  settings: EquilibriaSettings,
+  add: (x: Float64Array, residual: number, branch: string) => boolean,
+): void {
+  const n = system.dimension;
+  const jac = new Float64Array(n * n);
+  for (const f of found.slice()) {
+    system.jacobian(f.x, p, jac);
+    const s = spectrum(jac, n);
+    let scale = 1;
+    for (let k = 0; k < n; k++) scale = Math.max(scale, Math.hypot(s.re[k], s.im[k]));
+    let k0 = -1;
+    for (let k = 0; k < n; k++) if (s.im[k] === 0 && Math.abs(s.re[k]) < 1e-3 * scale && (k0 < 0 || Math.abs(s.re[k]) < Math.abs(s.re[k0]))) k0 = k;
+    if (k0 < 0) continue;
+    const w = s.vector(k0);
+    if (!w) continue;
+    let size = 0;
+    for (let i = 0; i < n; i++) size = Math.max(size, Math.abs(f.x[i]));
+    for (const delta of [0.003, 0.01, 0.03, 0.1]) for (const sign of [1, -1]) {
+      const guess = Array.from(f.x, (v, i) => v + sign * delta * (1 + size) * w[i]);
+      const r = newtonAtFixedParameter(system, guess, p, settings.newtonTolerance, settings.newtonMaxIterations);
+      if (r.converged) add(r.x, r.residual, 'near-critical');
+    }
+  }
+}
+
+function maxNorm(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let d = 0;
+  for (let i = 0; i < a.length; i++) d = Math.max(d, Math.abs(a[i] - b[i]));
+  return d;
 }
 
 export function sameState(a: ArrayLike<number>, b: ArrayLike<number>, tol: number): boolean {

@@ -1,10 +1,12 @@
 export * from './types';
 export { labelRegimes, type RegimeResult } from './label-regimes';
+export { labelAt, createLabeller, regimeOfExits, exitKind, type Labeller, type PointLabel } from './label-at';
+export { startExits, looksCooperative, type Exit, type StartExits } from './start-exits';
 export { defaultRegimeOptions, resolveOptions, type RegimeOptions, type GivenRoles } from './options';
 export { elementRoles, stateRanges, type NodeRoles, type ElementRolesResult } from './element-roles';
 export { patternOf, progressOf, countTipped } from './pattern';
 export { equilibriaAt, analyseEquilibrium, isStable, isIndexOneSaddle, type Equilibrium } from './equilibria-at';
-export { buildEscapeGraph, slowPassageTime, type EscapeGraphResult, type ManifoldBranch, type IntegrationBudget } from './escape-graph';
+export { buildEscapeGraph, followBranch, branchTargets, slowPassageTime, type BranchTargets, type EscapeGraphResult, type ManifoldBranch, type IntegrationBudget } from './escape-graph';
 export { classifyEdge, type EdgeClassification } from './classify-edge';
 export { cutPoints, changesEscapeGraph, type Cut } from './intervals';
 export { mergeBands, type IntervalLabel } from './merge-bands';

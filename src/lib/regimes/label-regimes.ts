@@ -1,33 +1,41 @@
 import type { CompiledSystem } from '../model/compiled-system';
 import type { Diagnostic, Diagram } from '../atlas/types';
-import type { EdgeKind, EscapeGraph, NodeState, Regime, RegimeBand, SaddleEdge, StartState } from './types';
+import type { CrossoverKind, EscapeGraph, LocatedCrossover, NodeState, RegimeBand, SaddleEdge, StartState } from './types';
 import { resolveOptions, type RegimeOptions } from './options';
 import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles';
-import { equilibriaAt } from './equilibria-at';
-import { buildEscapeGraph, type EscapeGraphResult, type IntegrationBudget } from './escape-graph';
-import { classifyEdge, type EdgeClassification } from './classify-edge';
-import { changesEscapeGraph, cutName, cutPoints } from './intervals';
+import { buildEscapeGraph, maxDist } from './escape-graph';
+import { changesEscapeGraph, cutName, cutPoints, type Cut } from './intervals';
 import { mergeBands, type IntervalLabel } from './merge-bands';
-import { isAll } from './pattern';
+import { isAll, progressOf } from './pattern';
 import { listNames, patternWords } from './reason';
+import { createLabeller, exitKind, exitName, type Labeller, type PointLabel } from './label-at';
 
 export interface RegimeResult {
   readonly regimes: RegimeBand[];
+  /** One full escape graph per band of the first start, in the middle of the band's first piece of unchanged reasons. */
   readonly escapeGraphs: EscapeGraph[];
   readonly diagnostics: Diagnostic[];
+  /** Every located saddle connection and engagement crossover, in increasing p per start. */
+  readonly crossovers: LocatedCrossover[];
+  /** Work done: labelled parameter values, manifold-branch integrations, saddles ruled out without integrating. */
+  readonly work: { readonly points: number; readonly integrations: number; readonly skipped: number };
 }
 
 const MAX_DIAGNOSTICS = 60;
 
+class BudgetExhausted extends Error {}
+
+/** A stretch between two located edges with one label key (same label for the same reasons). */
+interface Piece { from: number; to: number; fromBound: string; toBound: string; label: PointLabel }
+
 /**
- * Coupling regimes along the diagram's parameter. The range [from, to] is cut at every special
- * point of the diagram; at the midpoint of each interval the equilibria shown by the diagram are
- * refined, the escape graph is built (buildEscapeGraph) and every edge out of each start state
- * (all-base, and all-tipped when options.starts asks) is classified (classifyEdge). An interval is
- * weak when every such edge is contained, strong when every one is synchronous, intermediate
- * otherwise; adjacent intervals with the same label are merged (mergeBands). Intervals where the
- * element roles are undefined, the start state is missing or no edge leaves it get no label and a
- * diagnostic. Method and tolerances: docs/regimes.md.
+ * Coupling regimes along the diagram's parameter (docs/regimes.md). The label is a function of p
+ * alone (createLabeller().labelAt); this function finds where it changes. [from, to] is cut at the
+ * special points that can change the escape graph (exact edges). Inside each interval the label is
+ * sampled (initialSamples equal pieces, halved where an exit's progress bends fast or may come near
+ * the engagement threshold (movesFast), down to finestFraction of the interval); wherever two neighbouring samples differ in their label key, the change is bisected
+ * to locateTolerance and named (saddle connection or engagement crossover). Bands are the maximal
+ * runs of equal label. Never throws; work is capped by maxIntegrations.
  */
 export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?: Partial<RegimeOptions>): RegimeResult {
   const o = resolveOptions(options);
@@ -40,31 +48,35 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
     diagnostics.push(d);
   };
   const n = system.dimension;
-  const names = system.network?.nodeIds ?? system.variables;
   const settings = diagram.settings ?? {};
   const from = o.from ?? (typeof settings.from === 'number' ? settings.from : system.sweep.from);
   const to = o.to ?? (typeof settings.to === 'number' ? settings.to : system.sweep.to);
   const starts: StartState[] = o.starts.includes('all-base') ? ['all-base', ...o.starts.filter((s) => s !== 'all-base')] : [...o.starts];
+  const finish = (regimes: RegimeBand[], escapeGraphs: EscapeGraph[], crossovers: LocatedCrossover[], labeller: Labeller | null): RegimeResult => {
+    if (diagnostics.length > MAX_DIAGNOSTICS) {
+      const extra = diagnostics.length - MAX_DIAGNOSTICS;
+      diagnostics.length = MAX_DIAGNOSTICS;
+      diagnostics.push({ level: 'info', code: 'diagnostics-truncated', message: `${extra} further diagnostics were left out` });
+    }
+    return { regimes, escapeGraphs, diagnostics, crossovers, work: labeller ? { ...labeller.counts } : { points: 0, integrations: 0, skipped: 0 } };
+  };
 
   if (!system.network && !o.roles) {
     note({ level: 'error', code: 'regimes-undefined',
       message: 'regimes undefined: the model is not a network of elements and no base, threshold and tipped roles were given' });
-    return { regimes: [], escapeGraphs: [], diagnostics };
+    return finish([], [], [], null);
   }
   const badBranch = diagram.branches.find((b) => b.points.some((q) => q.x.length !== n));
   if (badBranch) {
     note({ level: 'error', code: 'regimes-diagram-mismatch', branch: badBranch.id,
       message: `the diagram does not belong to this model: branch ${badBranch.id} has states of length ${badBranch.points.find((q) => q.x.length !== n)!.x.length}, the model has ${n} variables` });
-    return { regimes: [], escapeGraphs: [], diagnostics };
+    return finish([], [], [], null);
   }
-  const ranges = stateRanges(diagram, n);
-  const fixedRoles = o.roles !== undefined || system.network?.sweepIsCoupling === true;
-  let roles0: (NodeRoles | null)[] | null = null;
-  if (fixedRoles) {
-    const r = elementRoles(system, from, ranges, o.scanPoints, o.roles);
+  if (o.roles !== undefined || system.network?.sweepIsCoupling === true) {
+    // Roles that do not depend on p: an element that is not bistable leaves the whole range unlabelled.
+    const r = elementRoles(system, from, stateRanges(diagram, n), o.scanPoints, o.roles);
     r.diagnostics.forEach(note);
-    if (r.roles.some((x) => x === null)) return { regimes: [], escapeGraphs: [], diagnostics };
-    roles0 = r.roles;
+    if (r.roles.some((x) => x === null)) return finish([], [], [], null);
   }
 
   let ignored = 0;
@@ -77,163 +89,239 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
     note({ level: 'info', code: 'cuts-ignored',
       message: `${ignored} of ${diagram.bifurcations.length} special points join only equilibria with two or more unstable eigenvalues; they cannot change the escape graph and do not cut the bands` });
   }
-  const labels = new Map<StartState, IntervalLabel[]>(starts.map((s) => [s, []]));
-  const escapeGraphs: EscapeGraph[] = [];
-  const budget = { left: o.maxIntegrations };
-  let exhausted = false;
-  for (let k = 0; k + 1 < cuts.length; k++) {
+  const labeller = createLabeller(system, diagram, o, note);
+  const pieces = new Map<StartState, Piece[]>(starts.map((s) => [s, []]));
+  const crossovers: LocatedCrossover[] = [];
+  let exhaustedAt: number | null = null;
+  for (let k = 0; k + 1 < cuts.length && exhaustedAt === null; k++) {
     const a = cuts[k];
     const b = cuts[k + 1];
     if (b.p - a.p < o.minimumInterval) continue;
-    const p = 0.5 * (a.p + b.p);
-    const push = (regime: (start: StartState) => { regime: Regime | null; reason: string }) => {
-      for (const start of starts) {
-        const lab = regime(start);
-        labels.get(start)!.push({ from: a.p, to: b.p, fromBound: cutName(a), toBound: cutName(b), regime: lab.regime, reason: lab.reason, start });
-      }
-    };
-    if (exhausted) { push(() => ({ regime: null, reason: 'integration budget used up' })); continue; }
+    const found: { start: StartState; pieces: Piece[]; crossovers: LocatedCrossover[] }[] = [];
     try {
-      const analysed = analyseInterval(system, diagram, p, roles0, ranges, starts, names, o, note, budget);
-      if (analysed.truncated) {
-        exhausted = true;
-        note({ level: 'warning', code: 'regimes-budget', p,
-          message: `the cap of ${o.maxIntegrations} manifold integrations was reached at ${system.parameter} = ${fmt(p)}; this and the later intervals are not labelled (raise maxIntegrations for larger networks)` });
-        push(() => ({ regime: null, reason: 'integration budget used up' }));
-        continue;
-      }
-      if (analysed.graph) escapeGraphs.push(analysed.graph);
-      push((start) => analysed.labels.get(start) ?? { regime: null, reason: 'regimes undefined' });
+      for (const start of starts) found.push({ start, ...locateInterval(labeller, a, b, start) });
     } catch (e) {
-      // A model function that throws must not take the whole run down.
-      note({ level: 'error', code: 'regimes-failed', p,
-        message: `regime analysis failed at ${system.parameter} = ${fmt(p)}: ${e instanceof Error ? e.message : String(e)}; the interval is not labelled` });
-      push(() => ({ regime: null, reason: 'analysis failed' }));
+      if (!(e instanceof BudgetExhausted)) throw e;
+      exhaustedAt = a.p;
+      break;
+    }
+    for (const f of found) {
+      pieces.get(f.start)!.push(...f.pieces);
+      crossovers.push(...f.crossovers);
     }
   }
-  const regimes = starts.flatMap((s) => mergeBands(labels.get(s)!));
-  if (diagnostics.length > MAX_DIAGNOSTICS) {
-    const extra = diagnostics.length - MAX_DIAGNOSTICS;
-    diagnostics.length = MAX_DIAGNOSTICS;
-    diagnostics.push({ level: 'info', code: 'diagnostics-truncated', message: `${extra} further diagnostics were left out` });
+  if (exhaustedAt !== null) {
+    note({ level: 'warning', code: 'regimes-budget', p: exhaustedAt,
+      message: `the cap of ${o.maxIntegrations} manifold integrations was reached in the interval from ${system.parameter} = ${fmt(exhaustedAt)}; it and the later ones are not labelled (raise maxIntegrations for larger networks)` });
   }
-  return { regimes, escapeGraphs, diagnostics };
+
+  const regimes = starts.flatMap((s) => mergeBands(pieces.get(s)!.map((q): IntervalLabel => ({
+    from: q.from, to: q.to, fromBound: q.fromBound, toBound: q.toBound, regime: q.label.regime, reason: q.label.reason, start: s,
+  }))));
+  const escapeGraphs = o.escapeGraphs ? graphsOfPieces(system, labeller, pieces.get(starts[0])!, starts, note) : [];
+  return finish(regimes, escapeGraphs, crossovers, labeller);
 }
 
-/** Escape graph and labels of one interval at its representative parameter p. */
-function analyseInterval(
-  system: CompiledSystem,
-  diagram: Diagram,
-  p: number,
-  roles0: (NodeRoles | null)[] | null,
-  ranges: [number, number][],
-  starts: StartState[],
-  names: readonly string[],
-  o: RegimeOptions,
-  note: (d: Diagnostic) => void,
-  budget: IntegrationBudget,
-): { graph: EscapeGraph | null; truncated: boolean; labels: Map<StartState, { regime: Regime | null; reason: string }> } {
-  const labels = new Map<StartState, { regime: Regime | null; reason: string }>();
-  let roles = roles0;
-  if (!roles) {
-    const r = elementRoles(system, p, ranges, o.scanPoints, o.roles);
-    r.diagnostics.forEach(note);
-    roles = r.roles;
+/** Sample, refine and bisect one interval between cuts (see labelRegimes). */
+function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState): { pieces: Piece[]; crossovers: LocatedCrossover[] } {
+  const o = labeller.options;
+  const w = b.p - a.p;
+  const at = (p: number) => {
+    const l = labeller.labelAt(p, start);
+    if (l.truncated) throw new BudgetExhausted();
+    return l;
+  };
+  const inA = a.p + Math.min(o.cutOffset * (1 + Math.abs(a.p)), 0.01 * w);
+  const inB = b.p - Math.min(o.cutOffset * (1 + Math.abs(b.p)), 0.01 * w);
+  const grid = [inA];
+  for (let k = 1; k < o.initialSamples; k++) grid.push(a.p + (w * k) / o.initialSamples);
+  grid.push(inB);
+  const samples = grid.map(at);
+  const finest = o.finestFraction * w;
+  const events: { left: PointLabel; right: PointLabel }[] = [];
+
+  const midLabel = (l: PointLabel, r: PointLabel): PointLabel => {
+    let m = at(0.5 * (l.p + r.p));
+    // An exit branch passing right through another saddle (at a saddle connection) may settle there:
+    // step aside a little rather than report a spurious gap.
+    for (const f of [0.37, 0.63]) {
+      if (m.key !== 'none:unresolved' || l.key === m.key || r.key === m.key) break;
+      m = at(l.p + f * (r.p - l.p));
+    }
+    return m;
+  };
+  const refine = (l: PointLabel, r: PointLabel) => {
+    if (l.key !== r.key) {
+      if (r.p - l.p <= o.locateTolerance) { events.push({ left: l, right: r }); return; }
+      const m = midLabel(l, r);
+      refine(l, m);
+      refine(m, r);
+      return;
+    }
+    if (r.p - l.p > finest && movesFast(l, r, o.progressStep, o.engagedProgress)) {
+      const m = midLabel(l, r);
+      refine(l, m);
+      refine(m, r);
+    }
+  };
+  for (let k = 0; k + 1 < samples.length; k++) refine(samples[k], samples[k + 1]);
+
+  const pieces: Piece[] = [];
+  const crossovers: LocatedCrossover[] = [];
+  let lo = a.p;
+  let loBound = cutName(a);
+  for (const e of events) {
+    const c = describeCrossover(e.left, e.right, labeller.names, start);
+    crossovers.push(c);
+    pieces.push({ from: lo, to: c.p, fromBound: loBound, toBound: c.description, label: e.left });
+    lo = c.p;
+    loBound = c.description;
   }
-  if (roles.some((x) => x === null)) return { graph: null, truncated: false, labels };
-  const nodeRoles = roles as NodeRoles[];
-  const eq = equilibriaAt(system, diagram, p, o);
-  eq.diagnostics.forEach(note);
-  const g = buildEscapeGraph(system, p, eq.equilibria, nodeRoles, o, budget);
-  g.diagnostics.forEach(note);
-  if (g.truncated) return { graph: null, truncated: true, labels };
-  const edges: SaddleEdge[] = g.graph.saddles.map((e) => ({ ...e }));
-  for (const start of starts) labels.set(start, labelInterval(system, p, g, edges, nodeRoles, names, start, o, note));
-  return { graph: { p, states: g.graph.states, saddles: edges }, truncated: false, labels };
+  pieces.push({ from: lo, to: b.p, fromBound: loBound, toBound: cutName(b), label: events.length ? events[events.length - 1].right : samples[0] });
+  return { pieces, crossovers };
 }
 
-/** Mirror x -> -x: turns the all-tipped start into an all-base one for classifyEdge. */
-function mirrorRoles(roles: readonly NodeRoles[]): NodeRoles[] {
-  return roles.map((r) => ({ base: -r.tipped, threshold: -r.threshold, tipped: -r.base }));
-}
-const flip = (p: readonly NodeState[]): NodeState[] => p.map((s) => (s === 'base' ? 'tipped' : 'base'));
-
-function labelInterval(
-  system: CompiledSystem,
-  p: number,
-  g: EscapeGraphResult,
-  edges: SaddleEdge[],
-  roles: NodeRoles[],
-  names: readonly string[],
-  start: StartState,
-  o: RegimeOptions,
-  note: (d: Diagnostic) => void,
-): { regime: Regime | null; reason: string } {
-  const recovery = start === 'all-tipped';
-  const startLevel: NodeState = recovery ? 'tipped' : 'base';
-  const states = g.graph.states;
-  const s0 = states.findIndex((s) => isAll(s.pattern, startLevel));
-  if (s0 < 0) {
-    note({ level: 'warning', code: 'no-start-state', p,
-      message: `no stable ${start} state at ${system.parameter} = ${fmt(p)}; the interval is not labelled for ${start}` });
-    return { regime: null, reason: `no stable ${start} state` };
+/**
+ * Whether a piece [l, r] with one label key must be halved. Per exit and node, the progress s(p) is
+ * modelled by the cubic Hermite interpolant H of its values and slopes at l and r (slopes from the
+ * implicit function theorem, Exit.slope), and e = max |H - secant| at t = 1/4, 1/2, 3/4 estimates how
+ * far s can be from a straight line there (common practice, no source: the Hermite-minus-secant
+ * difference as an error indicator). Halve when e > step (the progress moves fast and bends), or when
+ * H or an end comes within e of the engagement threshold (a crossover could hide inside).
+ * Without slopes, |s(r) - s(l)| stands in for e.
+ */
+function movesFast(l: PointLabel, r: PointLabel, step: number, engaged: number): boolean {
+  if (l.exits.length !== r.exits.length) return false;
+  const order = (x: PointLabel) => [...x.exits].sort((u, v) => keyOf(u).localeCompare(keyOf(v)));
+  const el = order(l);
+  const er = order(r);
+  const h = r.p - l.p;
+  for (let k = 0; k < el.length; k++) {
+    const a = el[k];
+    const b = er[k];
+    for (let i = 0; i < a.progress.length; i++) {
+      const s0 = a.progress[i];
+      const s1 = b.progress[i];
+      const values = [s0, s1];
+      let e = Math.abs(s1 - s0);
+      if (a.slope && b.slope) {
+        e = 0;
+        const d0 = a.slope[i] * h;
+        const d1 = b.slope[i] * h;
+        for (const t of [0.25, 0.5, 0.75]) {
+          const t2 = t * t;
+          const t3 = t2 * t;
+          const hv = (2 * t3 - 3 * t2 + 1) * s0 + (t3 - 2 * t2 + t) * d0 + (-2 * t3 + 3 * t2) * s1 + (t3 - t2) * d1;
+          e = Math.max(e, Math.abs(hv - (s0 + t * (s1 - s0))));
+          values.push(hv);
+        }
+      }
+      if (e > step) return true;
+      if (values.some((v) => Math.abs(v - engaged) < e)) return true;
+    }
   }
-  const frameRoles = recovery ? mirrorRoles(roles) : roles;
-  const found: { edge: number; cls: EdgeClassification; target: number }[] = [];
-  edges.forEach((e, i) => {
-    if (e.from !== s0 && e.to !== s0) return;
-    const target = e.from === s0 ? e.to : e.from;
-    const tp = states[target].pattern;
-    const frameTarget = recovery ? flip(tp) : tp;
-    const x = recovery ? e.x.map((c) => -c) : e.x;
-    const v = recovery ? e.direction!.map((c) => -c) : e.direction!;
-    const cls = classifyEdge(x, v, frameTarget, frameRoles, o);
-    found.push({ edge: i, cls, target });
-    const branch = g.saddles[i].branches[e.from === s0 ? 1 : 0];
-    if (recovery) edges[i] = { ...edges[i], kinds: { ...(edges[i].kinds ?? {}), [start]: cls.kind } };
-    else edges[i] = { ...edges[i], kind: cls.kind, ...(cls.kind === 'cascading' ? { slowPassage: branch.slowTime } : {}) };
+  return false;
+}
+
+const keyOf = (e: PointLabel['exits'][number]) => `${e.engaged.join(',')}>${e.tipping.join(',')}`;
+
+/** Names what changed between two labels a bisection bracket apart. */
+function describeCrossover(l: PointLabel, r: PointLabel, names: readonly string[], start: StartState): LocatedCrossover {
+  const p = 0.5 * (l.p + r.p);
+  const base = { p, start, below: l.regime, above: r.regime, bracket: r.p - l.p };
+  if (l.regime === null || r.regime === null) {
+    const text = r.regime === null ? `no label above: ${r.reason}` : `no label below: ${l.reason}`;
+    return { ...base, kind: 'label-undefined', description: `label undefined: ${text}` };
+  }
+  const connections: string[] = [];
+  const engagement: string[] = [];
+  const used = new Set<number>();
+  const words = (pattern: readonly NodeState[]) => patternWords(pattern, names);
+  const engagedWord = start === 'all-tipped' ? 'engaged towards recovery' : 'engaged';
+  for (const er of r.exits) {
+    let best = -1;
+    let bestD = Infinity;
+    l.exits.forEach((el, k) => {
+      const d = maxDist(el.saddle, er.saddle);
+      if (!used.has(k) && d < bestD) { bestD = d; best = k; }
+    });
+    const scale = 1e-3 * (1 + Math.max(...er.saddle.map(Math.abs)));
+    if (best < 0 || bestD > scale) {
+      connections.push(`${exitName(er, names).replace('the exit', 'the saddle')} becomes an exit of ${start}, ending in ${words(er.destination)}`);
+      continue;
+    }
+    used.add(best);
+    const el = l.exits[best];
+    if (el.tipping.join(',') !== er.tipping.join(',')) {
+      connections.push(`${exitName(el, names)} now ends in ${words(er.destination)} (was ${words(el.destination)})`);
+    }
+    const gained = er.engaged.filter((i) => !el.engaged.includes(i));
+    const lost = el.engaged.filter((i) => !er.engaged.includes(i));
+    if (gained.length > 0) engagement.push(`${listNames(gained.map((i) => names[i]))} now ${engagedWord} at ${exitName(el, names)}`);
+    if (lost.length > 0) engagement.push(`${listNames(lost.map((i) => names[i]))} no longer ${engagedWord} at ${exitName(el, names)}`);
+  }
+  l.exits.forEach((el, k) => {
+    if (!used.has(k)) connections.push(`${exitName(el, names)} no longer leads out of ${start}`);
   });
-  if (found.length === 0) {
-    note({ level: 'warning', code: 'no-escape-route', p,
-      message: `no index-1 saddle leads out of the ${start} state at ${system.parameter} = ${fmt(p)}; the interval is not labelled for ${start}` });
-    return { regime: null, reason: `no way out of ${start} found` };
-  }
-  const kinds = found.map((f) => f.cls.kind);
-  const regime: Regime = kinds.every((k) => k === 'contained') ? 'weak' : kinds.every((k) => k === 'synchronous') ? 'strong' : 'intermediate';
-  return { regime, reason: reasonFor(regime, found, states.map((s) => s.pattern), names, recovery) };
+  const kind: CrossoverKind = connections.length > 0 ? 'saddle-connection' : 'engagement-crossover';
+  const parts = kind === 'saddle-connection' ? [...connections, ...engagement] : engagement;
+  const label = kind === 'saddle-connection' ? 'saddle connection' : 'engagement crossover';
+  return { ...base, kind, description: `${label}: ${parts.length > 0 ? parts.join('; ') : 'the exits change'}` };
 }
 
-function reasonFor(
-  regime: Regime,
-  found: { cls: EdgeClassification; target: number }[],
-  patterns: NodeState[][],
-  names: readonly string[],
-  recovery: boolean,
-): string {
-  const startName = recovery ? 'all-tipped' : 'all-base';
-  const partial = recovery ? 'partially recovered' : 'partially tipped';
-  const verb = recovery ? 'recovering' : 'tipping';
-  const verbPlural = recovery ? 'recover' : 'tip';
-  const by = (kind: EdgeKind) => found.filter((f) => f.cls.kind === kind);
-  const uniq = (xs: string[]) => [...new Set(xs)];
-  const contained = uniq(by('contained').map((f) => patternWords(patterns[f.target], names)));
-  const containedText = `stable ${partial} state${contained.length > 1 ? 's' : ''} reached from ${startName}: ${contained.join('; ')}`;
-  const sync = uniq(by('synchronous').map((f) => listNames(f.cls.tipping.map((i) => names[i]))));
-  const syncText = `${sync.map((s) => `${s} ${verbPlural} together`).join('; ')} (saddle with every such node near its threshold, moving in step)`;
-  if (regime === 'weak') return containedText;
-  if (regime === 'strong') return `every way out of ${startName} is synchronous: ${syncText}`;
-  const cascades = uniq(by('cascading').map((f) => {
-    const target = patternWords(patterns[f.target], names);
-    if (f.cls.committed.length > 0) {
-      const leaders = f.cls.tipping.filter((i) => !f.cls.committed.includes(i)).map((i) => names[i]);
-      const lead = leaders.length > 0 ? listNames(leaders) : listNames(f.cls.engaged.map((i) => names[i]));
-      return `${lead} ${verb} first commits ${listNames(f.cls.committed.map((i) => names[i]))}, reaching ${target}`;
+/**
+ * The full escape graph (every index-1 saddle, both branches; buildEscapeGraph) for every band, in
+ * the middle of the band's first piece, with the kinds of the edges out of each start state
+ * (exitKind). Detail for the escape-graph drawing; the labels never depend on it.
+ */
+function graphsOfPieces(system: CompiledSystem, labeller: Labeller, pieces: readonly Piece[], starts: readonly StartState[], note: (d: Diagnostic) => void): EscapeGraph[] {
+  // One graph per band, in the middle of its first piece: the piece whose reasons the band's reason quotes.
+  const runs: { from: number; to: number }[] = [];
+  pieces.forEach((q, k) => {
+    const prev = k > 0 ? pieces[k - 1] : null;
+    if (q.label.regime === null) return;
+    if (prev && prev.to === q.from && prev.label.regime === q.label.regime) return;
+    runs.push({ from: q.from, to: q.to });
+  });
+  const graphs: EscapeGraph[] = [];
+  const o = labeller.options;
+  for (const run of runs) {
+    const p = 0.5 * (run.from + run.to);
+    try {
+      const roles = labeller.rolesAt(p);
+      if (roles.some((r) => r === null)) continue;
+      const nodeRoles = roles as NodeRoles[];
+      const g = buildEscapeGraph(system, p, labeller.equilibriaAt(p), nodeRoles, o, labeller.budget);
+      g.diagnostics.forEach(note);
+      if (g.truncated) {
+        note({ level: 'warning', code: 'regimes-budget', p, message: `the cap of ${o.maxIntegrations} manifold integrations was reached while drawing the escape graph at ${system.parameter} = ${fmt(p)}; the later escape graphs are left out (the labels are complete)` });
+        break;
+      }
+      const states = g.graph.states;
+      const edges: SaddleEdge[] = g.graph.saddles.map((e) => ({ ...e }));
+      for (const start of starts) {
+        const recovery = start === 'all-tipped';
+        const level: NodeState = recovery ? 'tipped' : 'base';
+        const s0 = states.findIndex((s) => isAll(s.pattern, level));
+        if (s0 < 0) continue;
+        const frameRoles = recovery ? nodeRoles.map((r) => ({ base: -r.tipped, threshold: -r.threshold, tipped: -r.base })) : nodeRoles;
+        edges.forEach((e, i) => {
+          if (e.from !== s0 && e.to !== s0) return;
+          const target = states[e.from === s0 ? e.to : e.from].pattern;
+          const progress = progressOf(recovery ? e.x.map((c) => -c) : e.x, frameRoles);
+          const engaged = progress.flatMap((s, j) => (s >= o.engagedProgress ? [j] : []));
+          const tipping = target.flatMap((s, j) => (s !== level ? [j] : []));
+          const kind = exitKind({ engaged, tipping }, system.dimension);
+          const branch = g.saddles[i].branches[e.from === s0 ? 1 : 0];
+          if (recovery) edges[i] = { ...edges[i], kinds: { ...(edges[i].kinds ?? {}), [start]: kind } };
+          else edges[i] = { ...edges[i], kind, ...(kind === 'cascading' ? { slowPassage: branch.slowTime } : {}) };
+        });
+      }
+      graphs.push({ p, states, saddles: edges });
+    } catch (e) {
+      note({ level: 'error', code: 'regimes-failed', p,
+        message: `escape graph at ${system.parameter} = ${fmt(p)} failed: ${e instanceof Error ? e.message : String(e)}; it is left out` });
     }
-    const order = [...f.cls.tipping].sort((i, j) => f.cls.progress[j] - f.cls.progress[i]).map((i) => names[i]);
-    return `${listNames(order)} ${verbPlural} one after another, not together (${order[0]} furthest along at the saddle), reaching ${target}`;
-  }));
-  const parts = [`cascade from ${startName}: ${cascades.join('; or ')}`];
-  if (contained.length > 0) parts.push(`still contained: ${contained.join('; ')}`);
-  if (sync.length > 0) parts.push(`also synchronous: ${syncText}`);
-  return parts.join('; ');
+  }
+  return graphs;
 }

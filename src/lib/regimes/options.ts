@@ -53,6 +53,20 @@ export interface RegimeOptions {
   readonly maxIntegrations: number;
   /** Intervals narrower than this (absolute in p) are not analysed. */
   readonly minimumInterval: number;
+  /** Skip manifold branches that provably cannot reach the start state (cooperative systems; see startExits). */
+  readonly monotoneSkip: boolean;
+  /** Sampling between cuts: the interval is first cut into this many equal pieces. */
+  readonly initialSamples: number;
+  /** Sampling: a piece is halved while an exit's progress moves more than this across it, or sits this close to engagedProgress ... */
+  readonly progressStep: number;
+  /** ... down to this fraction of the interval between cuts. */
+  readonly finestFraction: number;
+  /** Crossovers (changes of the label's reasons between samples) are bisected to this width in p (absolute). */
+  readonly locateTolerance: number;
+  /** Samples next to a cut sit this far inside (relative to 1 + |p|, at most 1% of the interval). */
+  readonly cutOffset: number;
+  /** Build the full escape graph (every saddle, both branches) at the middle of every piece of constant label reasons. */
+  readonly escapeGraphs: boolean;
 }
 
 export const defaultRegimeOptions: RegimeOptions = {
@@ -78,6 +92,13 @@ export const defaultRegimeOptions: RegimeOptions = {
   allCuts: false,
   maxIntegrations: 40_000,
   minimumInterval: 1e-12,
+  monotoneSkip: true,
+  initialSamples: 4,
+  progressStep: 0.05,
+  finestFraction: 1 / 200,
+  locateTolerance: 1e-9,
+  cutOffset: 1e-7,
+  escapeGraphs: true,
 };
 
 export function resolveOptions(options: Partial<RegimeOptions> | undefined): RegimeOptions {

@@ -38,11 +38,37 @@ export interface RegimeBand {
   readonly from: number;
   readonly to: number;
   readonly regime: Regime;
-  /** Types of the special points at the two edges (or 'sweep-bound'). */
+  /**
+   * What ends the band at its lower and upper edge: the types of a special point ('saddle-node',
+   * 'pitchfork + saddle-node'), 'sweep-bound', or a located crossover in words
+   * ('saddle connection: ...', 'engagement crossover: ...'; see RegimeResult.crossovers).
+   */
   readonly bounds: string[];
   readonly reason: string;
   /** Which start state the label is about; absent means all-base (tipping). */
   readonly start?: StartState;
+}
+
+/** What kind of event a located band edge is. Special points and sweep ends are named by their types in `bounds`. */
+export type CrossoverKind = 'saddle-connection' | 'engagement-crossover' | 'label-undefined';
+
+/**
+ * A change of the label's reasons between two special points, located by bisection: a saddle
+ * connection (an exit's destination changes, or a saddle starts or stops being an exit, without a
+ * local bifurcation) or an engagement crossover (a node's progress at an exit saddle crosses the
+ * engagement threshold). `label-undefined`: one side has no label (the reason says why).
+ */
+export interface LocatedCrossover {
+  readonly p: number;
+  readonly kind: CrossoverKind;
+  readonly start: StartState;
+  /** In words, as in the band's bounds: "saddle connection: the exit over n2 now ends in all tipped". */
+  readonly description: string;
+  /** Labels just below and just above p (null: no label). */
+  readonly below: Regime | null;
+  readonly above: Regime | null;
+  /** Width of the final bisection bracket around p. */
+  readonly bracket: number;
 }
 
 /** A modeler's own tag on a band or any parameter range, stored beside the automatic labels. */

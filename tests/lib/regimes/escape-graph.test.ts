@@ -113,10 +113,14 @@ describe('buildEscapeGraph edge cases', () => {
   });
 
   it('labelRegimes stops at the integration cap with a warning and labels only the intervals before it', () => {
-    // The weak interval has 4 index-1 saddles (8 integrations); a cap of 10 runs out in the next one.
-    const result = labelRegimes(system, symmetricPairDiagram(R), { maxIntegrations: 10 });
+    // The cap is set to what the first interval (up to the saddle-node) needs plus one, so it runs out
+    // in the second interval: the weak band is kept, the rest is left unlabelled.
+    const { betaSaddleNode } = symmetricPairValues(R);
+    const first = labelRegimes(system, symmetricPairDiagram(R), { to: betaSaddleNode, escapeGraphs: false });
+    expect(first.regimes.map((b) => b.regime)).toEqual(['weak']);
+    const result = labelRegimes(system, symmetricPairDiagram(R), { maxIntegrations: first.work.integrations + 1 });
     expect(result.regimes.map((b) => b.regime)).toEqual(['weak']);
-    expect(result.escapeGraphs).toHaveLength(1);
+    expect(result.regimes[0].to).toBe(betaSaddleNode);
     expect(result.diagnostics.some((d) => d.code === 'regimes-budget')).toBe(true);
   });
 });

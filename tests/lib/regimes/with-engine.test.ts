@@ -97,17 +97,26 @@ describe('labelRegimes on diagrams traced by the continuation engine', () => {
     expect(edges).toBeGreaterThan(0);
   });
 
-  it('symmetric ring of three cubic elements: weak, intermediate, strong, strong from beta = (1 - 3 m^2)/3', () => {
-    // At the symmetric middle state (m, m, m), J = f'(m) I + beta L with the ring Laplacian L
-    // (-2 on the diagonal, 1 off it), whose eigenvalues are 0 (direction (1,1,1)) and -3 (twice).
-    // So J has f'(m) = 1 - 3 m^2 > 0 along (1,1,1) and the double eigenvalue f'(m) - 3 beta, which
-    // turns negative at beta* = (1 - 3 m^2)/3: from there the only saddle is the symmetric one,
-    // tipping all three together (a double zero eigenvalue, reported by the engine as degenerate).
-    const { m } = cubicRoots(R);
+  it('symmetric ring of three cubic elements: weak, intermediate, strong; both edges are folds of the (u, u, w) family', () => {
+    // Ring a-b-c, two-way links. On the invariant plane x_a = x_b = u, x_c = w the equations are
+    //   r + u - u^3 + beta (w - u) = 0,   r + w - w^3 + 2 beta (u - w) = 0.
+    // The first gives beta = (r + u - u^3) / (u - w); put into the second:
+    //   w^3 - w = 3 r + 2 u - 2 u^3,
+    // a cubic in w for each u. So the family is parametrized by u (three root branches in w), and its
+    // saddle-nodes are the local extrema of beta(u), found here by a scan and a ternary search.
+    // Under the one-exit rule the band is strong only once the last of the other exits (saddles of
+    // this family meeting index-2 saddles) is gone: at the largest fold in (0, 1). The weak band ends
+    // where the partially tipped states of the family vanish. (At beta = (1 - 3 m^2)/3 the symmetric
+    // state becomes an index-1 saddle, but the family's saddles are still other ways out there.)
+    const folds = ringFolds(R);
     const system = compileModelJson(cubicNetwork({ r: R, nodes: ['a', 'b', 'c'], links: [{ from: 'a', to: 'b', twoWay: true }, { from: 'b', to: 'c', twoWay: true }, { from: 'c', to: 'a', twoWay: true }] }));
     const result = labelRegimes(system, traceDiagram(system));
     expect(result.regimes.map((b) => b.regime)).toEqual(['weak', 'intermediate', 'strong']);
-    expect(Math.abs(result.regimes[2].from - (1 - 3 * m * m) / 3)).toBeLessThan(1e-8);
+    const nearest = (p: number) => Math.min(...folds.map((f) => Math.abs(f - p)));
+    expect(nearest(result.regimes[0].to)).toBeLessThan(1e-8);
+    expect(Math.abs(result.regimes[2].from - Math.max(...folds))).toBeLessThan(1e-8);
+    const { m } = cubicRoots(R);
+    expect(result.regimes[2].from).toBeGreaterThan((1 - 3 * m * m) / 3);
     expect(result.regimes[2].reason).toContain('a, b and c tip together');
   });
 
@@ -120,3 +129,45 @@ describe('labelRegimes on diagrams traced by the continuation engine', () => {
     expect(result.diagnostics.some((d) => d.code === 'regimes-undefined' && d.level === 'error')).toBe(true);
   });
 });
+
+/** Saddle-nodes in (0, 1) of the ring's (u, u, w) family (derivation in the ring test): extrema of beta(u). */
+function ringFolds(r: number): number[] {
+  // Real roots of w^3 - w - q by sign changes on a grid, refined by bisection.
+  const roots = (q: number) => {
+    const f = (w: number) => w ** 3 - w - q;
+    const out: number[] = [];
+    for (let k = 0; k < 3000; k++) {
+      let lo = -3 + (6 * k) / 3000;
+      let hi = lo + 6 / 3000;
+      if (f(lo) * f(hi) > 0) continue;
+      for (let i = 0; i < 100; i++) { const mid = 0.5 * (lo + hi); if (f(lo) * f(mid) <= 0) hi = mid; else lo = mid; }
+      out.push(0.5 * (lo + hi));
+    }
+    return out;
+  };
+  const folds: number[] = [];
+  for (let branch = 0; branch < 3; branch++) {
+    const beta = (u: number) => {
+      const ws = roots(3 * r + 2 * u - 2 * u ** 3);
+      return ws.length === 3 ? (r + u - u ** 3) / (u - ws[branch]) : Number.NaN;
+    };
+    const h = 4 / 4000;
+    for (let k = 1; k < 4000; k++) {
+      const u = -2 + k * h;
+      const [b0, b1, b2] = [beta(u - h), beta(u), beta(u + h)];
+      if (![b0, b1, b2].every(Number.isFinite) || (b1 - b0) * (b2 - b1) >= 0) continue;
+      // Ternary search for the extremum of beta on [u - h, u + h].
+      let lo = u - h;
+      let hi = u + h;
+      const sign = b1 > b0 ? 1 : -1;
+      for (let i = 0; i < 200; i++) {
+        const m1 = lo + (hi - lo) / 3;
+        const m2 = hi - (hi - lo) / 3;
+        if (sign * beta(m1) < sign * beta(m2)) lo = m1; else hi = m2;
+      }
+      const b = beta(0.5 * (lo + hi));
+      if (b > 0 && b < 1) folds.push(b);
+    }
+  }
+  return folds.sort((x, y) => x - y);
+}

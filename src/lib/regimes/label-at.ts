@@ -1,0 +1,201 @@
+import type { CompiledSystem } from '../model/compiled-system';
+import type { Diagnostic, Diagram } from '../atlas/types';
+import type { EdgeKind, NodeState, Regime, StartState } from './types';
+import { resolveOptions, type RegimeOptions } from './options';
+import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles';
+import { equilibriaAt, type Equilibrium } from './equilibria-at';
+import type { IntegrationBudget } from './escape-graph';
+import { looksCooperative, startExits, type Exit } from './start-exits';
+import { listNames, patternWords } from './reason';
+
+/** The label at one parameter value, from the exits of the start state there. */
+export interface PointLabel {
+  readonly p: number;
+  readonly start: StartState;
+  /** null: no label here; `reason` says why. */
+  readonly regime: Regime | null;
+  readonly reason: string;
+  readonly exits: readonly Exit[];
+  /**
+   * What the label rests on: the regime and, per exit, its engaged nodes and its destination's
+   * changed nodes. Two parameter values with the same key have the same label for the same reasons.
+   */
+  readonly key: string;
+  /** Set when the integration budget ran out at this p (regime is null). */
+  readonly truncated?: boolean;
+}
+
+/**
+ * The labelling rule (docs/regimes.md, "The rule"), in the start's frame. weak: every exit ends in a
+ * state whose changed nodes are exactly the nodes engaged at the saddle, and not in the opposite
+ * uniform state. strong: exactly one exit, it ends in the opposite uniform state (all-tipped for
+ * tipping) and every node is engaged at that saddle. intermediate: any other case with an exit.
+ */
+export function regimeOfExits(exits: readonly Pick<Exit, 'engaged' | 'tipping'>[], n: number): Regime | null {
+  if (exits.length === 0) return null;
+  if (exits.every((e) => isContained(e, n))) return 'weak';
+  if (exits.length === 1 && exits[0].tipping.length === n && exits[0].engaged.length === n) return 'strong';
+  return 'intermediate';
+}
+
+function isContained(e: Pick<Exit, 'engaged' | 'tipping'>, n: number): boolean {
+  return e.tipping.length < n && e.tipping.length === e.engaged.length && e.tipping.every((i, k) => e.engaged[k] === i);
+}
+
+/** Kind of one exit, for the escape graph's edges: contained, together (synchronous) or cascading. */
+export function exitKind(e: Pick<Exit, 'engaged' | 'tipping'>, n: number): EdgeKind {
+  if (isContained(e, n)) return 'contained';
+  if (e.tipping.length === n && e.engaged.length === n) return 'synchronous';
+  return 'cascading';
+}
+
+export interface Labeller {
+  /** The label at p for the start state (cached by p). Never throws. */
+  labelAt(p: number, start?: StartState): PointLabel;
+  /** Roles at p (null entries where the element is not bistable). */
+  rolesAt(p: number): (NodeRoles | null)[];
+  /** Refined equilibria at p (cached by p). */
+  equilibriaAt(p: number): Equilibrium[];
+  readonly names: readonly string[];
+  readonly options: RegimeOptions;
+  readonly budget: IntegrationBudget;
+  /** Manifold-branch integrations and saddles decided without integrating, so far. */
+  readonly counts: { integrations: number; skipped: number; points: number };
+}
+
+/**
+ * A labeller for one model and diagram: `labelAt(p)` refines the equilibria the diagram shows at p
+ * (equilibriaAt), finds the exits of the start state (startExits) and applies the rule
+ * (regimeOfExits). Nothing depends on a sweep range or a neighbouring parameter value: the diagram
+ * only supplies starting guesses for Newton's method, so two diagrams of the same model that both
+ * show the equilibria at p give the same label there. Element roles are computed once when they do
+ * not depend on p (coupling sweeps, given roles), else at p. Diagnostics go to `note`.
+ */
+export function createLabeller(system: CompiledSystem, diagram: Diagram, options?: Partial<RegimeOptions>, note: (d: Diagnostic) => void = () => {}): Labeller {
+  const o = resolveOptions(options);
+  const n = system.dimension;
+  const names = system.network?.nodeIds ?? system.variables;
+  const ranges = stateRanges(diagram, n);
+  const fixedRoles = o.roles !== undefined || system.network?.sweepIsCoupling === true;
+  let roles0: (NodeRoles | null)[] | null = null;
+  const budget: IntegrationBudget = { left: o.maxIntegrations };
+  const counts = { integrations: 0, skipped: 0, points: 0 };
+  const eqCache = new Map<number, { equilibria: Equilibrium[]; monotone: boolean }>();
+  const labelCache = new Map<string, PointLabel>();
+
+  const rolesAt = (p: number) => {
+    if (fixedRoles && roles0) return roles0;
+    const r = elementRoles(system, fixedRoles ? system.sweep.from : p, ranges, o.scanPoints, o.roles);
+    r.diagnostics.forEach(note);
+    if (fixedRoles) roles0 = r.roles;
+    return r.roles;
+  };
+  const equilibriaFor = (p: number) => {
+    let hit = eqCache.get(p);
+    if (!hit) {
+      const eq = equilibriaAt(system, diagram, p, o);
+      eq.diagnostics.forEach(note);
+      hit = { equilibria: eq.equilibria, monotone: o.monotoneSkip && looksCooperative(system, eq.equilibria, p) };
+      eqCache.set(p, hit);
+    }
+    return hit;
+  };
+
+  const compute = (p: number, start: StartState): PointLabel => {
+    const none = (reason: string, code: string, extra: Partial<PointLabel> = {}): PointLabel => ({ p, start, regime: null, reason, exits: [], key: `none:${code}`, ...extra });
+    const roles = rolesAt(p);
+    if (roles.some((r) => r === null)) return none('regimes undefined: an element is not bistable', 'undefined');
+    const { equilibria, monotone } = equilibriaFor(p);
+    const diagnostics: Diagnostic[] = [];
+    const found = startExits(system, p, equilibria, roles as NodeRoles[], start, monotone, o, budget, diagnostics);
+    diagnostics.forEach(note);
+    counts.integrations += found.integrations;
+    counts.skipped += found.skipped;
+    counts.points++;
+    if (found.truncated) return none('integration budget used up', 'budget', { truncated: true });
+    if (found.start < 0) {
+      note({ level: 'warning', code: 'no-start-state', p, message: `no stable ${start} state at ${system.parameter} = ${fmt(p)}; no label there for ${start}` });
+      return none(`no stable ${start} state`, 'no-start');
+    }
+    if (found.unresolvedExits > 0) {
+      return none(`the destination of ${found.unresolvedExits === 1 ? 'an exit' : `${found.unresolvedExits} exits`} could not be resolved`, 'unresolved');
+    }
+    if (found.exits.length === 0) {
+      note({ level: 'warning', code: 'no-escape-route', p,
+        message: `no index-1 saddle leads out of the ${start} state at ${system.parameter} = ${fmt(p)}; no label there for ${start}` });
+      return none(`no way out of ${start} found`, 'no-exit');
+    }
+    const regime = regimeOfExits(found.exits, n)!;
+    const exitKeys = found.exits.map((e) => `${e.engaged.join(',')}>${e.tipping.join(',')}`).sort();
+    return { p, start, regime, reason: reasonFor(regime, found.exits, names, start), exits: found.exits, key: `${regime}|${exitKeys.join(';')}` };
+  };
+
+  return {
+    names, options: o, budget, counts,
+    rolesAt,
+    equilibriaAt: (p) => equilibriaFor(p).equilibria,
+    labelAt(p, start = 'all-base') {
+      const k = `${start}|${p}`;
+      let hit = labelCache.get(k);
+      if (!hit) {
+        try {
+          hit = compute(p, start);
+        } catch (e) {
+          note({ level: 'error', code: 'regimes-failed', p,
+            message: `regime analysis failed at ${system.parameter} = ${fmt(p)}: ${e instanceof Error ? e.message : String(e)}; no label there` });
+          hit = { p, start, regime: null, reason: 'analysis failed', exits: [], key: 'none:failed' };
+        }
+        if (!hit.truncated) labelCache.set(k, hit);
+      }
+      return hit;
+    },
+  };
+}
+
+/**
+ * The label at one parameter value: createLabeller(system, diagram, options).labelAt(p, start).
+ * For many values use one labeller, which caches the equilibria and labels by p.
+ */
+export function labelAt(system: CompiledSystem, diagram: Diagram, p: number, options?: Partial<RegimeOptions>, start: StartState = 'all-base'): PointLabel {
+  return createLabeller(system, diagram, options).labelAt(p, start);
+}
+
+/** Name of an exit for texts: "the exit over a and b" (its engaged nodes, else the node furthest along). */
+export function exitName(e: Pick<Exit, 'engaged' | 'progress'>, names: readonly string[]): string {
+  if (e.engaged.length > 0) return `the exit over ${listNames(e.engaged.map((i) => names[i]))}`;
+  let best = 0;
+  for (let i = 1; i < e.progress.length; i++) if (e.progress[i] > e.progress[best]) best = i;
+  return `the exit nearest ${names[best]}`;
+}
+
+function reasonFor(regime: Regime, exits: readonly Exit[], names: readonly string[], start: StartState): string {
+  const recovery = start === 'all-tipped';
+  const partial = recovery ? 'partially recovered' : 'partially tipped';
+  const verb = recovery ? 'recovering' : 'tipping';
+  const verbPlural = recovery ? 'recover' : 'tip';
+  const n = names.length;
+  const uniq = (xs: string[]) => [...new Set(xs)];
+  const contained = uniq(exits.filter((e) => isContained(e, n)).map((e) => patternWords(e.destination as NodeState[], names)));
+  const containedText = `stable ${partial} state${contained.length > 1 ? 's' : ''} reached from ${start}: ${contained.join('; ')}`;
+  if (regime === 'weak') return containedText;
+  if (regime === 'strong') {
+    return `one way out of ${start}: ${listNames(names.slice())} ${verbPlural} together (every node engaged at the one exit saddle)`;
+  }
+  const others = exits.filter((e) => !isContained(e, n));
+  const texts = uniq(others.map((e) => {
+    const target = patternWords(e.destination as NodeState[], names);
+    const committed = e.tipping.filter((i) => !e.engaged.includes(i));
+    const pulledBack = e.engaged.filter((i) => !e.tipping.includes(i));
+    if (committed.length > 0) {
+      const lead = e.engaged.length > 0 ? listNames(e.engaged.map((i) => names[i])) : exitName(e, names).replace('the exit nearest ', '');
+      return `${lead} ${verb} first commits ${listNames(committed.map((i) => names[i]))}, reaching ${target}`;
+    }
+    if (pulledBack.length > 0) {
+      return `${listNames(pulledBack.map((i) => names[i]))} engaged at ${exitName(e, names)} but pulled back, reaching ${target}`;
+    }
+    return `${listNames(e.tipping.map((i) => names[i]))} ${verbPlural} together through one of ${exits.length} ways out, reaching ${target}`;
+  }));
+  const parts = [`${exits.length === 1 ? 'one way' : `${exits.length} ways`} out of ${start}, not all contained: ${texts.join('; or ')}`];
+  if (contained.length > 0) parts.push(`still contained: ${contained.join('; ')}`);
+  return parts.join('; ');
+}

@@ -1,0 +1,209 @@
+import type { CompiledSystem } from '../model/compiled-system';
+import type { Diagnostic } from '../atlas/types';
+import type { NodeState, StableState, StartState } from './types';
+import type { NodeRoles } from './element-roles';
+import type { RegimeOptions } from './options';
+import { isIndexOneSaddle, type Equilibrium } from './equilibria-at';
+import { branchTargets, followBranch, type GraphSettings, type IntegrationBudget, type ManifoldBranch } from './escape-graph';
+import { isAll, progressOf } from './pattern';
+import { fmt } from './element-roles';
+import { DenseLu } from '../numerics/index';
+
+/** d progress_i / dp at an equilibrium: dx/dp = -J_x^{-1} F_p, divided by the frame's threshold - base. */
+function progressSlope(system: CompiledSystem, x: readonly number[], p: number, frameRoles: readonly NodeRoles[], mirrored: boolean): number[] | null {
+  const n = system.dimension;
+  const xf = Float64Array.from(x);
+  const jac = system.jacobian(xf, p, new Float64Array(n * n));
+  const fp = system.parameterDerivative(xf, p, new Float64Array(n));
+  const dx = new DenseLu(jac, n).solve(Array.from(fp, (v) => -v));
+  if (!dx) return null;
+  const out: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const d = (mirrored ? -dx[i] : dx[i]) / (frameRoles[i].threshold - frameRoles[i].base);
+    if (!Number.isFinite(d)) return null;
+    out.push(d);
+  }
+  return out;
+}
+
+/**
+ * One exit of a start state: an index-1 saddle one of whose unstable-manifold branches ends at the
+ * start state; its destination is where the other branch ends. Node indices, progress and `tipping`
+ * are in the start's frame (for recovery from all-tipped the problem is mirrored x -> -x, so
+ * "tipping" means recovering and progress runs from the tipped root to the threshold).
+ */
+export interface Exit {
+  readonly saddle: readonly number[];
+  /** Pattern of the destination state, in the model's own terms. */
+  readonly destination: readonly NodeState[];
+  /** Progress of every node at the saddle (0 at the start's root, 1 at the threshold). */
+  readonly progress: readonly number[];
+  /** Nodes with progress >= engagedProgress at the saddle. */
+  readonly engaged: readonly number[];
+  /** Nodes that leave the start's level at the destination (tipped nodes; recovered ones for recovery). */
+  readonly tipping: readonly number[];
+  /** Integration times of the branch to the start and of the branch to the destination. */
+  readonly travelTimes: readonly [number, number];
+  /**
+   * d progress / dp along the saddle's branch of equilibria, from dx/dp = -J_x^{-1} F_p (implicit
+   * function theorem; roles held fixed); null when J_x is singular.
+   */
+  readonly slope: readonly number[] | null;
+}
+
+export interface StartExits {
+  /** Index of the start state among `states`, -1 when there is no stable start state. */
+  readonly start: number;
+  readonly states: readonly StableState[];
+  readonly exits: Exit[];
+  /** Saddles whose branch reached the start while the other branch reached no stable state. */
+  readonly unresolvedExits: number;
+  /** Saddles where the branch that could reach the start reached no stable state (left out). */
+  readonly unresolvedSaddles: number;
+  /** Saddles decided without any integration (order argument, see startExits). */
+  readonly skipped: number;
+  readonly integrations: number;
+  /** True when the integration budget ran out (the list is incomplete). */
+  readonly truncated: boolean;
+}
+
+/**
+ * Whether dx/dt = F(x, p) looks cooperative (every off-diagonal entry of J_x >= 0) at all the given
+ * equilibria. For a cooperative system the flow preserves the componentwise order x <= y
+ * (Kamke's condition; H. L. Smith, Monotone Dynamical Systems, AMS 1995, ch. 3). Only equilibria are
+ * checked, so this is an assumption about the region between them, not a proof; diffusive coupling
+ * `source - target` with non-negative weights and coupling strength satisfies it everywhere.
+ */
+export function looksCooperative(system: CompiledSystem, equilibria: readonly Equilibrium[], p: number): boolean {
+  const n = system.dimension;
+  const jac = new Float64Array(n * n);
+  for (const e of equilibria) {
+    system.jacobian(Float64Array.from(e.x), p, jac);
+    let scale = 0;
+    for (let k = 0; k < n * n; k++) scale = Math.max(scale, Math.abs(jac[k]));
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) {
+      if (i !== j && jac[i * n + j] < -1e-12 * Math.max(1, scale)) return false;
+    }
+  }
+  return true;
+}
+
+/**
+ * a <= b componentwise, up to 1e-10 (1 + |b_i|): equilibria are refined to a residual of 1e-12, and
+ * nodes that do not feel each other (one-way links) have truly equal components that differ in the last bits.
+ */
+const leq = (a: ArrayLike<number>, b: ArrayLike<number>) => {
+  for (let i = 0; i < a.length; i++) if (a[i] > b[i] + 1e-10 * (1 + Math.abs(b[i]))) return false;
+  return true;
+};
+
+/**
+ * Exits of the start state (all-base, or all-tipped for recovery) at parameter p, integrating only
+ * what an exit needs. For every index-1 saddle the branch that can reach the start is integrated
+ * first; only when it ends at the start is the other branch followed (to its destination).
+ *
+ * When the system is cooperative (looksCooperative, `monotone`) and the unstable eigenvector v has one
+ * sign, the branch from x0 = x_s - eps v decreases and the one from x_s + eps v increases: the first
+ * stays below x_s and above every equilibrium y <= x0, the second the other way round (order
+ * preservation, Smith 1995, ch. 3; v >= 0 is the Perron vector of a cooperative Jacobian). Such a
+ * branch cannot end at the start when the start is not below (above) x_s, or when an equilibrium
+ * y <= x0 (y >= x0) is not below (above) the start. Branches ruled out that way are not integrated;
+ * a saddle with both ruled out costs nothing. Without `monotone` both branches of a saddle may be
+ * needed: the one pointing towards the start (v . (x_start - x_s)) goes first.
+ */
+export function startExits(
+  system: CompiledSystem,
+  p: number,
+  equilibria: readonly Equilibrium[],
+  roles: readonly NodeRoles[],
+  start: StartState,
+  monotone: boolean,
+  settings: GraphSettings & Pick<RegimeOptions, 'engagedProgress'>,
+  budget: IntegrationBudget,
+  diagnostics: Diagnostic[],
+): StartExits {
+  const targets = branchTargets(system, equilibria, roles, settings);
+  const level: NodeState = start === 'all-tipped' ? 'tipped' : 'base';
+  const s0 = targets.states.findIndex((s) => isAll(s.pattern, level));
+  const empty = { states: targets.states, exits: [], unresolvedExits: 0, unresolvedSaddles: 0, skipped: 0, integrations: 0, truncated: false };
+  if (s0 < 0) return { start: -1, ...empty };
+  const xStart = targets.states[s0].x;
+  const recovery = start === 'all-tipped';
+  const frameRoles = recovery ? roles.map((r) => ({ base: -r.tipped, threshold: -r.threshold, tipped: -r.base })) : roles;
+  const exits: Exit[] = [];
+  let unresolvedExits = 0;
+  let unresolvedSaddles = 0;
+  let skipped = 0;
+  let integrations = 0;
+  let truncated = false;
+  const all = equilibria.map((e) => e.x);
+
+  const follow = (saddle: Equilibrium, sign: 1 | -1): ManifoldBranch | null => {
+    if (budget.left < 1) { truncated = true; return null; }
+    budget.left -= 1;
+    integrations++;
+    return followBranch(system, p, saddle, sign, targets, settings, diagnostics);
+  };
+
+  for (const saddle of equilibria.filter(isIndexOneSaddle)) {
+    const v = saddle.unstableVector!;
+    const xs = saddle.x;
+    const step = settings.manifoldOffset * (1 + Math.max(...xs.map(Math.abs)));
+    let toward: 1 | -1 = 1;
+    let dot = 0;
+    for (let i = 0; i < xs.length; i++) dot += v[i] * (xStart[i] - xs[i]);
+    if (dot < 0) toward = -1;
+    const ordered = monotone && v.every((c) => c >= -1e-12);
+    const canReach = (sign: 1 | -1): boolean => {
+      if (!ordered) return true;
+      const x0 = xs.map((c, i) => c + sign * step * v[i]);
+      if (sign < 0) {
+        if (!leq(xStart, xs)) return false;
+        return all.every((y) => !leq(y, x0) || leq(y, xStart));
+      }
+      if (!leq(xs, xStart)) return false;
+      return all.every((y) => !leq(x0, y) || leq(xStart, y));
+    };
+    const first: 1 | -1 = ordered ? (canReach(-1) ? -1 : 1) : toward;
+    const second: 1 | -1 = first === 1 ? -1 : 1;
+    const firstCan = canReach(first);
+    const secondCan = canReach(second);
+    if (!firstCan && !secondCan) { skipped++; continue; }
+    const a = firstCan ? follow(saddle, first) : null;
+    if (truncated) break;
+    let toStart: ManifoldBranch | null = null;
+    let other: ManifoldBranch | null = null;
+    if (a && a.reached === s0) {
+      toStart = a;
+      other = follow(saddle, second);
+    } else {
+      if (firstCan && a && a.reached < 0 && !secondCan) { unresolvedSaddles++; continue; }
+      if (!secondCan) continue;
+      const b = follow(saddle, second);
+      if (truncated) break;
+      if (!b) continue;
+      if (b.reached !== s0) { if (b.reached < 0 || (a && a.reached < 0)) unresolvedSaddles++; continue; }
+      toStart = b;
+      other = firstCan ? a : follow(saddle, first);
+    }
+    if (truncated) break;
+    if (!other || other.reached < 0) { unresolvedExits++; continue; }
+    if (other.reached === s0) {
+      diagnostics.push({ level: 'warning', code: 'manifold-same-end', p,
+        message: `both branches of the unstable manifold of the saddle at [${xs.map(fmt).join(', ')}] (${system.parameter} = ${fmt(p)}) reach the ${start} state; it is not counted as an exit` });
+      continue;
+    }
+    const frameX = recovery ? xs.map((c) => -c) : xs;
+    const progress = progressOf(frameX, frameRoles);
+    const destination = targets.states[other.reached].pattern;
+    const engaged: number[] = [];
+    const tipping: number[] = [];
+    for (let i = 0; i < progress.length; i++) {
+      if (progress[i] >= settings.engagedProgress) engaged.push(i);
+      if (destination[i] !== level) tipping.push(i);
+    }
+    exits.push({ saddle: xs.slice(), destination: destination.slice(), progress, engaged, tipping, travelTimes: [toStart.time, other.time],
+      slope: progressSlope(system, xs, p, frameRoles, recovery) });
+  }
+  return { start: s0, states: targets.states, exits, unresolvedExits, unresolvedSaddles, skipped, integrations, truncated };
+}
