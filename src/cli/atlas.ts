@@ -26,7 +26,9 @@ It also carries the coupling regimes (docs/regimes.md):
     "regimes": [ { "from": 0, "to": 0.03, "regime": "weak", "bounds": ["sweep-bound", "saddle-node"],
                    "reason": "..." } ],
     "escapeGraphs": [ { "p": 0.015, "states": [ { "x": [..], "pattern": ["base", ..] } ],
-                        "saddles": [ { "x": [..], "from": 0, "to": 3, "pattern": [..], "kind": "contained" } ] } ]
+                        "saddles": [ { "x": [..], "from": 0, "to": 3, "pattern": [..], "kind": "contained" } ] } ],
+    "crossovers": [ { "p": 0.39, "kind": "engagement-crossover", "start": "all-base",
+                      "description": "engagement crossover: ..", "below": "intermediate", "above": "intermediate" } ]
 
 Options:
   --from P     sweep start (starting equilibria are computed here); default sweep.from
@@ -40,7 +42,8 @@ Results are indicative; defer to domain experts and local regulation.`;
 const REGIMES_HELP = `Usage: npm run --silent atlas -- regimes MODEL.json [--from P] [--to P] [--recovery]
 
 Traces the model like "trace" and prints only its coupling-regime bands as a table: from, to,
-regime (weak, intermediate, strong), the special points bounding the band and the reason.
+regime (weak, intermediate, strong), start, the kind of each edge (special point, saddle
+connection, engagement crossover, sweep bound), what bounds the band in words and the reason.
 Diagnostics of the regime analysis follow the table (e.g. "regimes undefined" for elements that are
 not bistable). Method: docs/regimes.md.
 
@@ -81,14 +84,23 @@ const trace: Command = {
       diagnostics: [...traced.diagnostics, ...labelled.diagnostics],
       regimes: labelled.regimes,
       escapeGraphs: labelled.escapeGraphs,
+      crossovers: labelled.crossovers,
     };
     emit(output, values.out);
   },
 };
 
+/** Kind of a band edge from its bounds text: a special point, a sweep end, or a located crossover. */
+function edgeKind(bound: string): string {
+  if (bound === 'sweep-bound') return 'sweep bound';
+  const colon = bound.indexOf(':');
+  if (colon > 0 && ['saddle connection', 'engagement crossover', 'label undefined'].includes(bound.slice(0, colon))) return bound.slice(0, colon);
+  return 'special point';
+}
+
 function regimesTable(bands: readonly RegimeBand[]): string {
-  const head = ['from', 'to', 'regime', 'start', 'bounds', 'reason'];
-  const rows = bands.map((b) => [num(b.from), num(b.to), b.regime, b.start ?? 'all-base', b.bounds.join(' | '), b.reason]);
+  const head = ['from', 'to', 'regime', 'start', 'edges', 'bounds', 'reason'];
+  const rows = bands.map((b) => [num(b.from), num(b.to), b.regime, b.start ?? 'all-base', b.bounds.map(edgeKind).join(' | '), b.bounds.join(' | '), b.reason]);
   const widths = head.slice(0, -1).map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const line = (r: string[]) => r.map((c, i) => (i < widths.length ? c.padEnd(widths[i]) : c)).join('  ').trimEnd();
   return [line(head), ...rows.map(line)].join('\n');

@@ -33,8 +33,11 @@ describe('atlas CLI coupling regimes', () => {
     const r = await run(['regimes', file('pair2.json', pair)]);
     expect(r.code).toBe(0);
     const lines = r.stdout.trim().split('\n');
-    expect(lines[0]).toMatch(/^from\s+to\s+regime\s+start\s+bounds\s+reason$/);
-    expect(lines.slice(1).map((l) => l.split(/\s{2,}/)[2])).toEqual(['weak', 'intermediate', 'strong']);
+    expect(lines[0]).toMatch(/^from\s+to\s+regime\s+start\s+edges\s+bounds\s+reason$/);
+    const rows = lines.slice(1).map((l) => l.split(/\s{2,}/));
+    expect(rows.map((r) => r[2])).toEqual(['weak', 'intermediate', 'strong']);
+    // Edges of the pair: the saddle-node and the pitchfork (special points) between the sweep ends.
+    expect(rows.map((r) => r[4])).toEqual(['sweep bound | special point', 'special point | special point', 'special point | sweep bound']);
   });
 
   it('regimes says "regimes undefined" for an element that is not bistable', { timeout: 120_000 }, async () => {
