@@ -76,6 +76,12 @@ export function criticalCoupling(
   const to = o.to ?? system.sweep.to;
   checkOptions(o, from, to, system.dimension);
   const s: ResolvedTraceSettings = { ...defaultTraceSettings, from, to, ...stripUndefined(o.trace) };
+  const traceKeys = ['initialStep', 'minStep', 'maxStep', 'maxParameterStep', 'maxTurn', 'maxPointsPerBranch', 'residualTolerance', 'stepTolerance', 'maxCorrectorIterations', 'locateParameterTolerance', 'locateMaxIterations', 'stateBound'] as const;
+  for (const k of traceKeys) {
+    const v = s[k];
+    if (typeof v !== 'number' || !Number.isFinite(v) || v <= 0) throw new OnsetInputError(`trace.${k}`, 'must be a positive finite number');
+  }
+  if (!(s.minStep <= s.initialStep && s.initialStep <= s.maxStep)) throw new OnsetInputError('trace', 'need minStep <= initialStep <= maxStep');
   const n = system.dimension;
   const ids = net.nodeIds.length === n ? [...net.nodeIds] : [...system.variables];
   const which = o.nodes ? [...o.nodes] : Array.from({ length: n }, (_, i) => i);
@@ -105,7 +111,6 @@ export function criticalCoupling(
   }
   const roles = rolesResult.roles as NodeRoles[];
   const ws = new BorderedWorkspace(n);
-  const locOpts = { parameterTolerance: s.locateParameterTolerance, maxIterations: s.locateMaxIterations };
   let allOk = true;
 
   for (let k = 0; k < which.length; k++) {

@@ -149,6 +149,7 @@ describe('criticalCoupling(system) input checks', () => {
     expect(() => criticalCoupling(system, { pastFold: 0 })).toThrow(/^pastFold: /);
     expect(() => criticalCoupling(system, { nodes: [2] })).toThrow(/^nodes: /);
     expect(() => criticalCoupling(system, { from: 0.3, to: 0.3 })).toThrow(/^to: /);
+    expect(() => criticalCoupling(system, { trace: { maxStep: -1 } })).toThrow(/^trace\.maxStep: /);
   });
 
   it('fails every node with an error diagnostic when an element is not bistable', () => {
