@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { compileModelJson } from '../../../src/lib/model';
 import type { CompiledSystem } from '../../../src/lib/model/compiled-system';
+import { barriersAt } from '../../../src/lib/noise/barriers';
 import { noiseGraphAt } from '../../../src/lib/noise/graph-at';
 import { NoiseSettingError } from '../../../src/lib/noise/noise-spec';
 import { predictEscapes } from '../../../src/lib/noise/prediction';
@@ -126,6 +127,30 @@ describe('predictEscapes(system, graph, barriers, spec, options)', () => {
       const up = pr.rates.find((x) => x.from === baseIndex(graph))!;
       expect(up.crossings.map((g) => g.slice().sort())).toEqual([['a', 'b']]);
       expect(pr.sequences.map((s) => s.probability)).toEqual([expect.closeTo(0.5, 14), expect.closeTo(0.5, 14)]);
+    });
+
+    it('gives the same prediction from barriersAt as from the closed-form potential (four states at beta = 0.1)', () => {
+      // Interface check with the barriers engine: detects the gradient, pairs (from, saddle, to) the same way; its
+      // barriers agree with 2 dV of the closed-form potential to about 1e-7, so rates agree to ~1e-5 at sigma = 0.25.
+      const graph = graphOf(system, diagram, 0.1);
+      expect(graph.graph.states).toHaveLength(4);
+      const computed = barriersAt(system, graph, new Float64Array([1, 1]));
+      expect(computed.gradient).toBe(true);
+      const spec = uniform(2, 0.25);
+      const start = baseIndex(graph);
+      const fromEngine = predictEscapes(system, graph, computed.barriers, spec, { start, gradient: computed.gradient });
+      const fromClosed = predictEscapes(system, graph, closedFormBarriers(graph, r, 0.1, [[0, 1]]), spec, { start, gradient: true });
+      expect(fromEngine.prefactor).toBe('eyring-kramers');
+      const key = (x: { from: number; saddle: number; to: number }) => `${x.from}:${x.saddle}:${x.to}`;
+      const closedRates = new Map(fromClosed.rates.map((x) => [key(x), x]));
+      expect(fromEngine.rates).toHaveLength(fromClosed.rates.length);
+      for (const x of fromEngine.rates) {
+        const y = closedRates.get(key(x))!;
+        expect(x.rate / y.rate - 1).toBeCloseTo(0, 4);
+        expect(x.crossings).toEqual(y.crossings);
+      }
+      expect(fromEngine.meanFirstEscape / fromClosed.meanFirstEscape - 1).toBeCloseTo(0, 4);
+      for (const s of fromEngine.sequences) expect(s.probability).toBeCloseTo(0.5, 6);
     });
   });
 
