@@ -79,13 +79,16 @@ export function equilibriaAt(
     }
     if (!r.converged) failures++;
   }
-  nearCriticalGuesses(system, p, found, settings, add);
+  const analysed = found.map((f) => analyseEquilibrium(system, f.x, p, f.residual, settings.hyperbolicTolerance, f.branch));
+  const before = found.length;
+  nearCriticalGuesses(system, p, found, analysed, settings, add);
+  for (const f of found.slice(before)) analysed.push(analyseEquilibrium(system, f.x, p, f.residual, settings.hyperbolicTolerance, f.branch));
   const diagnostics: Diagnostic[] = [];
   if (failures > 0) {
     diagnostics.push({ level: 'info', code: 'refine-failed', p,
       message: `${failures} of ${guesses.length} branch guesses at ${system.parameter} = ${fmt(p)} did not converge under Newton's method and were left out` });
   }
-  return { equilibria: found.map((f) => analyseEquilibrium(system, f.x, p, f.residual, settings.hyperbolicTolerance, f.branch)), diagnostics };
+  return { equilibria: analysed, diagnostics };
 }
 
 /** Spectrum and saddle data of one equilibrium. */
@@ -126,21 +129,25 @@ function nearCriticalGuesses(
   system: CompiledSystem,
   p: number,
   found: readonly { x: Float64Array }[],
+  analysed: readonly Equilibrium[],
   settings: EquilibriaSettings,
   add: (x: Float64Array, residual: number, branch: string) => boolean,
 ): void {
   const n = system.dimension;
   const jac = new Float64Array(n * n);
-  for (const f of found.slice()) {
+  const candidates = found.slice();
+  candidates.forEach((f, j) => {
+    const ev = analysed[j].eigenvalues;
+    let scale = 1;
+    for (const l of ev) scale = Math.max(scale, Math.hypot(l.re, l.im));
+    if (!ev.some((l) => l.im === 0 && Math.abs(l.re) < 1e-3 * scale)) return;
     system.jacobian(f.x, p, jac);
     const s = spectrum(jac, n);
-    let scale = 1;
-    for (let k = 0; k < n; k++) scale = Math.max(scale, Math.hypot(s.re[k], s.im[k]));
     let k0 = -1;
     for (let k = 0; k < n; k++) if (s.im[k] === 0 && Math.abs(s.re[k]) < 1e-3 * scale && (k0 < 0 || Math.abs(s.re[k]) < Math.abs(s.re[k0]))) k0 = k;
-    if (k0 < 0) continue;
+    if (k0 < 0) return;
     const w = s.vector(k0);
-    if (!w) continue;
+    if (!w) return;
     let size = 0;
     for (let i = 0; i < n; i++) size = Math.max(size, Math.abs(f.x[i]));
     for (const delta of [0.003, 0.01, 0.03, 0.1]) for (const sign of [1, -1]) {
@@ -148,7 +155,7 @@ function nearCriticalGuesses(
       const r = newtonAtFixedParameter(system, guess, p, settings.newtonTolerance, settings.newtonMaxIterations);
       if (r.converged) add(r.x, r.residual, 'near-critical');
     }
-  }
+  });
 }
 
 function maxNorm(a: ArrayLike<number>, b: ArrayLike<number>): number {
