@@ -19,6 +19,13 @@ const columnLetter = (c: number): string => {
   return s;
 };
 
+/**
+ * More cells than the header in a comma-separated file is what decimal commas do ("0,5" becomes two
+ * cells). The file alone cannot tell "0,5" from the cells 0 and 5, so the hint says "if".
+ */
+const DECIMAL_COMMA_HINT =
+  '; if the numbers use decimal commas (0,5), those split the cells: save the file with semicolons between cells, or with decimal points (0.5)';
+
 /** "row 3, column C (node "middle")" — how a modeler finds the cell in a spreadsheet. */
 export function describeCsvIssue(issue: CsvIssue): string {
   const where = issue.column === undefined ? `row ${issue.row}` : `row ${issue.row}, column ${columnLetter(issue.column)}`;
@@ -66,7 +73,10 @@ export function parseAdjacencyCsv(text: string): CsvParse {
     const rowNo = r + 1;
     const id = row[0] ?? '';
     if (row.length !== header.length) {
-      issues.push({ row: rowNo, message: `has ${row.length} cells but the header has ${header.length}` });
+      const comma = parsed.meta.delimiter === ',' && row.length > header.length;
+      issues.push({ row: rowNo, message: `has ${row.length} cells but the header has ${header.length}${comma ? DECIMAL_COMMA_HINT : ''}` });
+      // The row exists; only its cells are wrong. Without this its node was also reported as rowless.
+      if (column.has(id)) seen.add(id);
       continue;
     }
     const i = column.get(id);
@@ -84,7 +94,8 @@ export function parseAdjacencyCsv(text: string): CsvParse {
       if (cell === '') continue;
       const w = parseNumber(cell);
       if (w === null) {
-        issues.push({ row: rowNo, column: c + 1, message: `"${cell}" is not a number (link ${id} → ${ids[c - 1]})` });
+        const comma = /^[+-]?\d*,\d+$/.test(cell) ? `; write it with a decimal point: ${cell.replace(',', '.')}` : '';
+        issues.push({ row: rowNo, column: c + 1, message: `"${cell}" is not a number (link ${id} → ${ids[c - 1]})${comma}` });
       } else {
         matrix[i][c - 1] = w;
       }

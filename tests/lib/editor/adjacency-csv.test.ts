@@ -28,7 +28,8 @@ describe('parseAdjacencyCsv', () => {
       const text = r.issues.map(describeCsvIssue);
       expect(text).toContain('row 2: has 3 cells but the header has 4');
       expect(text).toContain('row 3, column A: node "zz" is not in the header row');
-      expect(text.some((t) => t.includes('node "a" is in the header but has no row'))).toBe(true);
+      // Row 2 is a's row, only with too few cells: a has a row, c has none.
+      expect(text.some((t) => t.includes('node "a" is in the header but has no row'))).toBe(false);
       expect(text.some((t) => t.includes('node "c" is in the header but has no row'))).toBe(true);
     }
   });
@@ -48,5 +49,34 @@ describe('parseAdjacencyCsv', () => {
 
   it('describeCsvIssue numbers columns past Z like a spreadsheet (AA)', () => {
     expect(describeCsvIssue({ row: 1, column: 27, message: 'x' })).toBe('row 1, column AA: x');
+  });
+  it('a ragged row does not make its node "lack a row": only the node really missing one is named', () => {
+    const r = parseAdjacencyCsv(',a,b,c\na,0,1,0,9\nb,0,0,1\n');
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      const text = r.issues.map(describeCsvIssue).join('\n');
+      expect(text).toContain('row 2: has 5 cells but the header has 4');
+      expect(text).toContain('node "c" is in the header but has no row');
+      expect(text).not.toContain('node "a" is in the header but has no row');
+    }
+  });
+  it('a comma-separated file with decimal commas gets a hint about them', () => {
+    const r = parseAdjacencyCsv(',a,b\na,0,0,5\nb,0,0\n');
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.issues).toHaveLength(1);
+      expect(describeCsvIssue(r.issues[0])).toMatch(/^row 2: has 4 cells but the header has 3; if the numbers use decimal commas \(0,5\), those split the cells/);
+    }
+  });
+  it('a semicolon file with a decimal comma in a cell suggests the number with a point', () => {
+    const r = parseAdjacencyCsv(';a;b\na;0;0,5\nb;0;0\n');
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(describeCsvIssue(r.issues[0])).toBe('row 2, column C: "0,5" is not a number (link a → b); write it with a decimal point: 0.5');
+  });
+  it('a row with too few cells, or a semicolon file, gets no decimal-comma hint', () => {
+    const r = parseAdjacencyCsv(',a,b\na,0\nb,0,0\n');
+    expect(!r.ok && describeCsvIssue(r.issues[0])).toBe('row 2: has 2 cells but the header has 3');
+    const s = parseAdjacencyCsv(';a;b\na;0;1;2\nb;0;0\n');
+    expect(!s.ok && describeCsvIssue(s.issues[0])).toBe('row 2: has 4 cells but the header has 3');
   });
 });

@@ -72,7 +72,11 @@ export function parseAdjacencyCsv(text: string, knownNodeIds: readonly string[])
     const rowNumber = r + 1;
     const cells = rows[r];
     if (cells.length !== header.length) {
-      problems.push({ row: rowNumber, message: `has ${cells.length} cells, the header row has ${header.length}` });
+      // More cells than the header in a comma file is what decimal commas do ("0,5" → two cells).
+      const hint = parsed.meta.delimiter === ',' && cells.length > header.length
+        ? '; if the numbers use decimal commas (0,5), those split the cells: save the file with semicolons between cells, or with decimal points (0.5)'
+        : '';
+      problems.push({ row: rowNumber, message: `has ${cells.length} cells, the header row has ${header.length}${hint}` });
       continue;
     }
     const from = cells[0];
@@ -87,7 +91,8 @@ export function parseAdjacencyCsv(text: string, knownNodeIds: readonly string[])
       if (raw === '') continue;
       // Number('') is 0 and Number('0x1') is 1; accept plain decimal and exponent notation only.
       if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(raw)) {
-        problems.push({ row: rowNumber, column: c + 1, message: `weight "${raw}" is not a number` });
+        const hint = /^[+-]?\d*,\d+$/.test(raw) ? `; write it with a decimal point: ${raw.replace(',', '.')}` : '';
+        problems.push({ row: rowNumber, column: c + 1, message: `weight "${raw}" is not a number${hint}` });
         continue;
       }
       const weight = Number(raw);

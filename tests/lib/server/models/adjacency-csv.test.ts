@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { parseAdjacencyCsv } from '../../../../src/lib/server/models/adjacency-csv.ts';
+import { describeProblems, parseAdjacencyCsv } from '../../../../src/lib/server/models/adjacency-csv.ts';
 
 const ids = ['upper', 'middle', 'lower'];
 
@@ -37,5 +37,11 @@ describe('parseAdjacencyCsv', () => {
     const r = parseAdjacencyCsv(',upper,middle,lower\nmiddle,0,1,0\nupper,0,0,1\nlower,0,0,0\n', ids);
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.problems[0]).toMatchObject({ row: 2, column: 1 });
+  });
+  it('hints at decimal commas: extra cells in a comma file, "0,5" in a semicolon file', () => {
+    const comma = parseAdjacencyCsv(',a,b\na,0,0,5\nb,0,0\n', ['a', 'b']);
+    expect(!comma.ok && describeProblems(comma.problems)).toContain('if the numbers use decimal commas (0,5)');
+    const semi = parseAdjacencyCsv(';a;b\na;0;0,5\nb;0;0\n', ['a', 'b']);
+    expect(!semi.ok && describeProblems(semi.problems)).toContain('weight "0,5" is not a number; write it with a decimal point: 0.5');
   });
 });
