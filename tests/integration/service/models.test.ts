@@ -121,6 +121,22 @@ describe('import and export', () => {
     expect(out.headers.get('content-disposition')).toMatch(/attachment/);
   });
 
+  it('POST /api/models/import of a name the workspace has makes "name (2)", then "name (3)", and says so', async () => {
+    const file = JSON.stringify(twoLakes({ name: 'Twin lakes import' }));
+    const send = () => w.modeler.request('POST', ws('/api/models/import', w.workspaceId), { raw: file, headers: { 'content-type': 'application/json' } });
+    const first = await send();
+    expect(first.status).toBe(201);
+    expect(first.body.model.name).toBe('Twin lakes import');
+    expect(first.body.renamedFrom).toBeUndefined();
+    const second = await send();
+    expect(second.status).toBe(201);
+    expect(second.body.model.name).toBe('Twin lakes import (2)');
+    expect(second.body.renamedFrom).toBe('Twin lakes import');
+    expect((await send()).body.model.name).toBe('Twin lakes import (3)');
+    const names = (await db('models').where({ workspace_id: w.workspaceId }).andWhere('name', 'like', 'Twin lakes import%').select('name')).map((r) => r.name).sort();
+    expect(names).toEqual(['Twin lakes import', 'Twin lakes import (2)', 'Twin lakes import (3)']);
+  });
+
   it('POST /api/models/[id]/import-csv turns an adjacency matrix into the links of a new version', async () => {
     const { modelId } = await createModel(w.modeler, w.workspaceId);
     const csv = ',upper,lower\nupper,0,0.5\nlower,0.25,0\n';

@@ -182,6 +182,23 @@ export async function createModel(workspaceId: string, actorId: string, input: C
   });
 }
 
+/**
+ * `name` if no model of the workspace (archived ones included) has it, else the first free
+ * "name (2)", "name (3)", … — so an import never makes a second model of the same name silently.
+ */
+export async function uniqueModelName(workspaceId: string, name: string, k: Knex = db): Promise<string> {
+  const base = name.replace(/ \((\d+)\)$/, '');
+  const rows = await k('models').where({ workspace_id: workspaceId }).andWhere((q) => q.where('name', base).orWhere('name', 'like', `${base.replace(/[\\%_]/g, '\\$&')} (%)`)).select('name');
+  // The column's collation compares case-insensitively; so does this, or "Lakes" would twin "lakes".
+  const taken = new Set(rows.map((r: Row) => String(r.name).toLowerCase()));
+  if (!taken.has(name.toLowerCase())) return name;
+  for (let n = 2; ; n++) {
+    const suffix = ` (${n})`;
+    const candidate = `${base.slice(0, 200 - suffix.length)}${suffix}`;
+    if (!taken.has(candidate.toLowerCase())) return candidate;
+  }
+}
+
 export async function updateModelMeta(workspaceId: string, actorId: string, modelId: number, patch: { name?: string; description?: string; tags?: string[] }): Promise<ModelSummary> {
   return db.transaction(async (trx) => {
     const row = await trx('models').where({ id: modelId, workspace_id: workspaceId }).forUpdate().first();
