@@ -15,10 +15,10 @@
  * exit (P the embedded jump matrix of the block's internal transitions), the expected time in the
  * block is sum_i u_i / q_i and the flow out of transition e from i is u_i k_e / q_i (Norris, Markov
  * Chains, 1997, Thm. 1.3.2 and 3.3.3, first-step analysis). States that cannot reach an exit trap
- * their mass ("stuck"). Dense LU per (escaped set, mode), so the work is about 2^n (states^3) plus
+ * their mass ("stuck"). Dense LU (flat Float64Array, onset/flat-lu.ts) per (escaped set, mode), so the work is about 2^n (states^3) plus
  * one solve per visited order prefix.
  */
-import { DenseLu } from '../numerics/dense-lu';
+import { FlatLu } from '../onset/flat-lu';
 import type { Diagnostic } from '../atlas/types';
 
 /** One directed transition of the chain. */
@@ -77,13 +77,13 @@ interface BlockSystem {
   /** Solvable states (can reach an exit) and their position in the LU. */
   readonly index: Int32Array;
   readonly members: number[];
-  readonly lu: DenseLu | null;
-  /** Per state: log q_i. */
-  readonly logQ: Float64Array;
-  /** Transitions leaving the block (add escapes), with their new groups. */
-  readonly exits: { readonly t: ChainTransition; readonly groups: number[][] }[];
-  /** Internal transitions. */
-  readonly internal: ChainTransition[];
+  readonly lu: FlatLu | null;
+  /** Per state: 1 / q_i (mean holding time). */
+  readonly hold: Float64Array;
+  /** Ways out of the block (transitions that add escapes), grouped by the order they append: (from, to, k / q_from * weight). */
+  readonly exits: { readonly order: number[]; readonly mask: number; readonly moves: { from: number; to: number; jump: number }[] }[];
+  /** Internal transitions with their jump probabilities. */
+  readonly internal: { readonly t: ChainTransition; readonly jump: number }[];
 }
 
 /**
@@ -114,8 +114,12 @@ export function solveEscapeChain(chain: EscapeChain, options?: Partial<EscapeCha
     const key = `${mode}:${mask}`;
     const hit = cache.get(key);
     if (hit) return hit;
+    const logQ = new Float64Array(ns).fill(-Infinity);
+    for (const t of live) logQ[t.from] = logAdd(logQ[t.from], t.logRate);
+    const jumpOf = (t: ChainTransition) => Math.exp(t.logRate - logQ[t.from]);
     const exits: BlockSystem['exits'] = [];
-    const internal: ChainTransition[] = [];
+    const internal: BlockSystem['internal'] = [];
+    const exitByOrder = new Map<string, BlockSystem['exits'][number]>();
     for (const t of live) {
       const groups: number[][] = [];
       let seen = mask;
@@ -124,18 +128,24 @@ export function solveEscapeChain(chain: EscapeChain, options?: Partial<EscapeCha
         for (const v of fresh) seen |= 1 << v;
         if (fresh.length > 0) groups.push(fresh);
       }
-      if (groups.length > 0) exits.push({ t, groups }); else internal.push(t);
+      if (groups.length > 0) {
+        for (const tail of orderings(groups)) {
+          const key = tail.order.join(',');
+          let e = exitByOrder.get(key);
+          if (!e) exitByOrder.set(key, (e = { order: tail.order, mask: tail.order.reduce((a, v) => a | (1 << v), 0), moves: [] }));
+          e.moves.push({ from: t.from, to: t.to, jump: jumpOf(t) * tail.weight });
+        }
+      } else internal.push({ t, jump: jumpOf(t) });
     }
-    const logQ = new Float64Array(ns).fill(-Infinity);
-    for (const t of live) logQ[t.from] = logAdd(logQ[t.from], t.logRate);
+    exits.push(...exitByOrder.values());
     // Backward reachability of the exit events over internal transitions.
     const good = new Uint8Array(ns);
-    for (const e of exits) good[e.t.from] = 1;
+    for (const e of exits) for (const mv of e.moves) good[mv.from] = 1;
     const watchStart = mode === 'watch';
     let changed = true;
     while (changed) {
       changed = false;
-      for (const t of internal) {
+      for (const { t } of internal) {
         if (watchStart && t.from === start) continue;
         if (!good[t.from] && (good[t.to] || (watchStart && t.to === start))) { good[t.from] = 1; changed = true; }
       }
@@ -145,20 +155,21 @@ export function solveEscapeChain(chain: EscapeChain, options?: Partial<EscapeCha
     const index = new Int32Array(ns).fill(-1);
     for (let i = 0; i < ns; i++) if (good[i]) { index[i] = members.length; members.push(i); }
     const m = members.length;
-    let lu: DenseLu | null = null;
+    let lu: FlatLu | null = null;
     if (m > 0) {
       // A^T with A = I - P restricted to the members: (A^T)[j][i] = delta_ij - P_ij.
       const at = new Float64Array(m * m);
       for (let k = 0; k < m; k++) at[k * m + k] = 1;
-      for (const t of internal) {
+      for (const { t, jump } of internal) {
         const i = index[t.from];
         const j = index[t.to];
         if (i < 0 || j < 0) continue;
-        at[j * m + i] -= Math.exp(t.logRate - logQ[t.from]);
+        at[j * m + i] -= jump;
       }
-      lu = new DenseLu(at, m);
+      lu = new FlatLu(m).factor(at);
     }
-    const s: BlockSystem = { index, members, lu, logQ, exits, internal };
+    const hold = logQ.map((v) => Math.exp(-v));
+    const s: BlockSystem = { index, members, lu, hold, exits, internal };
     cache.set(key, s);
     return s;
   };
@@ -201,26 +212,24 @@ export function solveEscapeChain(chain: EscapeChain, options?: Partial<EscapeCha
       lostByLevel[level] += lost + rhs.reduce((a, v) => a + v, 0);
       return { toStart };
     }
-    for (let k = 0; k < m; k++) timeByLevel[level] += u[k] * Math.exp(-sys.logQ[sys.members[k]]);
-    for (const t of sys.internal) {
+    for (let k = 0; k < m; k++) timeByLevel[level] += u[k] * sys.hold[sys.members[k]];
+    for (const { t, jump } of sys.internal) {
       const i = sys.index[t.from];
       if (i < 0 || u[i] === 0) continue;
-      const flow = u[i] * Math.exp(t.logRate - sys.logQ[t.from]);
+      const flow = u[i] * jump;
       if (mode === 'watch' && t.to === start) toStart += flow;
       else if (sys.index[t.to] < 0) lost += flow;
     }
     for (const e of sys.exits) {
-      const i = sys.index[e.t.from];
-      if (i < 0 || u[i] === 0) continue;
-      const flow = u[i] * Math.exp(e.t.logRate - sys.logQ[e.t.from]);
-      for (const tail of orderings(e.groups)) {
-        const order = [...b.order, ...tail.order];
-        let mask = b.mask;
-        for (const v of tail.order) mask |= 1 << v;
-        const next = entry(order, mask);
-        // Level 0 has nothing escaped yet, so its visits to the start are no returns and its exits are not yet returned.
-        const notReturned = (mode === 'watch' || level === 0) && mask !== full;
-        (notReturned ? next.watch : next.free)[e.t.to] += flow * tail.weight;
+      const mask = b.mask | e.mask;
+      // Level 0 has nothing escaped yet, so its visits to the start are no returns and its exits are not yet returned.
+      const notReturned = (mode === 'watch' || level === 0) && mask !== full;
+      let next: Block | null = null;
+      for (const mv of e.moves) {
+        const i = sys.index[mv.from];
+        if (i < 0 || u[i] === 0) continue;
+        next ??= entry([...b.order, ...e.order], mask);
+        (notReturned ? next.watch : next.free)[mv.to] += u[i] * mv.jump;
       }
     }
     lostByLevel[level] += lost;
