@@ -99,6 +99,23 @@ describe('predictEscapes(system, graph, barriers, spec, options)', () => {
     });
   });
 
+  it('gives three uncoupled identical nodes six orders of 1/6 and k-th escape means tau (1/3 + ... + 1/(4 - k))', () => {
+    // Exchangeability, and the order statistics of three independent Exp(1/tau) first passages (Renyi's
+    // representation: the gaps are Exp with rates 3/tau, 2/tau, 1/tau), so E T_k = tau sum_{j<k} 1/(3 - j).
+    const r = 0.1;
+    const system = compileModelJson(cubicNetwork({ r, nodes: ['n0', 'n1', 'n2'], links: [], sweep: { parameter: 'r', from: -0.2, to: 0.2 } }));
+    const graph = graphOf(system, uncoupledDiagram(3, -0.2, 0.2), r);
+    const sigma = 0.3;
+    const pr = predictEscapes(system, graph, closedFormBarriers(graph, r, 0, []), uniform(3, sigma), { start: baseIndex(graph), gradient: true });
+    expect(pr.sequences).toHaveLength(6);
+    for (const s of pr.sequences) expect(s.probability).toBeCloseTo(1 / 6, 12);
+    const { a, m } = cubicRoots(r);
+    const V = (x: number) => x ** 4 / 4 - x * x / 2 - r * x;
+    const tau = (2 * Math.PI) / Math.sqrt((1 - 3 * m * m) * Math.abs(1 - 3 * a * a)) * Math.exp((2 * (V(m) - V(a))) / sigma ** 2);
+    const expected = [1 / 3, 1 / 3 + 1 / 2, 1 / 3 + 1 / 2 + 1].map((h) => h * tau);
+    pr.meanKthEscape.forEach((t, k) => expect(t / expected[k] - 1).toBeCloseTo(0, 10));
+  });
+
   describe('symmetric diffusive pair (gradient, r = 0.1)', () => {
     const r = 0.1;
     const system = compileModelJson(cubicNetwork({ r, nodes: ['a', 'b'], links: [{ from: 'a', to: 'b', twoWay: true }], sweep: { parameter: 'beta', from: 0, to: 1 } }));
