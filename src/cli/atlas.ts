@@ -6,7 +6,7 @@
 import { parseArgs } from 'node:util';
 import { toTraceJson, traceDiagram } from '../lib/atlas/index.js';
 import { ModelError } from '../lib/model/index.js';
-import { labelRegimes, type RegimeBand } from '../lib/regimes/index.js';
+import { bandEdgeKind, labelRegimes, type RegimeBand } from '../lib/regimes/index.js';
 import { compile, emit, numberOption, readModel, UsageError, type Command } from './cli-common.js';
 import { barriersCommand } from './barriers-command.js';
 import { onset } from './onset-command.js';
@@ -90,17 +90,9 @@ const trace: Command = {
   },
 };
 
-/** Kind of a band edge from its bounds text: a special point, a sweep end, or a located crossover. */
-function edgeKind(bound: string): string {
-  if (bound === 'sweep-bound') return 'sweep bound';
-  const colon = bound.indexOf(':');
-  if (colon > 0 && ['saddle connection', 'engagement crossover', 'label undefined'].includes(bound.slice(0, colon))) return bound.slice(0, colon);
-  return 'special point';
-}
-
 function regimesTable(bands: readonly RegimeBand[]): string {
   const head = ['from', 'to', 'regime', 'start', 'edges', 'bounds', 'reason'];
-  const rows = bands.map((b) => [num(b.from), num(b.to), b.regime, b.start ?? 'all-base', b.bounds.map(edgeKind).join(' | '), b.bounds.join(' | '), b.reason]);
+  const rows = bands.map((b) => [num(b.from), num(b.to), b.regime, b.start ?? 'all-base', b.bounds.map(bandEdgeKind).join(' | '), b.bounds.join(' | '), b.reason]);
   const widths = head.slice(0, -1).map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const line = (r: string[]) => r.map((c, i) => (i < widths.length ? c.padEnd(widths[i]) : c)).join('  ').trimEnd();
   return [line(head), ...rows.map(line)].join('\n');

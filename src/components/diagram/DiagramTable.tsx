@@ -7,6 +7,7 @@ import { project, type Projection } from '../../lib/plot/projection';
 import { splitRuns } from '../../lib/plot/runs';
 import { formatValue } from '../../lib/plot/ticks';
 import type { BandTag, RegimeBand } from '../../lib/regimes/types';
+import { locatedBandEdges } from '../../lib/regimes/band-edge';
 
 const END_WORDS: Record<string, string> = {
   'sweep-bound': 'edge of the sweep', 'closed-loop': 'closed on itself', merged: 'met another branch', 'point-cap': 'point cap reached',
@@ -16,6 +17,7 @@ const END_WORDS: Record<string, string> = {
 export const DiagramTable = memo(function DiagramTable({ diagram, projection, regimes, tags, onOpenSpecial }: {
   diagram: Diagram; projection: Projection; regimes: readonly RegimeBand[]; tags: readonly BandTag[]; onOpenSpecial: (id: string) => void;
 }) {
+  const crossings = locatedBandEdges(regimes);
   return (
     <details className="dg-tables">
       <summary>Diagram as tables (branches, special points, bands)</summary>
@@ -55,6 +57,17 @@ export const DiagramTable = memo(function DiagramTable({ diagram, projection, re
           ))}
         </tbody>
       </table>
+      {crossings.length ? (
+        <table data-testid="crossover-table">
+          <caption>Located band edges (saddle connections and engagement crossovers, bisected to 1e-9; mark ◇ in the diagram)</caption>
+          <thead><tr><th scope="col">Kind</th><th scope="col">{diagram.parameter}</th><th scope="col">What changes</th></tr></thead>
+          <tbody>
+            {crossings.map((c) => (
+              <tr key={`${c.p}|${c.text}`}><th scope="row"><span className="dg-crossover-mark" aria-hidden="true">◇</span> {c.kind}</th><td className="num">{formatValue(c.p, 10)}</td><td>{c.text.slice(c.text.indexOf(':') + 2)}</td></tr>
+            ))}
+          </tbody>
+        </table>
+      ) : null}
       {regimes.length ? (
         <table data-testid="band-table">
           <caption>Coupling regime bands</caption>

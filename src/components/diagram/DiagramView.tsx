@@ -16,6 +16,7 @@ import { labelWidth, stackRows } from '../../lib/plot/stack-rows';
 import { decimateByPixel } from '../../lib/plot/thin';
 import { formatValue, integerTicks, linearAxis } from '../../lib/plot/ticks';
 import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
+import { locatedBandEdges } from '../../lib/regimes/band-edge';
 import { ExportMenu } from '../export/ExportMenu';
 import { DiagramTable } from './DiagramTable';
 import { Legend } from './Legend';
@@ -72,6 +73,7 @@ export function DiagramView(props: DiagramViewProps) {
     b.points.forEach((pt, i) => { ps[i] = pt.p; ys[i] = project(pt.x, projection); });
     return { ps, ys, runs: splitRuns(b) };
   }), [diagram, projection]);
+  const crossings = useMemo(() => locatedBandEdges(regimes), [regimes]);
   const totalPoints = useMemo(() => diagram.branches.reduce((s, b) => s + b.points.length, 0), [diagram]);
 
   const ext = useMemo(() => diagramExtent(diagram, projection), [diagram, projection]);
@@ -304,6 +306,18 @@ export function DiagramView(props: DiagramViewProps) {
                 {regimes.map((b, i) => {
                   const x0 = Math.max(-2, xs(b.from)), x1 = Math.min(plotW + 2, xs(b.to));
                   return x1 > x0 ? <rect key={i} className={`dg-band dg-band-${b.regime}`} x={x0} width={x1 - x0} y={0} height={plotH} /> : null;
+                })}
+                {/* Located band edges (saddle connections, engagement crossovers): a dashed line and a diamond, unlike any special-point glyph. */}
+                {crossings.map((c) => {
+                  const x = xs(c.p);
+                  if (x < -2 || x > plotW + 2) return null;
+                  return (
+                    <g key={`${c.p}|${c.text}`} className={`dg-crossover dg-crossover-${c.kind.replace(' ', '-')}`} data-testid="crossover-mark">
+                      <line x1={x} x2={x} y1={0} y2={plotH} strokeDasharray="1 3" />
+                      <path d={`M ${x} 2 L ${x + 4} 7 L ${x} 12 L ${x - 4} 7 Z`} />
+                      <title>{c.text}</title>
+                    </g>
+                  );
                 })}
                 {xAxis.ticks.map((t) => <line key={`gx${t.value}`} className="dg-grid" x1={t.pos} x2={t.pos} y1={0} y2={plotH} />)}
                 {yTicks.map((t) => <line key={`gy${t.value}`} className="dg-grid" x1={0} x2={plotW} y1={t.pos} y2={t.pos} />)}

@@ -6,6 +6,15 @@ import { markerFillRule, markerPath, SPECIAL_DESCRIPTION, SPECIAL_LABEL } from '
 import { project, projectionLabel, type Projection } from '../../lib/plot/projection';
 import { formatValue } from '../../lib/plot/ticks';
 import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
+import { bandEdgeKind } from '../../lib/regimes/band-edge';
+
+/** The words after the edge kind: the special point's types, or what changed at a located crossover. */
+function edgeDetail(bound: string | undefined): string {
+  if (!bound || bound === 'sweep-bound') return '';
+  const kind = bandEdgeKind(bound);
+  if (kind === 'special point') return `: ${bound}`;
+  return bound.slice(bound.indexOf(':'));
+}
 import { EscapeGraphDrawing } from './EscapeGraphDrawing';
 import type { Selection } from './types';
 
@@ -161,7 +170,8 @@ export function SidePanel({ diagram, projection, selection, regimes, escapeGraph
         <h3 className="dg-panel-title" tabIndex={-1} ref={headRef}><span className={`dg-swatch dg-band-${band.regime}`} aria-hidden="true" />{REGIME_LABEL[band.regime]}</h3>{close}
         <dl className="dg-dl">
           <dt>Range</dt><dd className="num">{formatValue(band.from, 8)} to {formatValue(band.to, 8)}</dd>
-          <dt>Bounded by</dt><dd>{band.bounds.join(' and ')}</dd>
+          <dt>Lower edge</dt><dd data-testid="band-lower-edge"><span className="dg-edge-kind">{bandEdgeKind(band.bounds[0] ?? '')}</span>{edgeDetail(band.bounds[0])}</dd>
+          <dt>Upper edge</dt><dd data-testid="band-upper-edge"><span className="dg-edge-kind">{bandEdgeKind(band.bounds[1] ?? '')}</span>{edgeDetail(band.bounds[1])}</dd>
         </dl>
         <h4>Reason</h4>
         <p className="dg-reason" data-testid="band-reason">{band.reason}</p>
