@@ -20,6 +20,7 @@
  */
 import { FlatLu } from '../onset/flat-lu';
 import type { Diagnostic } from '../atlas/types';
+import type { CancelSignal } from './types';
 
 /** One directed transition of the chain. */
 export interface ChainTransition {
@@ -50,6 +51,8 @@ export interface EscapeChainOptions {
   readonly maxAugmentedStates: number;
   /** Probability below which missing mass (stuck or dropped) is not reported as a warning; default 1e-12. */
   readonly massTolerance: number;
+  /** Checked before every block; when aborted the remaining mass is dropped with a 'prediction-cancelled' diagnostic. */
+  readonly signal?: CancelSignal;
 }
 
 export const defaultEscapeChainOptions: EscapeChainOptions = { maxAugmentedStates: 2_000_000, massTolerance: 1e-12 };
@@ -66,7 +69,7 @@ export interface EscapeChainResult {
   /** Probability mass that never completes: trapped in states without a way to further escapes, or dropped at the cap. */
   readonly incomplete: number;
   readonly augmentedStates: number;
-  /** False when the cap was hit. */
+  /** False when the cap was hit or the run was cancelled. */
   readonly complete: boolean;
   readonly diagnostics: Diagnostic[];
 }
@@ -98,6 +101,8 @@ export function solveEscapeChain(chain: EscapeChain, options?: Partial<EscapeCha
   if (!(Number.isInteger(ns) && ns > 0)) throw new RangeError(`states: must be a positive integer, got ${ns}`);
   if (!(Number.isInteger(nodes) && nodes > 0 && nodes <= 30)) throw new RangeError(`nodes: must be an integer in 1..30, got ${nodes}`);
   if (!(Number.isInteger(start) && start >= 0 && start < ns)) throw new RangeError(`start: must be a state index, got ${start}`);
+  if (!(Number.isInteger(o.maxAugmentedStates) && o.maxAugmentedStates > 0)) throw new RangeError(`maxAugmentedStates: must be a positive integer, got ${o.maxAugmentedStates}`);
+  if (!(o.massTolerance >= 0 && o.massTolerance < 1)) throw new RangeError(`massTolerance: must be in [0, 1), got ${o.massTolerance}`);
   chain.transitions.forEach((t, k) => {
     if (!(t.from >= 0 && t.from < ns && t.to >= 0 && t.to < ns && Number.isInteger(t.from) && Number.isInteger(t.to))) {
       throw new RangeError(`transitions[${k}]: from/to must be state indices`);
@@ -191,6 +196,7 @@ export function solveEscapeChain(chain: EscapeChain, options?: Partial<EscapeCha
   let returned = 0;
   let augmented = 0;
   let capped = false;
+  let cancelled = false;
   let solveFailures = 0;
 
   // Runs entry mass `pi` through the block system; sends exits on, returns mass that reached the start (watch mode).
@@ -244,8 +250,9 @@ export function solveEscapeChain(chain: EscapeChain, options?: Partial<EscapeCha
         sequences.push({ order: b.order, probability: mass });
         continue;
       }
-      if (capped || augmented + ns > o.maxAugmentedStates) {
-        capped = true;
+      if (!cancelled && o.signal?.aborted) cancelled = true;
+      if (cancelled || capped || augmented + ns > o.maxAugmentedStates) {
+        if (!cancelled) capped = true;
         let mass = 0;
         for (let i = 0; i < ns; i++) mass += b.free[i] + b.watch[i];
         lostByLevel[level] += mass;
@@ -276,7 +283,10 @@ export function solveEscapeChain(chain: EscapeChain, options?: Partial<EscapeCha
     meanKthEscape.push(lostSoFar > o.massTolerance ? Infinity : timeSoFar);
   }
   const incomplete = lostSoFar + lostByLevel[nodes];
-  if (capped) {
+  if (cancelled) {
+    diagnostics.push({ level: 'warning', code: 'prediction-cancelled',
+      message: `the escape chain was cancelled; probability ${fmtP(incomplete)} was not followed to the end` });
+  } else if (capped) {
     diagnostics.push({ level: 'warning', code: 'prediction-chain-cap',
       message: `the escape chain reached its cap of ${o.maxAugmentedStates} augmented states; probability ${fmtP(incomplete)} was not followed to the end` });
   } else if (incomplete > o.massTolerance) {
@@ -291,7 +301,7 @@ export function solveEscapeChain(chain: EscapeChain, options?: Partial<EscapeCha
     diagnostics.push({ level: 'error', code: 'prediction-singular',
       message: `${solveFailures} block systems of the escape chain were singular; their mass is counted as incomplete` });
   }
-  return { sequences, meanKthEscape, reachProbability, returnProbability: returned, incomplete, augmentedStates: augmented, complete: !capped, diagnostics };
+  return { sequences, meanKthEscape, reachProbability, returnProbability: returned, incomplete, augmentedStates: augmented, complete: !capped && !cancelled, diagnostics };
 }
 
 /** All orders of a list of tied groups, with weight 1 / prod |g|!. */

@@ -9,7 +9,7 @@ import type { NodeRoles } from '../regimes/element-roles';
 import { fmt } from '../regimes/element-roles';
 import { integrateFlow, type FlowSettings } from '../regimes/flow';
 import { defaultRegimeOptions } from '../regimes/options';
-import type { Barrier, NoiseGraph, NoiseSpec } from './types';
+import type { Barrier, CancelSignal, NoiseGraph, NoiseSpec, Progress } from './types';
 import { NoiseSettingError } from './noise-spec';
 import { eyringKramersPrefactor } from './prefactor';
 import { solveEscapeChain, type ChainTransition, type EscapeChainOptions } from './markov-chain';
@@ -63,6 +63,10 @@ export interface PredictionOptions {
   readonly chain?: Partial<EscapeChainOptions>;
   /** Warn when the lowest barrier out of the start is below this many level^2; default 3 (common practice, no source). */
   readonly weakNoiseRatio?: number;
+  /** Checked before every manifold integration and every chain block; an aborted run returns what it has, with a 'prediction-cancelled' diagnostic. */
+  readonly signal?: CancelSignal;
+  /** Called after every manifold integration (stage 'crossings') and once when the chain is solved (stage 'chain'). */
+  readonly progress?: Progress;
 }
 
 /** (threshold + tipped) / 2 per node, the default escape threshold (docs/noise.md). */
@@ -142,7 +146,9 @@ export function predictEscapes(
   const crossingCache = new Map<string, { groups: number[][]; ok: boolean }>();
   const rates: PredictedRate[] = [];
   const transitions: ChainTransition[] = [];
+  let cancelled = false;
   usable.forEach((b, k) => {
+    if (cancelled || options.signal?.aborted) { cancelled = true; return; }
     const key = `${b.from}:${b.saddle}:${b.to}`;
     let c = crossingCache.get(key);
     if (!c) {
@@ -156,7 +162,14 @@ export function predictEscapes(
     const logRate = Math.log(C ?? 1) - barrier / level2;
     rates.push({ from: b.from, saddle: b.saddle, to: b.to, rate: Math.exp(logRate), logRate, prefactor: C, barrier, crossings: c.groups.map((g) => g.map((i) => names[i])) });
     transitions.push({ from: b.from, to: b.to, logRate, crossings: c.groups });
+    options.progress?.({ fraction: (0.9 * (k + 1)) / usable.length, stage: 'crossings' });
   });
+  if (cancelled) {
+    diagnostics.push({ level: 'warning', code: 'prediction-cancelled', p, message: `cancelled after ${rates.length} of ${usable.length} transitions; no sequences were predicted` });
+    const none = Array.from({ length: n }, () => Number.NaN);
+    return { prefactor: kind, rates, sequences: [], meanFirstEscape: Number.NaN, meanKthEscape: none, meanLastEscape: Number.NaN,
+      returnProbability: Number.NaN, incomplete: 1, thresholds: Array.from(thresholds), diagnostics };
+  }
 
   const outOfStart = usable.filter((b) => b.from === options.start);
   if (outOfStart.length === 0) {
@@ -170,7 +183,8 @@ export function predictEscapes(
     }
   }
 
-  const chain = solveEscapeChain({ states: states.length, nodes: n, start: options.start, transitions }, options.chain);
+  const chain = solveEscapeChain({ states: states.length, nodes: n, start: options.start, transitions }, { ...(options.chain ?? {}), signal: options.signal ?? options.chain?.signal });
+  options.progress?.({ fraction: 1, stage: 'chain' });
   diagnostics.push(...chain.diagnostics.map((d) => ({ ...d, p })));
   return {
     prefactor: kind,

@@ -72,9 +72,17 @@ describe('solveEscapeChain(chain)', () => {
     expect(r.diagnostics.map((x) => x.code)).toContain('prediction-chain-cap');
   });
 
+  it('stops when cancelled and says so', () => {
+    const r = solveEscapeChain(chain, { signal: { aborted: true } });
+    expect(r.complete).toBe(false);
+    expect(r.incomplete).toBe(1);
+    expect(r.diagnostics.map((x) => x.code)).toEqual(['prediction-cancelled']);
+  });
+
   it('rejects bad indices naming the field', () => {
     expect(() => solveEscapeChain({ ...chain, start: 5 })).toThrow(/start/);
     expect(() => solveEscapeChain({ ...chain, transitions: [t(0, 7, 1)] })).toThrow(/transitions\[0\]/);
     expect(() => solveEscapeChain({ ...chain, nodes: 31 })).toThrow(/nodes/);
+    expect(() => solveEscapeChain(chain, { maxAugmentedStates: 0 })).toThrow(/maxAugmentedStates/);
   });
 });

@@ -191,6 +191,18 @@ describe('predictEscapes(system, graph, barriers, spec, options)', () => {
     expect(total + pr.incomplete).toBeCloseTo(1, 12);
   });
 
+  it('reports progress up to 1 and returns a partial answer when cancelled', () => {
+    const barriers = closedFormBarriers(singleGraph, 0, 0, []);
+    const fractions: number[] = [];
+    predictEscapes(single, singleGraph, barriers, uniform(1, 0.2), { start: 0, gradient: true, progress: (x) => fractions.push(x.fraction) });
+    expect(fractions.at(-1)).toBe(1);
+    expect(fractions.every((f, k) => k === 0 || f >= fractions[k - 1])).toBe(true);
+    const cancelled = predictEscapes(single, singleGraph, barriers, uniform(1, 0.2), { start: 0, gradient: true, signal: { aborted: true } });
+    expect(cancelled.sequences).toEqual([]);
+    expect(cancelled.incomplete).toBe(1);
+    expect(cancelled.diagnostics.map((d) => d.code)).toContain('prediction-cancelled');
+  });
+
   it('rejects a bad level, start or thresholds naming the field', () => {
     const barriers = closedFormBarriers(singleGraph, 0, 0, []);
     const call = (level: number, start: number, thresholds?: Float64Array) => () =>
