@@ -55,8 +55,8 @@ describe('the model editor and the run view, as the demo modeler', () => {
     // A symbol without a parameter first: the validator's message appears under the field.
     const rateInput = page.getByLabel('Rate expression');
     await rateInput.fill('a - b * P + c');
-    await page.getByRole('button', { name: 'Add parameter' }).click();
-    await page.getByRole('button', { name: 'Add parameter' }).click();
+    await page.getByRole('button', { name: 'Add parameter', exact: true }).click();
+    await page.getByRole('button', { name: 'Add parameter', exact: true }).click();
     await page.getByLabel('Value of a').fill('0.05');
     await page.getByLabel('Value of b').fill('0.6');
     await expect.poll(() => rateInput.getAttribute('aria-invalid'), { timeout: 5000 }).toBe('true');
@@ -116,7 +116,7 @@ describe('the model editor and the run view, as the demo modeler', () => {
     await page.getByTestId('save-model').click();
     await expect.poll(() => page.locator('.ed-save .ed-ok').textContent(), { timeout: 10000 }).toContain('Saved as version 2');
     // The history shows the field-level change.
-    await expect.poll(() => page.locator('.ed-diff-list').textContent(), { timeout: 10000 }).toContain('nodes[1].parameters: added {"b":0.55}');
+    await expect.poll(() => page.locator('.ed-diff-list').textContent(), { timeout: 10000 }).toContain('Node middle parameters: added {"b":0.55}');
     await shootBothThemes(page, 'model-edit');
     await context.close();
   }, 60_000);
@@ -161,7 +161,7 @@ describe('importing a model document from the models page', () => {
     const input = page.getByLabel('Import from a file (model document, JSON)');
     const broken = { ...document, sweep: { parameter: 'nothing', from: 0, to: 1 } };
     await input.setInputFiles({ name: 'broken.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(broken)) });
-    await expect.poll(() => page.locator('#import-error').textContent(), { timeout: 10000 }).toContain('sweep.parameter');
+    await expect.poll(() => page.locator('#import-error').textContent(), { timeout: 10000 }).toContain('Swept parameter: unknown parameter');
     await input.setInputFiles({ name: 'imported.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify({ ...document, name: 'E2E imported copy' })) });
     await page.waitForURL(/\/models\/\d+$/, { timeout: 15000 });
     expect(await page.getByTestId('model-name').textContent()).toBe('E2E imported copy');

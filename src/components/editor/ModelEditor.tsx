@@ -1,6 +1,6 @@
-import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
 import {
-  documentToState, emptyEditorState, stateToDocument, type EditorState, type FieldIssue, type NetworkDocument,
+  changeKind, documentToState, emptyEditorState, fieldLabel, recordChange, redo, startHistory, undo, plainMessage, stateToDocument, unknownSymbols, type EditorState, type FieldIssue, type LabelContext, type NetworkDocument,
 } from '../../lib/editor';
 import type { Diagram, Diagnostic } from '../../lib/atlas/types';
 import { api } from './api-client';
@@ -16,6 +16,8 @@ import './editor.css';
 export const PREVIEW_MAX_NODES = 4;
 /** Quiet time after the last keystroke before validating and previewing. */
 const DEBOUNCE_MS = 300;
+/** Preview status while the model is incomplete; see previewMessage for what is shown. */
+const NOT_READY = 'not-ready';
 
 export interface ModelEditorProps {
   /** Absent for a new model. */
@@ -34,7 +36,11 @@ type PreviewState =
 
 /** The model editor island: every field of a network document, live checks, preview and saving. */
 export default function ModelEditor({ modelId, initialDocument, initialDescription, latestVersion }: ModelEditorProps) {
-  const [state, setStateRaw] = useState<EditorState>(() => (initialDocument ? documentToState(initialDocument, initialDescription ?? '') : starterState()));
+  // Every edit goes through the undo history; the form shows its present state.
+  const [history, setHistory] = useState(() => startHistory<EditorState>(initialDocument ? documentToState(initialDocument, initialDescription ?? '') : starterState()));
+  const state = history.present;
+  /** Replaces the form as one undoable step (loading a version). */
+  const setStateRaw = useCallback((f: (s: EditorState) => EditorState) => setHistory((h) => recordChange(h, f(h.present), null, Date.now())), []);
   const [serverIssues, setServerIssues] = useState<FieldIssue[]>([]);
   const [checking, setChecking] = useState(false);
   const [preview, setPreview] = useState<PreviewState>({ kind: 'idle', message: 'The preview appears once the model is valid.' });
@@ -50,11 +56,29 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   /** Set just before navigating away after a successful save, so the unsaved-changes guard stays quiet. */
   const leaving = useRef(false);
 
-  const setState = useCallback((f: (s: EditorState) => EditorState) => {
-    setStateRaw(f);
+  /** An edit; `ownStep` makes it an undo step of its own even when it looks like typing (a CSV load). */
+  const setState = useCallback((f: (s: EditorState) => EditorState, ownStep?: boolean) => {
+    setHistory((h) => {
+      const next = f(h.present);
+      return recordChange(h, next, ownStep ? null : changeKind(h.present, next), Date.now());
+    });
     setDirty(true);
     setSaved('');
   }, []);
+  const step = useCallback((direction: 'undo' | 'redo') => {
+    setHistory((h) => (direction === 'undo' ? undo(h) : redo(h)));
+    setDirty(true);
+    setSaved('');
+  }, []);
+  const onKeyDown = (e: KeyboardEvent) => {
+    if (!(e.ctrlKey || e.metaKey) || e.altKey) return;
+    const key = e.key.toLowerCase();
+    if (key === 'z' || key === 'y') {
+      // Our history, not the text field's own: the form state is what gets saved.
+      e.preventDefault();
+      step(key === 'y' || e.shiftKey ? 'redo' : 'undo');
+    }
+  };
   const announce = useCallback((m: string) => setAnnouncement(m), []);
 
   const conversion = useMemo(() => stateToDocument(state), [state]);
@@ -82,7 +106,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   useEffect(() => {
     if (!conversion.ok) {
       setServerIssues([]);
-      setPreview({ kind: 'idle', message: 'Fix the fields marked above to see a preview.' });
+      setPreview({ kind: 'idle', message: NOT_READY });
       return;
     }
     const doc = conversion.document;
@@ -101,7 +125,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
         }
         setServerIssues(v.data.issues ?? []);
         if (!v.data.valid) {
-          setPreview({ kind: 'idle', message: 'Fix the fields marked above to see a preview.' });
+          setPreview({ kind: 'idle', message: NOT_READY });
           return;
         }
         if (doc.nodes.length > PREVIEW_MAX_NODES) {
@@ -114,7 +138,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
         if (!p.ok) setPreview({ kind: 'error', message: p.message });
         else if (!p.data.valid || !p.data.diagram) {
           setServerIssues(p.data.issues ?? []);
-          setPreview({ kind: 'idle', message: 'Fix the fields marked above to see a preview.' });
+          setPreview({ kind: 'idle', message: NOT_READY });
         } else {
           setPreview({ kind: 'done', diagram: p.data.diagram, diagnostics: p.data.diagnostics ?? p.data.diagram.diagnostics, elapsedMs: p.data.elapsedMs, truncated: p.data.truncated });
         }
@@ -181,6 +205,9 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
     }
     const n = (r.data as { version?: { number: number } }).version?.number ?? version + 1;
     setVersion(n);
+    // The page heading ("Edit … from version N") is server-rendered outside the island.
+    const heading = document.querySelector('[data-testid="edit-heading-version"]');
+    if (heading) heading.textContent = `at version ${n}, just saved`;
     setChangeNote('');
     setHistoryKey((k) => k + 1);
     const msg = `Saved as version ${n}.`;
@@ -189,13 +216,23 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   };
 
   const rateIssues = issuesAt(issues, 'element.rate');
+  const rateUnknowns = unknownSymbols(state.rate, [state.variable.trim(), ...state.parameters.map((p) => p.name.trim())])
+    .filter((name) => name !== state.coupling.parameter.trim() && name !== 'source' && name !== 'target');
+  const addParameter = (name: string) => {
+    setState((s) => (s.parameters.some((p) => p.name === name) ? s : { ...s, parameters: [...s.parameters, { name, value: '0' }] }));
+    announce(`Parameter ${name} added with the value 0.`);
+  };
   const termIssues = issuesAt(issues, 'coupling.term');
   const sweepChoices = [...new Set([state.coupling.parameter, ...state.parameters.map((p) => p.name)].filter(Boolean))];
 
   return (
-    <form className="ed-root" onSubmit={(e) => { e.preventDefault(); void save(); }} noValidate aria-label="Model editor">
+    <form className="ed-root" onSubmit={(e) => { e.preventDefault(); void save(); }} onKeyDown={onKeyDown} noValidate aria-label="Model editor">
       <div className="ed-sr" role="status" aria-live="polite">{announcement}</div>
-      <ErrorSummary issues={issues} checking={checking} pending={!conversion.ok || serverIssues.length > 0} />
+      <div className="ed-row ed-undo" role="toolbar" aria-label="Undo and redo">
+        <button type="button" className="ed-btn ed-btn-quiet" onClick={() => step('undo')} disabled={history.past.length === 0} aria-keyshortcuts="Control+Z" title="Undo (Ctrl+Z)">Undo</button>
+        <button type="button" className="ed-btn ed-btn-quiet" onClick={() => step('redo')} disabled={history.future.length === 0} aria-keyshortcuts="Control+Shift+Z" title="Redo (Ctrl+Shift+Z)">Redo</button>
+      </div>
+      <ErrorSummary issues={issues} checking={checking} pending={!conversion.ok || serverIssues.length > 0} context={state} />
 
       <section className="ed-section" aria-labelledby="ed-basics-h">
         <h2 id="ed-basics-h">Model</h2>
@@ -215,9 +252,23 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
               onChange={(v) => setState((s) => ({ ...s, rate: v }))}
               issues={issues}
               mono
-              placeholder="a - b * P + P^8 / (1 + P^8)"
+              placeholder={ratePlaceholder(state.variable)}
               hint="Arithmetic, ^ for powers, and exp, log, sqrt, sin, cos, tan, tanh, abs…"
-              after={<MarkedExpression id="ed-rate-marked" expression={state.rate} messages={rateIssues.map((i) => i.message)} />}
+              after={
+                <>
+                  <MarkedExpression id="ed-rate-marked" expression={state.rate} messages={rateIssues.map((i) => i.message)} />
+                  {rateUnknowns.length > 0 ? (
+                    <p className="ed-row ed-unknowns" data-testid="rate-unknowns">
+                      <span className="ed-hint">Not yet parameters:</span>
+                      {rateUnknowns.map((name) => (
+                        <button key={name} type="button" className="ed-btn ed-btn-quiet" onClick={() => addParameter(name)}>
+                          Add parameter <span className="ed-mono">{name}</span>
+                        </button>
+                      ))}
+                    </p>
+                  ) : null}
+                </>
+              }
             />
           </div>
           <TexPreview expression={state.rate} variable={state.variable} label="Typeset rate equation" />
@@ -274,7 +325,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
         <h2 id="ed-preview-h">Live preview</h2>
         <p className="ed-hint">Recomputed a moment after you stop typing, for networks of up to {PREVIEW_MAX_NODES} nodes. Indicative only: a saved run gives the full, stored diagram.</p>
         <div aria-live="polite" className="ed-preview-status" data-testid="preview-status">
-          {preview.kind === 'busy' ? 'Computing the preview…' : preview.kind === 'idle' ? preview.message : preview.kind === 'error' ? preview.message : `${preview.diagram.branches.length} branches, ${preview.diagram.bifurcations.length} special points${preview.elapsedMs !== undefined ? ` in ${Math.round(preview.elapsedMs)} ms` : ''}${preview.truncated ? ' (cut short to stay fast — the run computes all of it)' : ''}.`}
+          {preview.kind === 'busy' ? 'Computing the preview…' : preview.kind === 'idle' ? previewMessage(preview.message, issues.length) : preview.kind === 'error' ? preview.message : `${preview.diagram.branches.length} branches, ${preview.diagram.bifurcations.length} special points${preview.elapsedMs !== undefined ? ` in ${Math.round(preview.elapsedMs)} ms` : ''}${preview.truncated ? ' (cut short to stay fast — the run computes all of it)' : ''}.`}
         </div>
         {preview.kind === 'done' ? (
           <>
@@ -324,7 +375,24 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   );
 }
 
-function ErrorSummary({ issues, checking, pending }: { issues: readonly FieldIssue[]; checking: boolean; pending: boolean }) {
+/** The idle preview text: "fix the marked fields" only when some field is marked. */
+function previewMessage(message: string, shownIssues: number): string {
+  if (message !== NOT_READY) return message;
+  return shownIssues > 0 ? 'Fix the fields marked above to see a preview.' : 'The preview appears once the model is complete: a rate, its parameters and at least one node.';
+}
+
+/** The rate placeholder in the modeler's current variable (the form starts with x). */
+function ratePlaceholder(variable: string): string {
+  const v = /^[A-Za-z_][A-Za-z0-9_]*$/.test(variable.trim()) ? variable.trim() : 'x';
+  return `a - b * ${v} + ${v}^8 / (1 + ${v}^8)`;
+}
+
+/** Summary entries keep the nodes' ids for labels like "b on node upper". */
+function labelContext(state: EditorState): LabelContext {
+  return { nodes: state.nodes, links: state.links };
+}
+
+function ErrorSummary({ issues, checking, pending, context }: { issues: readonly FieldIssue[]; checking: boolean; pending: boolean; context: EditorState }) {
   return (
     <div className="ed-summary" aria-live="polite" data-testid="issue-summary">
       {issues.length === 0 ? (
@@ -335,7 +403,7 @@ function ErrorSummary({ issues, checking, pending }: { issues: readonly FieldIss
           <ul>
             {issues.slice(0, 12).map((i, k) => (
               <li key={k}>
-                <a href={`#${fieldDomId(i.path)}`} className="ed-mono">{i.path}</a>: {i.message}
+                <a href={`#${fieldDomId(i.path)}`}>{fieldLabel(i.path, labelContext(context))}</a>: {plainMessage(i.message, i.path)}
               </li>
             ))}
           </ul>

@@ -8,7 +8,7 @@ import { NetworkDrawing } from './NetworkDrawing';
 
 interface Props {
   state: EditorState;
-  setState: (f: (s: EditorState) => EditorState) => void;
+  setState: (f: (s: EditorState) => EditorState, ownStep?: boolean) => void;
   issues: readonly FieldIssue[];
   announce: (message: string) => void;
 }
@@ -40,7 +40,7 @@ export function NetworkEditor({ state, setState, issues, announce }: Props) {
       ...s,
       nodes: [...s.nodes, ...added.map((id) => ({ id, overrides: {} }))],
       links: matrixToLinks(r.nodeIds, r.matrix),
-    }));
+    }), true);
     setCsvProblems([]);
     const note = `Links replaced from ${file.name}: ${r.nodeIds.length} nodes${added.length ? `, new nodes ${added.join(', ')}` : ''}.`;
     setCsvNote(note);
@@ -87,6 +87,9 @@ export function NetworkEditor({ state, setState, issues, announce }: Props) {
         </div>
         <div className="ed-drawing">
           <NetworkDrawing nodeIds={ids} links={state.links} />
+          {state.links.length > 0 ? (
+            <p className="ed-hint" data-testid="network-legend">Line width: size of the weight. <span className="ed-legend-negative">Dashed</span>: negative weight.</p>
+          ) : null}
         </div>
       </div>
 

@@ -1,4 +1,4 @@
-import type { EditorState, FieldIssue } from '../../lib/editor';
+import { unknownSymbols, type EditorState, type FieldIssue } from '../../lib/editor';
 import { CellInput, FieldErrors, fieldDomId, issuesAt } from './fields';
 
 interface Props {
@@ -125,8 +125,11 @@ export function ParametersTable({ state, setState, issues }: Props) {
         onClick={() =>
           setState((s) => {
             const used = new Set(s.parameters.map((p) => p.name));
-            let name = 'a';
-            for (let c = 97; used.has(name); c++) name = c <= 122 ? String.fromCharCode(c) : `p${c - 122}`;
+            // The rate's own unknown symbols first, so the new row is the parameter the rate needs.
+            const wanted = unknownSymbols(s.rate, [s.variable.trim(), ...used])
+              .filter((n) => n !== s.coupling.parameter.trim() && n !== 'source' && n !== 'target');
+            let name = wanted[0] ?? 'a';
+            for (let c = 97; !wanted.length && used.has(name); c++) name = c <= 122 ? String.fromCharCode(c) : `p${c - 122}`;
             return { ...s, parameters: [...s.parameters, { name, value: '0' }] };
           })
         }

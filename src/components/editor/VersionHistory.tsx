@@ -1,10 +1,10 @@
 import { useEffect, useState } from 'react';
-import { diffJson, formatDiffEntry } from '../../lib/editor';
+import { describeDiffEntry, diffJson, type LabelContext } from '../../lib/editor';
 import { api, type VersionSummary } from './api-client';
 
 /**
  * The model's versions, newest first, and a field-level diff of any two of them
- * ("nodes[1].parameters.a: 0.07 → 0.05").
+ * in the modeler's words ("Link alder → birch weight: 0.25 → 0.2").
  */
 export function VersionHistory({ modelId, refreshKey, onLoad }: { modelId: string; refreshKey: number; onLoad?: (document: unknown, number: number) => void }) {
   const [versions, setVersions] = useState<VersionSummary[] | null>(null);
@@ -35,7 +35,9 @@ export function VersionHistory({ modelId, refreshKey, onLoad }: { modelId: strin
       if (!ra.ok || !rb.ok) { setDiffError((!ra.ok ? ra.message : !rb.ok ? rb.message : '')); return; }
       setDiffError('');
       const parse = (d: unknown) => (typeof d === 'string' ? JSON.parse(d) : d);
-      setDiff(diffJson(parse(ra.data.version.document), parse(rb.data.version.document)).map(formatDiffEntry));
+      const before = parse(ra.data.version.document) as LabelContext;
+      const after = parse(rb.data.version.document) as LabelContext;
+      setDiff(diffJson(before, after).map((e) => describeDiffEntry(e, before, after)));
     });
     return () => { live = false; };
   }, [modelId, pair?.a, pair?.b]);
@@ -79,7 +81,7 @@ export function VersionHistory({ modelId, refreshKey, onLoad }: { modelId: strin
           {diff === null && !diffError ? <p className="ed-hint">Computing the differences…</p> : null}
           {diff && diff.length === 0 ? <p className="ed-hint">The two versions are identical.</p> : null}
           {diff && diff.length > 0 ? (
-            <ul className="ed-diff-list ed-mono" aria-label={`Differences from v${pair.a} to v${pair.b}`}>
+            <ul className="ed-diff-list" aria-label={`Differences from v${pair.a} to v${pair.b}`}>
               {diff.map((line, k) => <li key={k}>{line}</li>)}
             </ul>
           ) : null}

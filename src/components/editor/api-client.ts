@@ -2,7 +2,7 @@
  * Every request the editor island makes, in one place, so the API's JSON shape is known in one file.
  * Errors come back as { ok: false, message, issues } in words a modeler reads, never as exceptions.
  */
-import { issuesFromErrorBody, normalizeIssuePath, type FieldIssue, type NetworkDocument } from '../../lib/editor';
+import { issuesFromErrorBody, normalizeIssuePath, plainMessage, type FieldIssue, type NetworkDocument } from '../../lib/editor';
 import type { Diagram, Diagnostic } from '../../lib/atlas/types';
 
 export type ApiResult<T> = { ok: true; data: T } | { ok: false; status: number; message: string; issues: FieldIssue[] };
@@ -41,7 +41,7 @@ export async function request<T>(method: string, url: string, body?: unknown, si
   }
   if (res.ok) return { ok: true, data: data as T };
   const serverMessage = (data as { error?: { message?: string } } | null)?.error?.message;
-  const message = res.status === 400 || res.status === 422 ? (serverMessage ?? 'The model has problems.') : (STATUS_WORDS[res.status] ?? serverMessage ?? `The server answered ${res.status}.`);
+  const message = res.status === 400 || res.status === 422 ? (serverMessage ? plainMessage(serverMessage) : 'The model has problems.') : (STATUS_WORDS[res.status] ?? serverMessage ?? `The server answered ${res.status}.`);
   return { ok: false, status: res.status, message, issues: issuesFromErrorBody(data) };
 }
 

@@ -1,5 +1,5 @@
 import { useId, type ReactNode } from 'react';
-import type { FieldIssue } from '../../lib/editor';
+import { plainMessage, type FieldIssue } from '../../lib/editor';
 
 /** Issues whose path is exactly `path`. */
 export function issuesAt(issues: readonly FieldIssue[], path: string): FieldIssue[] {
@@ -16,7 +16,7 @@ export function FieldErrors({ id, issues }: { id: string; issues: readonly Field
   return (
     <ul id={id} className="ed-field-errors">
       {issues.map((i, k) => (
-        <li key={k}>{i.message}</li>
+        <li key={k}>{plainMessage(i.message, i.path)}</li>
       ))}
     </ul>
   );

@@ -1,5 +1,6 @@
 import { useState, type ChangeEvent } from 'react';
 import '../editor/editor.css';
+import { plainMessage } from '../../lib/editor/field-labels';
 
 /**
  * Import a model document (JSON file) as a new model through the service's import endpoint; the
@@ -27,7 +28,7 @@ export default function ImportModel() {
       const body = await res.json().catch(() => null);
       if (!res.ok) {
         const issues = (body?.error?.details?.issues ?? body?.error?.issues ?? []) as { path?: string; field?: string; message: string }[];
-        const first = body?.error?.message ?? `the server answered ${res.status}`;
+        const first = body?.error?.message ? plainMessage(body.error.message) : `the server answered ${res.status}`;
         setError(issues.length > 1 ? `${first}` : first);
         return;
       }

@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { request } from '../editor/api-client';
+import { describeIssue } from '../../lib/editor/field-labels';
 import '../editor/editor.css';
 
 /** "Start a run" form on the model overview: version, optional sweep range, e-mail when done. */
@@ -30,7 +31,7 @@ export default function StartRun({ modelId, versions, defaultFrom, defaultTo, pa
     const r = await request<{ run: { id: number } }>('POST', '/api/runs', { modelId, version, settings, notify });
     if (!r.ok) {
       setBusy(false);
-      setError(r.issues.length ? r.issues.map((i) => `${i.path}: ${i.message}`).join('; ') : r.message);
+      setError(r.issues.length ? r.issues.map((i) => describeIssue(i)).join('; ') : r.message);
       return;
     }
     window.location.assign(`/runs/${r.data.run.id}`);

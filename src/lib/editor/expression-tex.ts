@@ -12,7 +12,10 @@ export type TexResult = { ok: true; tex: string } | { ok: false; message: string
 export function expressionToTex(expression: string): TexResult {
   if (expression.trim() === '') return { ok: false, message: 'empty expression' };
   try {
-    return { ok: true, tex: parse(expression).toTex({ parenthesis: 'auto', implicit: 'show' }) };
+    // mathjs prints names it also knows as units ("b", "rK"…) upright as \mathrm{…}; every symbol
+    // of a rate is a variable or a parameter, so all of them are set in italics.
+    const tex = parse(expression).toTex({ parenthesis: 'auto', implicit: 'show' });
+    return { ok: true, tex: tex.replace(/\\mathrm\{([A-Za-z][A-Za-z0-9]*)\}/g, '\\mathit{$1}') };
   } catch (err) {
     return { ok: false, message: err instanceof Error ? err.message : String(err) };
   }

@@ -6,3 +6,7 @@ export * from './version-diff';
 export * from './expression-tex';
 export * from './network-layout';
 export * from './api-errors';
+export * from './field-labels';
+export * from './expression-symbols';
+export * from './directed-links';
+export * from './undo-history';

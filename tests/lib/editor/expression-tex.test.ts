@@ -19,4 +19,10 @@ describe('expressionToTex', () => {
     const r = rateEquationTex('x', 'r + x^2');
     expect(r.ok && r.tex.startsWith('\\frac{\\mathrm{d}x}{\\mathrm{d}t} = ')).toBe(true);
   });
+  it('sets every parameter in italics, also names mathjs knows as units ("b", "rK")', () => {
+    const r = expressionToTex('a - b * P + rK * P');
+    expect(r.ok && r.tex).toContain('\\mathit{b}');
+    expect(r.ok && r.tex).toContain('\\mathit{rK}');
+    expect(r.ok && r.tex).not.toContain('\\mathrm');
+  });
 });
