@@ -31,7 +31,7 @@ export const isStable = (e: Equilibrium) => e.unstable === 0 && e.neutral === 0;
 export const isIndexOneSaddle = (e: Equilibrium) => e.unstable === 1 && e.neutral === 0 && e.unstableVector !== undefined;
 
 /**
- * Every equilibrium the diagram shows at parameter p: on each branch, every segment between
+ * Every equilibrium the diagram shows at parameter p (plus those reached from `extraGuesses`): on each branch, every segment between
  * consecutive points whose parameter values enclose p gives a guess by linear interpolation in p,
  * refined by Newton's method at fixed p (when Newton fails or moves farther than half the segment, or a
  * tenth of it onto an equilibrium already found, the segment's two end points are tried too); converged points closer than duplicateTolerance
@@ -42,6 +42,7 @@ export function equilibriaAt(
   diagram: Diagram,
   p: number,
   settings: EquilibriaSettings,
+  extraGuesses: readonly (readonly number[])[] = [],
 ): { equilibria: Equilibrium[]; diagnostics: Diagnostic[] } {
   const guesses: { x: number[]; branch: string; ends?: [number[], number[]] }[] = [];
   for (const b of diagram.branches) {
@@ -55,6 +56,7 @@ export function equilibriaAt(
     }
     if (pts.length === 1 && pts[0].p === p) guesses.push({ x: pts[0].x.slice(), branch: b.id });
   }
+  for (const x of extraGuesses) guesses.push({ x: x.slice(), branch: 'guess' });
   const found: { x: Float64Array; residual: number; branch: string }[] = [];
   let failures = 0;
   const add = (x: Float64Array, residual: number, branch: string): boolean => {
@@ -77,7 +79,8 @@ export function equilibriaAt(
         if (e.converged) add(e.x, e.residual, g.branch);
       }
     }
-    if (!r.converged) failures++;
+    // Extra guesses are tries, not branch points: their failures are not reported.
+    if (!r.converged && g.branch !== 'guess') failures++;
   }
   const analysed = found.map((f) => analyseEquilibrium(system, f.x, p, f.residual, settings.hyperbolicTolerance, f.branch));
   const before = found.length;
@@ -86,7 +89,7 @@ export function equilibriaAt(
   const diagnostics: Diagnostic[] = [];
   if (failures > 0) {
     diagnostics.push({ level: 'info', code: 'refine-failed', p,
-      message: `${failures} of ${guesses.length} branch guesses at ${system.parameter} = ${fmt(p)} did not converge under Newton's method and were left out` });
+      message: `${failures} of ${guesses.length - extraGuesses.length} branch guesses at ${system.parameter} = ${fmt(p)} did not converge under Newton's method and were left out` });
   }
   return { equilibria: analysed, diagnostics };
 }

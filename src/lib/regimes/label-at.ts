@@ -93,7 +93,20 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
   const equilibriaFor = (p: number) => {
     let hit = eqCache.get(p);
     if (!hit) {
-      const eq = equilibriaAt(system, diagram, p, o);
+      // A diagram traced from another start can miss the branch of the start states (the continuation
+      // found other equilibria first). The uncoupled all-base and all-tipped states, and each single
+      // node at its threshold with the others at their base or tipped root, are tried as guesses too,
+      // so that the label does not depend on which branches the diagram happened to trace.
+      const roles = rolesAt(p);
+      const extra: number[][] = [];
+      if (roles.every((r) => r !== null)) {
+        const rs = roles as NodeRoles[];
+        extra.push(rs.map((r) => r.base), rs.map((r) => r.tipped));
+        for (let i = 0; i < n; i++) {
+          extra.push(rs.map((r, j) => (j === i ? r.threshold : r.base)), rs.map((r, j) => (j === i ? r.threshold : r.tipped)));
+        }
+      }
+      const eq = equilibriaAt(system, diagram, p, o, extra);
       eq.diagnostics.forEach(note);
       hit = { equilibria: eq.equilibria, monotone: o.monotoneSkip && looksCooperative(system, eq.equilibria, p) };
       eqCache.set(p, hit);
