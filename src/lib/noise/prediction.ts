@@ -240,6 +240,8 @@ function transitionCrossings(
     const offset = (options.manifoldOffset ?? defaultRegimeOptions.manifoldOffset) * (1 + maxAbs(saddle.x));
     const radius = Math.min(1e-3 * (1 + maxAbs(target)), 0.25 * maxDist(target, saddle.x));
     // The branch whose first step points towards `to` is the one that reaches it.
+    const others = graph.graph.states.filter((_, k) => k !== b.to)
+      .map((st) => ({ x: st.x, r: Math.min(1e-3 * (1 + maxAbs(st.x)), 0.25 * maxDist(st.x, saddle.x)) }));
     const toward = saddle.x.reduce((a, c, i) => a + (target[i] - c) * v[i], 0) >= 0 ? 1 : -1;
     for (const sign of [toward, -toward]) {
       const saved = Float64Array.from(first);
@@ -253,7 +255,8 @@ function transitionCrossings(
         tPrev = t;
         xPrev = x.slice();
         if (maxDist(x, target) < radius) { arrived = true; return true; }
-        return false;
+        // Settled near another stable state: this is the other branch.
+        return others.some((y) => maxDist(x, y.x) < y.r);
       });
       if (arrived) { ok = true; break; }
       first.set(saved);
