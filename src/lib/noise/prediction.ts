@@ -52,7 +52,7 @@ export interface Prediction {
 export interface PredictionOptions {
   /** Index into graph.graph.states of the start state. */
   readonly start: number;
-  /** Escape threshold per node; default (threshold + tipped) / 2 of the node's roles. */
+  /** Escape threshold per node; default halfwayThresholds(roles, start state): halfway from the threshold root to the root escaped to. */
   readonly thresholds?: Float64Array;
   /** Whether the scaled field is a gradient (barriersAt's answer): decides the prefactor. */
   readonly gradient: boolean;
@@ -69,9 +69,14 @@ export interface PredictionOptions {
   readonly progress?: Progress;
 }
 
-/** (threshold + tipped) / 2 per node, the default escape threshold (docs/noise.md). */
-export function halfwayThresholds(roles: readonly NodeRoles[]): Float64Array {
-  return Float64Array.from(roles, (r) => (r.threshold + r.tipped) / 2);
+/**
+ * Default escape thresholds (docs/noise.md), the same definition as the Monte Carlo's escapeThresholds:
+ * halfway between the threshold root and the root the node escapes to, (threshold + tipped) / 2 for a
+ * node that starts below its threshold root (at `start`; all nodes when `start` is omitted) and
+ * (threshold + base) / 2 for one that starts above it (recovery from tipped).
+ */
+export function halfwayThresholds(roles: readonly NodeRoles[], start?: ArrayLike<number>): Float64Array {
+  return Float64Array.from(roles, (r, i) => (start && start[i] > r.threshold ? (r.threshold + r.base) / 2 : (r.threshold + r.tipped) / 2));
 }
 
 /**
@@ -104,7 +109,7 @@ export function predictEscapes(
   if (!(Number.isInteger(options.start) && options.start >= 0 && options.start < states.length)) {
     throw new NoiseSettingError('start', `must index one of the ${states.length} stable states, got ${options.start}`);
   }
-  const thresholds = options.thresholds ?? halfwayThresholds(graph.roles);
+  const thresholds = options.thresholds ?? halfwayThresholds(graph.roles, states[options.start].x);
   if (thresholds.length !== n || !Array.from(thresholds).every(Number.isFinite)) {
     throw new NoiseSettingError('thresholds', `need ${n} finite values, one per node`);
   }

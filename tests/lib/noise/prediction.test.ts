@@ -203,6 +203,16 @@ describe('predictEscapes(system, graph, barriers, spec, options)', () => {
     expect(cancelled.diagnostics.map((d) => d.code)).toContain('prediction-cancelled');
   });
 
+  it('escapes downwards from all-tipped, past (threshold + base) / 2 by default, with the mirrored Kramers time', () => {
+    // r = 0: the double well is symmetric, so recovery from +1 has the same time pi sqrt 2 exp(1/(2 sigma^2)) (Kramers 1940).
+    const barriers = closedFormBarriers(singleGraph, 0, 0, []);
+    const tipped = singleGraph.graph.states.findIndex((s) => s.pattern[0] === 'tipped');
+    const pr = predictEscapes(single, singleGraph, barriers, uniform(1, 0.2), { start: tipped, gradient: true });
+    expect(pr.thresholds).toEqual([expect.closeTo(-0.5, 9)]);
+    expect(pr.sequences).toEqual([{ order: ['n0'], probability: expect.closeTo(1, 14) }]);
+    expect(pr.meanFirstEscape / (Math.PI * Math.SQRT2 * Math.exp(1 / (2 * 0.04))) - 1).toBeCloseTo(0, 12);
+  });
+
   it('rejects a bad level, start or thresholds naming the field', () => {
     const barriers = closedFormBarriers(singleGraph, 0, 0, []);
     const call = (level: number, start: number, thresholds?: Float64Array) => () =>
