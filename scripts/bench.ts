@@ -21,6 +21,7 @@ import { defaultTraceSettings } from '../src/lib/atlas/trace-settings.js';
 import { labelRegimes } from '../src/lib/regimes/index.js';
 import { labelRegimesByMidpoint } from '../src/lib/regimes/midpoint-labeller.js';
 import { onsetSection } from './bench-onset.js';
+import { barriersSection } from './bench-barriers.js';
 
 export interface BenchSection {
   readonly title: string;
@@ -278,6 +279,7 @@ const regimesSection: BenchSection = {
 
 export const sections: BenchSection[] = [engineSection, regimesSection];
 sections.push(onsetSection);
+sections.push(barriersSection);
 
 // BENCH_ONLY=regimes (a word of the title) runs only the matching sections.
 const only = process.env.BENCH_ONLY?.toLowerCase();
