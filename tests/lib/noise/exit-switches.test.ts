@@ -72,4 +72,17 @@ describe('exitSwitches(system, diagram, from, to, weights)', () => {
     expect(cancelled.cancelled).toBe(true);
     expect(cancelled.switches).toEqual([]);
   });
+
+  it('reports a lowest exit that changes because its saddle vanishes at a fold as a diagnostic, not a switch', () => {
+    // Symmetric pair r = 0.1 swept over beta: the partially tipped states and their saddles vanish in
+    // the fold at beta_sn = 1/3 - (r/2)^(2/3) = 0.197 (fixtures.ts); past it all-base leaves only over
+    // the synchronous saddles to all-tipped, which do not exist before it.
+    const pairDoc = cubicNetwork({ r: 0.1, nodes: ['a', 'b'], links: [{ from: 'a', to: 'b', twoWay: true }], sweep: { parameter: 'beta', from: 0.15, to: 0.25 } });
+    const pair = compileModelJson(pairDoc);
+    const res = exitSwitches(pair, traceDiagram(pair), 0.15, 0.25, new Float64Array([1, 1]), { samplesPerInterval: 2 });
+    expect(res.switches).toEqual([]);
+    const vanished = res.diagnostics.filter((d) => d.code === 'exit-saddle-vanished');
+    expect(vanished.length).toBeGreaterThan(0);
+    for (const d of vanished) expect(d.p!).toBeGreaterThan(1 / 3 - Math.pow(0.05, 2 / 3));
+  });
 });
