@@ -8,6 +8,7 @@ import { toTraceJson, traceDiagram } from '../lib/atlas/index.js';
 import { ModelError } from '../lib/model/index.js';
 import { bandEdgeKind, labelRegimes, type RegimeBand } from '../lib/regimes/index.js';
 import { compile, emit, numberOption, readModel, UsageError, type Command } from './cli-common.js';
+import { escapes } from './escapes-command.js';
 import { barriersCommand } from './barriers-command.js';
 import { onset } from './onset-command.js';
 
@@ -131,6 +132,7 @@ const commands: Record<string, Command> = {
   regimes,
   onset,
   barriers: barriersCommand,
+  escapes,
 };
 
 function helpText(): string {
