@@ -48,21 +48,23 @@ describe('atlas barriers', () => {
     expect(e.barrier).toBeCloseTo(T(0.1) / 4, 10);
   });
 
-  it('--help defines states, from and saddle and exits 0', async () => {
+  it('--help defines states, from and saddle and exits 0', { timeout: 120_000 }, async () => {
     const r = await runCli(['barriers', '--help']);
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/^Usage: npm run --silent atlas -- barriers MODEL\.json/);
     for (const word of ['"states"', '"from"', '"saddle"', '"exitSwitches"']) expect(r.stdout).toContain(word);
   });
 
-  it('exits 2 with one line naming the field for bad input', async () => {
-    const bad = await runCli(['barriers', file('u2.json', uncoupled), '--from', 'x']);
+  it('exits 2 with one line naming the field for bad input', { timeout: 120_000 }, async () => {
+    const [bad, missing, same] = await Promise.all([
+      runCli(['barriers', file('u2.json', uncoupled), '--from', 'x']),
+      runCli(['barriers']),
+      runCli(['barriers', file('u3.json', uncoupled), '--from', '0.1', '--to', '0.1']),
+    ]);
     expect(bad.code).toBe(2);
     expect(bad.stderr.trim()).toBe("--from: expected a finite number, got 'x'");
-    const missing = await runCli(['barriers']);
     expect(missing.code).toBe(2);
     expect(missing.stderr).toMatch(/^MODEL\.json: /);
-    const same = await runCli(['barriers', file('u3.json', uncoupled), '--from', '0.1', '--to', '0.1']);
     expect(same.code).toBe(2);
     expect(same.stderr).toMatch(/^--to: /);
   });
