@@ -81,7 +81,7 @@ describe('budget, step and thresholds', () => {
     expect(estimateWork(100, 2, 0.01, 1000, 50)).toEqual({ nodeSteps: 100 * 5000 * 2, stepsPerPath: 5000, basis: 'prediction' });
     expect(estimateWork(100, 2, 0.01, 10, 50).basis).toBe('t-max');
     expect(() => checkBudget(estimateWork(1e6, 6, 0.01, 1e4), 1e9)).toThrow(BudgetExceededError);
-    expect(() => checkBudget(estimateWork(1e6, 6, 0.01, 1e4), 1e9)).toThrow(/6\.00e\+15 node-steps.*larger noise level.*prediction/);
+    expect(() => checkBudget(estimateWork(1e6, 6, 0.01, 1e4), 1e9)).toThrow(/6\.00e\+12 node-steps.*larger noise level.*prediction/);
     expect(() => checkBudget(estimateWork(10, 1, 0.1, 1), 1e9)).not.toThrow();
   });
   it('defaultStep is 0.05 / max |lambda|; compareSteps passes iff |shift| < 2 half-widths', () => {
