@@ -22,11 +22,12 @@ import { labelRegimes } from '../src/lib/regimes/index.js';
 import { labelRegimesByMidpoint } from '../src/lib/regimes/midpoint-labeller.js';
 import { onsetSection } from './bench-onset.js';
 import { barriersSection } from './bench-barriers.js';
+import { noiseSection } from './bench-noise.js';
 
 export interface BenchSection {
   readonly title: string;
-  /** Prints its own lines; returns nothing. */
-  run(): void;
+  /** Prints its own lines; returns nothing (or a promise the runner awaits). */
+  run(): void | Promise<void>;
 }
 
 interface NetworkSpec {
@@ -280,10 +281,11 @@ const regimesSection: BenchSection = {
 export const sections: BenchSection[] = [engineSection, regimesSection];
 sections.push(onsetSection);
 sections.push(barriersSection);
+sections.push(noiseSection);
 
 // BENCH_ONLY=regimes (a word of the title) runs only the matching sections.
 const only = process.env.BENCH_ONLY?.toLowerCase();
 for (const s of sections.filter((x) => !only || x.title.toLowerCase().includes(only))) {
   console.log(`\n== ${s.title}`);
-  s.run();
+  await s.run();
 }
