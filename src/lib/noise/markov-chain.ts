@@ -15,10 +15,10 @@
  * exit (P the embedded jump matrix of the block's internal transitions), the expected time in the
  * block is sum_i u_i / q_i and the flow out of transition e from i is u_i k_e / q_i (Norris, Markov
  * Chains, 1997, Thm. 1.3.2 and 3.3.3, first-step analysis). States that cannot reach an exit trap
- * their mass ("stuck"). Dense LU (flat Float64Array, onset/flat-lu.ts) per (escaped set, mode), so the work is about 2^n (states^3) plus
+ * their mass ("stuck"). Dense LU (flat Float64Array, numerics/flat-lu.ts) per (escaped set, mode), so the work is about 2^n (states^3) plus
  * one solve per visited order prefix.
  */
-import { FlatLu } from '../onset/flat-lu';
+import { FlatLu } from '../numerics/flat-lu';
 import type { Diagnostic } from '../atlas/types';
 import type { CancelSignal } from './types';
 

@@ -1,5 +1,6 @@
 export * from './vector.js';
 export * from './dense-lu.js';
+export * from './flat-lu.js';
 export * from './scalar-roots.js';
 export * from './newton.js';
 export * from './bordered.js';

@@ -2,7 +2,7 @@ import type { CompiledSystem } from '../model/compiled-system';
 import { BorderedWorkspace, borderedMatrix, evalRates } from '../numerics/bordered';
 import type { ContinuationOptions, DirectionEnd } from '../numerics/pseudo-arclength';
 import { dist2, dot, norm2, normInf } from '../numerics/vector';
-import { FlatLu } from './flat-lu';
+import { FlatLu } from '../numerics/flat-lu';
 
 /** A converged point of the branch: y = (x, p), unit tangent t, bordered determinant det [DH; t^T]. */
 export interface FoldPathPoint {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { LuDecomposition, Matrix } from 'ml-matrix';
-import { FlatLu } from '../../../src/lib/onset/flat-lu';
+import { FlatLu } from '../../../src/lib/numerics/flat-lu';
 
 /** Deterministic pseudo-random matrix (LCG, common practice, no source), diagonal entries `diag` added. */
 function matrix(m: number, seed: number, diag = 0, density = 1): Float64Array {
