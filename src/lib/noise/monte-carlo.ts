@@ -4,7 +4,8 @@
  *   x_{k+1} = x_k + F(x_k; p) dt + sigma ⊙ sqrt(dt) Z_k,   Z_k ~ N(0, I)
  *
  * (Kloeden & Platen, Numerical Solution of Stochastic Differential Equations, 1992, §9.1; strong
- * order 1/2, weak order 1 for additive noise). Path i uses its own normal stream (rng.ts), so a
+ * order 1/2, weak order 1 for additive noise). Path i uses its own normal stream (rng.ts; one
+ * generator per call re-seeded per path, the same numbers as a fresh generator per path), so a
  * range of paths gives the same records whichever thread simulates it. Escapes are monitored at
  * the grid times t_k = k dt: node j escapes at the first t_k where it is past its escape threshold
  * (the side away from the start), and a return is counted when an escaped node comes back past
@@ -15,7 +16,7 @@
 import type { CompiledSystem } from '../model/compiled-system';
 import type { CancelSignal, Progress } from './types';
 import type { EscapeDirection } from './thresholds';
-import { pathNormals } from './rng';
+import { PathStreams } from './rng';
 
 /** What one Monte Carlo run simulates (all vectors length n; never mutated). */
 export interface EscapeSetup {
@@ -100,12 +101,14 @@ export function simulateEscapePaths(system: CompiledSystem, setup: EscapeSetup, 
   let done = 0;
   let cancelled = false;
   let lastReport = 0;
+  // One generator re-seeded per path (rng.ts): the same stream (seed, first + k) as a fresh one.
+  const streams = new PathStreams(seed);
   for (let k = 0; k < count; k++) {
     if (options.signal?.aborted) {
       cancelled = true;
       break;
     }
-    const z = pathNormals(seed, first + k);
+    const z = streams.select(first + k);
     x.set(setup.start);
     escaped.fill(0);
     below.fill(0);

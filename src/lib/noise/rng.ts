@@ -5,6 +5,15 @@
  * (Matsumoto & Nishimura 1998, ACM TOMACS 8; @stdlib/random-base-mt19937) initialised by the
  * reference `init_by_array` with the key [K, i]. The stream depends only on (K, i), never on which
  * thread simulates the path, so results are bit-identical for any number of threads.
+ *
+ * Speed: creating a generator per path through the package's factory costs about 60 µs (option
+ * checks, property definitions, allocation). `PathStreams` instead keeps ONE ziggurat generator per
+ * thread and re-seeds it per path through its documented `state` setter (@stdlib PRNG state API):
+ * the MT19937 words are filled by `init_by_array([K, i])` exactly as in the reference code
+ * (mt19937ar.c, Matsumoto & Nishimura 2002; the same steps as the package's own seeding) into the
+ * package's state layout, and the state index is the one the package sets after seeding. The
+ * stream of (K, i) is therefore the same as `pathNormals(K, i)` word for word
+ * (tests/lib/noise/rng.test.ts checks it against the package's factory for many (K, i)).
  */
 import improvedZiggurat from '@stdlib/random-base-improved-ziggurat';
 import { NoiseSettingError } from './noise-spec';
@@ -23,9 +32,92 @@ export function checkSeed(seed: number, field = 'seed'): number {
 /**
  * The normal stream of path `index` of a run seeded with `seed`: improved ziggurat over
  * MT19937 init_by_array([seed, index]) (see the file header). Both must be integers in [0, 2^32 - 1].
+ * One package factory call per stream (about 60 µs); PathStreams gives the same streams cheaply.
  */
 export function pathNormals(seed: number, index: number): NormalStream {
   checkSeed(seed);
   checkSeed(index, 'path index');
   return improvedZiggurat.factory({ seed: [seed, index], copy: false }) as NormalStream;
+}
+
+// MT19937 constants (Matsumoto & Nishimura 1998; mt19937ar.c).
+const N = 624;
+/** Layout of the @stdlib MT19937 state array: | version | sections | N | ...mt | 1 | index | seedLength | ...seed |. */
+const MT_OFFSET = 3;
+const SEED_LENGTH_OFFSET = N + 5;
+/** Position of the state index (the "other" section, after its length word). */
+const INDEX_OFFSET = N + 4;
+
+type StatefulNormal = NormalStream & { state: Uint32Array };
+
+/** C-like 32-bit unsigned multiplication (low word). */
+function umul(a: number, b: number): number {
+  return Math.imul(a, b) >>> 0;
+}
+
+/**
+ * The reference `init_by_array(key)` of mt19937ar.c (Matsumoto & Nishimura 2002) into
+ * mt[0..N-1] = state[offset .. offset + N - 1].
+ */
+function initByArray(state: Uint32Array, offset: number, key0: number, key1: number): void {
+  state[offset] = 19650218;
+  for (let i = 1; i < N; i++) {
+    const s = state[offset + i - 1] ^ (state[offset + i - 1] >>> 30);
+    state[offset + i] = (umul(s, 1812433253) + i) >>> 0;
+  }
+  let i = 1;
+  let j = 0;
+  for (let k = N; k > 0; k--) {
+    const s = state[offset + i - 1] ^ (state[offset + i - 1] >>> 30);
+    state[offset + i] = (((state[offset + i] ^ umul(s, 1664525)) >>> 0) + (j === 0 ? key0 : key1) + j) >>> 0;
+    i++;
+    j++;
+    if (i >= N) {
+      state[offset] = state[offset + N - 1];
+      i = 1;
+    }
+    if (j >= 2) j = 0;
+  }
+  for (let k = N - 1; k > 0; k--) {
+    const s = state[offset + i - 1] ^ (state[offset + i - 1] >>> 30);
+    state[offset + i] = (((state[offset + i] ^ umul(s, 1566083941)) >>> 0) - i) >>> 0;
+    i++;
+    if (i >= N) {
+      state[offset] = state[offset + N - 1];
+      i = 1;
+    }
+  }
+  state[offset] = 0x80000000;
+}
+
+/**
+ * The streams of one run (one seed) in one thread: `select(i)` re-seeds the thread's single
+ * ziggurat generator to the stream of (seed, i) and returns it (the previous stream is then gone).
+ * Same numbers as pathNormals(seed, i); about 10 µs per select instead of about 60 µs.
+ */
+export class PathStreams {
+  private readonly normal: StatefulNormal;
+  private readonly template: Uint32Array;
+  private readonly startIndex: number;
+
+  constructor(readonly seed: number) {
+    checkSeed(seed);
+    // The package's own state for key [seed, 0] gives the layout and the post-seeding state index.
+    this.normal = improvedZiggurat.factory({ seed: [seed, 0], copy: false }) as StatefulNormal;
+    this.template = new Uint32Array(this.normal.state);
+    if (this.template[MT_OFFSET - 1] !== N || this.template[SEED_LENGTH_OFFSET] !== 2) throw new Error('PathStreams: unexpected @stdlib MT19937 state layout');
+    this.startIndex = this.template[INDEX_OFFSET];
+  }
+
+  /** The normal stream of path `index` (an integer in [0, 2^32 - 1]). */
+  select(index: number): NormalStream {
+    checkSeed(index, 'path index');
+    const s = this.template;
+    initByArray(s, MT_OFFSET, this.seed, index);
+    s[INDEX_OFFSET] = this.startIndex;
+    s[SEED_LENGTH_OFFSET + 1] = this.seed;
+    s[SEED_LENGTH_OFFSET + 2] = index;
+    this.normal.state = s;
+    return this.normal;
+  }
 }
