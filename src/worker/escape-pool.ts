@@ -7,6 +7,7 @@
 import { availableParallelism } from 'node:os';
 import { Piscina } from 'piscina';
 import { mergeBatches, type EscapeSetup, type PathBatch } from '../lib/noise/monte-carlo.ts';
+import type { PathRunner } from '../lib/noise/sweep.ts';
 import type { EscapeTask } from './escape-thread.ts';
 
 export interface PoolRun {
@@ -72,6 +73,14 @@ export class EscapePool {
       );
     }
     return mergeBatches(await Promise.all(tasks));
+  }
+
+  /**
+   * A PathRunner (src/lib/noise/sweep.ts) over this pool for one model document: sweepEscapesWith
+   * then runs every parameter value's paths on the same warm threads.
+   */
+  runner(model: unknown): PathRunner {
+    return (setup, run) => this.run({ model, setup, ...run });
   }
 
   async close(): Promise<void> {

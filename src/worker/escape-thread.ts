@@ -4,6 +4,7 @@
  * Path i's stream depends only on (seed, i), so the records are the same in any thread.
  */
 import { compileModelJson } from '../lib/model/index.ts';
+import type { CompiledSystem } from '../lib/model/compiled-system.ts';
 import { simulateEscapePaths, type PathBatch } from '../lib/noise/monte-carlo.ts';
 import type { EscapeDirection } from '../lib/noise/thresholds.ts';
 
@@ -24,8 +25,20 @@ export interface EscapeTask {
   readonly cancelFlag?: SharedArrayBuffer;
 }
 
+/**
+ * The last compiled document of this thread: a pool is kept warm across tasks and parameter values
+ * (sweeps), so the document is compiled once per thread, not once per task.
+ */
+let cached: { key: string; system: CompiledSystem } | null = null;
+
+function compiled(model: unknown): CompiledSystem {
+  const key = JSON.stringify(model);
+  if (cached?.key !== key) cached = { key, system: compileModelJson(model) };
+  return cached.system;
+}
+
 export default function escapeThread(task: EscapeTask): PathBatch {
-  const system = compileModelJson(task.model);
+  const system = compiled(task.model);
   const flag = task.cancelFlag ? new Int32Array(task.cancelFlag) : null;
   const signal = { get aborted() { return flag !== null && Atomics.load(flag, 0) === 1; } };
   return simulateEscapePaths(

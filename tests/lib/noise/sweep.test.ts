@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { compileModelJson } from '../../../src/lib/model';
 import { traceDiagram } from '../../../src/lib/atlas';
-import { sweepEscapes, parameterGrid } from '../../../src/lib/noise/sweep';
+import { sweepEscapes, sweepEscapesWith, parameterGrid, type PathRunner } from '../../../src/lib/noise/sweep';
+import { mergeBatches, simulateEscapePaths } from '../../../src/lib/noise/monte-carlo';
 import { cubicNetwork } from '../regimes/fixtures';
 
 describe('parameterGrid(from, to, count)', () => {
@@ -42,5 +43,28 @@ describe('sweepEscapes(system, diagram, spec, ps)', () => {
       }
     }
     expect(Math.abs(aFirst - total / 2)).toBeLessThan(3 * Math.sqrt(total / 4));
+  });
+});
+
+describe('sweepEscapesWith(system, diagram, spec, ps, runner)', () => {
+  // Reference: sweepEscapes in this thread. A runner that cuts every run into ranges and merges them
+  // (what the escape pool does on several threads) must give the same sweep, number for number.
+  it('gives the same sweep as sweepEscapes when the runner splits the paths into ranges', async () => {
+    const system = compileModelJson(cubicNetwork({ r: 0.1, nodes: ['a', 'b'], links: [{ from: 'a', to: 'b', twoWay: true }], sweep: { parameter: 'beta', from: 0, to: 0.2 } }));
+    const diagram = traceDiagram(system);
+    const spec = { level: 0.55, weights: Float64Array.of(1, 1) };
+    const options = { paths: 30, seed: 9, stepCheckPaths: 10, exitSwitches: false };
+    const ps = [0.03, 0.12];
+    const direct = sweepEscapes(system, diagram, spec, ps, options);
+    const runner: PathRunner = async (setup, run) => {
+      const cut = Math.floor(run.count / 3);
+      const parts = [
+        simulateEscapePaths(system, setup, { ...run, first: cut, count: run.count - cut }),
+        simulateEscapePaths(system, setup, { ...run, first: 0, count: cut }),
+      ];
+      return mergeBatches(parts);
+    };
+    const pooled = await sweepEscapesWith(system, diagram, spec, ps, runner, options);
+    expect(JSON.stringify(pooled)).toBe(JSON.stringify(direct));
   });
 });
