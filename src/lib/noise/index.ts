@@ -11,10 +11,10 @@ export { solveEscapeChain, defaultEscapeChainOptions, type ChainTransition, type
 export { predictEscapes, halfwayThresholds, type Prediction, type PredictionOptions, type PredictedRate, type PrefactorKind } from './prediction';
 export { meanFirstPassage1d, defaultFirstPassage1dOptions, type FirstPassage1dOptions, type FirstPassage1dResult } from './first-passage-1d';
 export { escapeThresholds, type EscapeDirection } from './thresholds';
-export { pathNormals, checkSeed, type NormalStream } from './rng';
+export { pathNormals, checkSeed, PathStreams, type NormalStream } from './rng';
 export { simulateEscapePaths, mergeBatches, type EscapeSetup, type MonteCarloOptions, type PathBatch } from './monte-carlo';
 export { wilsonInterval, quantileSorted, summarizeTimes, histogram, survivalCurve, escapeStatistics, Z95, type EscapeStatistics, type SequenceCount, type KthEscape, type TimeSummary } from './escape-statistics';
 export { defaultStep, compareSteps, DEFAULT_STEP_FRACTION, type StepCheck } from './step-size';
 export { estimateWork, checkBudget, BudgetExceededError, DEFAULT_BUDGET, type WorkEstimate } from './budget';
 export { prepareEscapes, escapeReport, escapesAt, MAX_PATHS, type EscapeStart, type EscapeStudyOptions, type PreparedEscapes, type EscapeReport } from './escapes';
-export { sweepEscapes, parameterGrid, type EscapeSweep, type SweepPoint } from './sweep';
+export { sweepEscapes, sweepEscapesWith, parameterGrid, type EscapeSweep, type SweepPoint, type PathRunner } from './sweep';
