@@ -3,11 +3,10 @@
  * Exit codes: 0 done (numerical trouble is reported in the output's diagnostics), 2 invalid input
  * (one line on stderr naming the field), 1 unexpected internal error.
  */
-import { parseArgs } from 'node:util';
 import { toTraceJson, traceDiagram } from '../lib/atlas/index.js';
 import { ModelError } from '../lib/model/index.js';
 import { bandEdgeKind, labelRegimes, type RegimeBand } from '../lib/regimes/index.js';
-import { compile, emit, numberOption, readModel, UsageError, type Command } from './cli-common.js';
+import { compile, emit, emitText, parseModelCommand, readModel, UsageError, type Command } from './cli-common.js';
 import { escapes } from './escapes-command.js';
 import { barriersCommand } from './barriers-command.js';
 import { onset } from './onset-command.js';
@@ -40,7 +39,7 @@ Options:
 Exit codes: 0 done, 2 invalid input (message names the field), 1 internal error.
 Results are indicative; defer to domain experts and local regulation.`;
 
-const REGIMES_HELP = `Usage: npm run --silent atlas -- regimes MODEL.json [--from P] [--to P] [--recovery]
+const REGIMES_HELP = `Usage: npm run --silent atlas -- regimes MODEL.json [--from P] [--to P] [--recovery] [--out FILE]
 
 Traces the model like "trace" and prints only its coupling-regime bands as a table: from, to,
 regime (weak, intermediate, strong), start, the kind of each edge (special point, saddle
@@ -52,6 +51,7 @@ Options:
   --from P     sweep start; default sweep.from
   --to P       sweep end; default sweep.to
   --recovery   also label recovery from the all-tipped state
+  --out FILE   write the table to FILE instead of standard output
   --help       this text
 
 Exit codes: 0 done, 2 invalid input (message names the field), 1 internal error.
@@ -63,19 +63,9 @@ const trace: Command = {
   summary: 'equilibrium branches and bifurcations of a model document',
   help: TRACE_HELP,
   run(argv) {
-    const { values, positionals } = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      options: { from: { type: 'string' }, to: { type: 'string' }, out: { type: 'string' }, help: { type: 'boolean' } },
-    });
-    if (values.help) {
-      process.stdout.write(`${TRACE_HELP}\n`);
-      return;
-    }
-    if (positionals.length > 1) throw new UsageError(`MODEL.json: expected one model file, got ${positionals.length}`);
-    const from = numberOption('from', values.from);
-    const to = numberOption('to', values.to);
-    const system = compile(readModel(positionals[0]), from, to);
+    const args = parseModelCommand(argv, TRACE_HELP);
+    if (!args) return;
+    const system = compile(readModel(args.modelPath), args.from, args.to);
     const diagram = traceDiagram(system);
     // Later sections (e.g. coupling regimes) add their keys to this object.
     const traced = toTraceJson(diagram);
@@ -87,7 +77,7 @@ const trace: Command = {
       escapeGraphs: labelled.escapeGraphs,
       crossovers: labelled.crossovers,
     };
-    emit(output, values.out);
+    emit(output, args.out);
   },
 };
 
@@ -107,22 +97,15 @@ const regimes: Command = {
   summary: 'weak / intermediate / strong coupling bands of a model document, as a table',
   help: REGIMES_HELP,
   run(argv) {
-    const { values, positionals } = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      options: { from: { type: 'string' }, to: { type: 'string' }, recovery: { type: 'boolean' }, help: { type: 'boolean' } },
-    });
-    if (values.help) {
-      process.stdout.write(`${REGIMES_HELP}\n`);
-      return;
-    }
-    if (positionals.length > 1) throw new UsageError(`MODEL.json: expected one model file, got ${positionals.length}`);
-    const system = compile(readModel(positionals[0]), numberOption('from', values.from), numberOption('to', values.to));
+    const args = parseModelCommand(argv, REGIMES_HELP, { recovery: 'boolean' });
+    if (!args) return;
+    const { values } = args;
+    const system = compile(readModel(args.modelPath), args.from, args.to);
     const diagram = traceDiagram(system);
     const labelled = labelRegimes(system, diagram, values.recovery ? { starts: ['all-base', 'all-tipped'] } : {});
     const lines = [labelled.regimes.length > 0 ? regimesTable(labelled.regimes) : 'no regime bands'];
     for (const d of labelled.diagnostics) lines.push(`${d.level}: ${d.code}: ${d.message}`);
-    process.stdout.write(`${lines.join('\n')}\n`);
+    emitText(`${lines.join('\n')}\n`, args.out);
   },
 };
 

@@ -1,11 +1,10 @@
 /** `atlas barriers`: Freidlin–Wentzell exit barriers of every escape-graph edge and the exit switches along the sweep. */
-import { parseArgs } from 'node:util';
 import { traceDiagram } from '../lib/atlas/index.js';
 import type { Diagnostic } from '../lib/atlas/types.js';
 import { validateModelDocument } from '../lib/model/index.js';
 import { barriersAt, exitSwitches, noiseGraphAt, resolveNoise, saddleKeys, stateLabel } from '../lib/noise/index.js';
 import { changesEscapeGraph, cutPoints } from '../lib/regimes/index.js';
-import { compile, emit, numberOption, readModel, UsageError, type Command } from './cli-common.js';
+import { compile, emit, emitText, parseModelCommand, readModel, UsageError, type Command } from './cli-common.js';
 
 const HELP = `Usage: npm run --silent atlas -- barriers MODEL.json [--from P --to P] [--out FILE]
 
@@ -60,19 +59,10 @@ export const barriersCommand: Command = {
   summary: 'exit barriers (quasi-potential) of every escape-graph edge and the exit switches',
   help: HELP,
   run(argv) {
-    const { values, positionals } = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      options: { from: { type: 'string' }, to: { type: 'string' }, out: { type: 'string' }, help: { type: 'boolean' } },
-    });
-    if (values.help) {
-      process.stdout.write(`${HELP}\n`);
-      return;
-    }
-    if (positionals.length > 1) throw new UsageError(`MODEL.json: expected one model file, got ${positionals.length}`);
-    const from = numberOption('from', values.from);
-    const to = numberOption('to', values.to);
-    const model = readModel(positionals[0]);
+    const args = parseModelCommand(argv, HELP);
+    if (!args) return;
+    const { values, from, to } = args;
+    const model = readModel(args.modelPath);
     const system = compile(model, from, to);
     const checked = validateModelDocument(model);
     const weights = checked.ok && checked.document.noise ? resolveNoise(checked.document).weights : new Float64Array(system.dimension).fill(1);
@@ -116,6 +106,6 @@ export const barriersCommand: Command = {
       diagnostics.length = MAX_DIAGNOSTICS;
       diagnostics.push({ level: 'info', code: 'diagnostics-truncated', message: `${extra} further diagnostics were left out` });
     }
-    emit({ parameter: system.parameter, states, edges, exitSwitches: sw.switches, weights: Array.from(weights), diagnostics }, values.out);
+    emit({ parameter: system.parameter, states, edges, exitSwitches: sw.switches, weights: Array.from(weights), diagnostics }, args.out);
   },
 };

@@ -1,5 +1,6 @@
 /** Pieces every `atlas` subcommand shares: the command shape, usage errors, reading models, writing output. */
 import { readFileSync, writeFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
 import { compileModelJson } from '../lib/model/index.js';
 import type { CompiledSystem } from '../lib/model/index.js';
 
@@ -44,7 +45,11 @@ export function compile(model: unknown, from: number | undefined, to: number | u
 }
 
 export function emit(json: unknown, out: string | undefined): void {
-  const text = `${JSON.stringify(json)}\n`;
+  emitText(`${JSON.stringify(json)}\n`, out);
+}
+
+/** Writes text to standard output, or to FILE for --out (a write failure names --out). */
+export function emitText(text: string, out: string | undefined): void {
   if (out === undefined) {
     process.stdout.write(text);
     return;
@@ -56,3 +61,42 @@ export function emit(json: unknown, out: string | undefined): void {
   }
 }
 
+
+/** What parseModelCommand read: the flags as strings, the one model path, the sweep overrides. */
+export interface ModelCommandArgs {
+  readonly values: Record<string, string | boolean | undefined>;
+  /** --out FILE, when given. */
+  readonly out: string | undefined;
+  readonly modelPath: string | undefined;
+  readonly from: number | undefined;
+  readonly to: number | undefined;
+}
+
+/**
+ * Parses `MODEL.json [--from P] [--to P] [--out FILE] [--help]` plus a command's own flags
+ * (`extra`: name -> 'string' | 'boolean'). Prints `help` and returns null for --help; refuses more
+ * than one model file and a non-numeric --from/--to (UsageError naming the flag).
+ */
+export function parseModelCommand(
+  argv: string[],
+  help: string,
+  extra: Readonly<Record<string, 'string' | 'boolean'>> = {},
+): ModelCommandArgs | null {
+  const options: Record<string, { type: 'string' | 'boolean' }> = {
+    from: { type: 'string' }, to: { type: 'string' }, out: { type: 'string' }, help: { type: 'boolean' },
+  };
+  for (const [name, type] of Object.entries(extra)) options[name] = { type };
+  const { values, positionals } = parseArgs({ args: argv, allowPositionals: true, options });
+  if (values.help) {
+    process.stdout.write(`${help}\n`);
+    return null;
+  }
+  if (positionals.length > 1) throw new UsageError(`MODEL.json: expected one model file, got ${positionals.length}`);
+  return {
+    values,
+    modelPath: positionals[0],
+    out: values.out as string | undefined,
+    from: numberOption('from', values.from as string | undefined),
+    to: numberOption('to', values.to as string | undefined),
+  };
+}

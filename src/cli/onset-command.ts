@@ -1,7 +1,6 @@
 /** `atlas onset MODEL.json`: critical coupling per node (src/lib/onset, docs/onset.md). */
-import { parseArgs } from 'node:util';
 import { criticalCoupling, OnsetInputError } from '../lib/onset/index.js';
-import { compile, emit, numberOption, readModel, UsageError, type Command } from './cli-common.js';
+import { compile, emit, emitText, parseModelCommand, readModel, UsageError, type Command } from './cli-common.js';
 
 const HELP = `Usage: npm run --silent atlas -- onset MODEL.json [--from P] [--to P] [--out FILE]
 
@@ -31,17 +30,10 @@ export const onset: Command = {
   summary: 'critical coupling per node: where "only this node tipped" ends and who tips next',
   help: HELP,
   run(argv) {
-    const { values, positionals } = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      options: { from: { type: 'string' }, to: { type: 'string' }, out: { type: 'string' }, help: { type: 'boolean' } },
-    });
-    if (values.help) {
-      process.stdout.write(`${HELP}\n`);
-      return;
-    }
-    if (positionals.length > 1) throw new UsageError(`MODEL.json: expected one model file, got ${positionals.length}`);
-    const system = compile(readModel(positionals[0]), numberOption('from', values.from), numberOption('to', values.to));
+    const args = parseModelCommand(argv, HELP);
+    if (!args) return;
+    const { values } = args;
+    const system = compile(readModel(args.modelPath), args.from, args.to);
     let result;
     try {
       result = criticalCoupling(system);
@@ -55,6 +47,6 @@ export const onset: Command = {
       to: result.to,
       nodes: result.nodes.map((q) => ({ id: q.id, critical: q.critical, next: q.next, recovered: q.recovered, status: q.status })),
       diagnostics: result.diagnostics,
-    }, values.out);
+    }, args.out);
   },
 };
