@@ -27,66 +27,20 @@ export function isUncoupledAt(system: CompiledSystem, from: number): boolean {
  * combination is an equilibrium of the whole system because the coupling term vanishes. All
  * combinations are used up to maxStartCombinations (3^8); beyond that the all-base (each node's
  * lowest root), all-tipped (highest root) and every single-node-tipped pattern, with a diagnostic.
- * Otherwise: damped Newton from the document's start guesses, the origin and multiStartCount
- * quasi-random guesses (Halton sequence) in [-box, box]^n. Every candidate is polished by Newton on
+ * Coupled network (a sweep that starts at nonzero coupling): the same combinations as Newton guesses,
+ * plus the multi-start guesses below. Otherwise: damped Newton from the document's start guesses,
+ * the origin and multiStartCount quasi-random guesses (Halton sequence) in [-box, box]^n. Every
+ * candidate is polished by Newton on
  * the full system and duplicates (max-norm distance below 1e-7 (1 + |x|)) are dropped.
  */
 export function findStartingEquilibria(system: CompiledSystem, from: number, s: ResolvedTraceSettings): StartingEquilibria {
   const n = system.dimension;
   const diagnostics: Diagnostic[] = [];
   const guesses: Float64Array[] = [];
-  let method: StartingEquilibria['method'] = 'multi-start';
-  const net = system.network;
-  if (net && isUncoupledAt(system, from)) {
-    method = 'uncoupled';
-    const perNode: number[][] = [];
-    for (let i = 0; i < n; i++) {
-      const r = findScalarRoots(
-        (x) => net.elementRate(i, x, from),
-        (x) => net.elementDerivative(i, x, from),
-        -s.rootSearchBound,
-        s.rootSearchBound,
-        { cells: s.rootSearchCells },
-      );
-      const roots = [...r.roots].sort((a, b) => a - b);
-      perNode.push(roots);
-      if (roots.length === 0) {
-        diagnostics.push({ level: 'warning', code: 'no-element-equilibrium', message: `node ${net.nodeIds[i] ?? i} has no equilibrium in [-${s.rootSearchBound}, ${s.rootSearchBound}] at ${system.parameter} = ${from}` });
-      }
-      if (r.doubtful > 0) {
-        diagnostics.push({ level: 'warning', code: 'element-root-doubtful', message: `node ${net.nodeIds[i] ?? i}: ${r.doubtful} element equilibria not refined to tolerance` });
-      }
-    }
-    if (perNode.every((r) => r.length > 0)) {
-      let combos = 1;
-      for (const r of perNode) combos *= r.length;
-      if (combos <= s.maxStartCombinations) {
-        const idx = new Array<number>(n).fill(0);
-        for (let c = 0; c < combos; c++) {
-          guesses.push(Float64Array.from(perNode.map((r, i) => r[idx[i]])));
-          for (let i = n - 1; i >= 0; i--) {
-            idx[i]++;
-            if (idx[i] < perNode[i].length) break;
-            idx[i] = 0;
-          }
-        }
-      } else {
-        const base = perNode.map((r) => r[0]);
-        const tipped = perNode.map((r) => r[r.length - 1]);
-        guesses.push(Float64Array.from(base), Float64Array.from(tipped));
-        for (let i = 0; i < n; i++) {
-          const g = Float64Array.from(base);
-          g[i] = tipped[i];
-          guesses.push(g);
-        }
-        diagnostics.push({
-          level: 'info',
-          code: 'start-patterns-limited',
-          message: `${combos.toExponential(3)} combinations of element equilibria exceed the limit of ${s.maxStartCombinations}; starting from the all-base, all-tipped and the ${n} single-node-tipped patterns plus the document's start list only`,
-        });
-      }
-    }
-  } else {
+  const uncoupled = isUncoupledAt(system, from);
+  const method: StartingEquilibria['method'] = uncoupled ? 'uncoupled' : 'multi-start';
+  if (system.network) guesses.push(...elementCombinations(system, from, s, uncoupled, diagnostics));
+  if (!uncoupled) {
     guesses.push(new Float64Array(n));
     const primes = firstPrimes(n);
     for (let k = 1; k <= s.multiStartCount; k++) {
@@ -133,4 +87,67 @@ function firstPrimes(count: number): number[] {
   const out: number[] = [];
   for (let c = 2; out.length < count; c++) if (out.every((q) => c % q !== 0)) out.push(c);
   return out;
+}
+
+/**
+ * Every combination of per-node element equilibria at p = from (the roots of f_i(x; from) alone,
+ * coupling left out), up to maxStartCombinations; beyond that the all-base, all-tipped and
+ * single-node-tipped patterns, with a diagnostic. Exact equilibria of the network when the coupling
+ * vanishes; when it does not, Newton guesses that converge for weak coupling, because a hyperbolic
+ * equilibrium of the uncoupled system persists under small perturbation (implicit function theorem)
+ * — without them, a sweep starting at a coupling of 1e-300 relied on quasi-random guesses alone and
+ * could miss equilibria the sweep from 0 finds. Root-finding warnings only when `report` is set.
+ */
+function elementCombinations(system: CompiledSystem, from: number, s: ResolvedTraceSettings, report: boolean, diagnostics: Diagnostic[]): Float64Array[] {
+  const net = system.network!;
+  const n = system.dimension;
+  const perNode: number[][] = [];
+  for (let i = 0; i < n; i++) {
+    const r = findScalarRoots(
+      (x) => net.elementRate(i, x, from),
+      (x) => net.elementDerivative(i, x, from),
+      -s.rootSearchBound,
+      s.rootSearchBound,
+      { cells: s.rootSearchCells },
+    );
+    const roots = [...r.roots].sort((a, b) => a - b);
+    perNode.push(roots);
+    if (!report) continue;
+    if (roots.length === 0) {
+      diagnostics.push({ level: 'warning', code: 'no-element-equilibrium', message: `node ${net.nodeIds[i] ?? i} has no equilibrium in [-${s.rootSearchBound}, ${s.rootSearchBound}] at ${system.parameter} = ${from}` });
+    }
+    if (r.doubtful > 0) {
+      diagnostics.push({ level: 'warning', code: 'element-root-doubtful', message: `node ${net.nodeIds[i] ?? i}: ${r.doubtful} element equilibria not refined to tolerance` });
+    }
+  }
+  if (!perNode.every((r) => r.length > 0)) return [];
+  let combos = 1;
+  for (const r of perNode) combos *= r.length;
+  const guesses: Float64Array[] = [];
+  if (combos <= s.maxStartCombinations) {
+    const idx = new Array<number>(n).fill(0);
+    for (let c = 0; c < combos; c++) {
+      guesses.push(Float64Array.from(perNode.map((r, i) => r[idx[i]])));
+      for (let i = n - 1; i >= 0; i--) {
+        idx[i]++;
+        if (idx[i] < perNode[i].length) break;
+        idx[i] = 0;
+      }
+    }
+    return guesses;
+  }
+  const base = perNode.map((r) => r[0]);
+  const tipped = perNode.map((r) => r[r.length - 1]);
+  guesses.push(Float64Array.from(base), Float64Array.from(tipped));
+  for (let i = 0; i < n; i++) {
+    const g = Float64Array.from(base);
+    g[i] = tipped[i];
+    guesses.push(g);
+  }
+  diagnostics.push({
+    level: 'info',
+    code: 'start-patterns-limited',
+    message: `${combos.toExponential(3)} combinations of element equilibria exceed the limit of ${s.maxStartCombinations}; starting from the all-base, all-tipped and the ${n} single-node-tipped patterns plus the document's start list only`,
+  });
+  return guesses;
 }
