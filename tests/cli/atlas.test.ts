@@ -21,7 +21,7 @@ describe('atlas CLI', () => {
     const r = await run(['trace', file('lakes.json', lakes)]);
     expect(r.code).toBe(0);
     const out = JSON.parse(r.stdout);
-    expect(Object.keys(out).sort()).toEqual(['bifurcations', 'branches', 'diagnostics', 'escapeGraphs', 'parameter', 'regimes']);
+    expect(Object.keys(out).sort()).toEqual(['bifurcations', 'branches', 'crossovers', 'diagnostics', 'escapeGraphs', 'parameter', 'regimes']);
     expect(out.parameter).toBe('beta');
     expect(out.branches.length).toBeGreaterThan(0);
     for (const b of out.branches) {

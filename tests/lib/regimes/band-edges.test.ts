@@ -91,6 +91,6 @@ describe('band edges do not depend on the sweep range', () => {
         if (!band) continue;
         expect(labelAt(s1, d1, p).regime).toBe(band.regime);
       }
-    }), { numRuns: 4, seed: 10 });
+    }), { numRuns: 4, seed: 10, endOnFailure: true });
   });
 });
