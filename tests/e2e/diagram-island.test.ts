@@ -71,6 +71,14 @@ describe('diagram island on the preview page', () => {
     await p.screenshot({ path: screenshotPath('diagram-island-50k') });
   });
 
+  it('the legend lists the glyphs of exactly the special-point types the diagram has', async (ctx) => {
+    const p = ready(ctx);
+    const inLegend = await p.locator('[data-testid=diagram-view] [data-legend-glyph]').evaluateAll((els) => els.map((e) => e.getAttribute('data-legend-glyph')));
+    const inDiagram = [...new Set(fixture.bifurcations.map((b) => b.type))];
+    expect(inDiagram.length).toBeLessThan(5); // the fixture lacks some types, so the check can fail
+    expect([...inLegend].sort()).toEqual([...inDiagram].sort());
+  });
+
   it('zooms the parameter axis on the wheel and the axes follow', async (ctx) => {
     const p = ready(ctx);
     const view = p.getByTestId('diagram-view').first();

@@ -74,6 +74,7 @@ export function DiagramView(props: DiagramViewProps) {
     return { ps, ys, runs: splitRuns(b) };
   }), [diagram, projection]);
   const crossings = useMemo(() => locatedBandEdges(regimes), [regimes]);
+  const specialTypes = useMemo(() => new Set(diagram.bifurcations.map((b) => b.type)), [diagram]);
   const totalPoints = useMemo(() => diagram.branches.reduce((s, b) => s + b.points.length, 0), [diagram]);
 
   const ext = useMemo(() => diagramExtent(diagram, projection), [diagram, projection]);
@@ -428,7 +429,7 @@ export function DiagramView(props: DiagramViewProps) {
       <div className="dg-status" aria-live="polite">
         Showing {diagram.parameter} from <b>{formatValue(xDomain[0], 4)}</b> to <b>{formatValue(xDomain[1], 4)}</b> · {drawnCount.toLocaleString('en')} of {totalPoints.toLocaleString('en')} points drawn
       </div>
-      <Legend regimes={regimes} showTags={showTags && tags.length > 0} />
+      <Legend regimes={regimes} specialTypes={specialTypes} hasLocatedEdges={crossings.length > 0} showTags={showTags && tags.length > 0} />
       <p className="dg-note">{INDICATIVE_NOTE}</p>
       <DiagramTable diagram={diagram} projection={projection} regimes={regimes} tags={tags} onOpenSpecial={openSpecialById} />
     </div>
