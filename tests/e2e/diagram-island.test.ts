@@ -175,6 +175,23 @@ describe('diagram island on the preview page', () => {
     expect(pdf.length).toBeGreaterThan(10_000);
   });
 
+  it('a stretch with no band is hatched in the ribbon, says why, and has a legend entry', async (ctx) => {
+    const p = ready(ctx);
+    // ?unlabelled=1 leaves out the fixture's middle band, with the bounds labelRegimes writes for it.
+    await p.goto(`${base}/dev/diagram-preview?unlabelled=1`, { waitUntil: 'load' });
+    await p.waitForSelector('[data-testid=diagram-view][data-drawn-points]:not([data-drawn-points="0"])', { timeout: 60_000 });
+    const stretch = p.getByTestId('unlabelled-stretch');
+    await expect.poll(() => stretch.count()).toBe(1);
+    expect(await stretch.locator('title').textContent()).toContain('no way out of all-base found');
+    expect(await p.locator('.dg-legend').textContent()).toContain('not labelled');
+    expect(await p.getByTestId('unlabelled-row').textContent()).toContain('no way out of all-base found');
+    await p.screenshot({ path: screenshotPath('diagram-unlabelled-stretch') });
+    // The full fixture has no gap: nothing hatched.
+    await p.goto(`${base}/dev/diagram-preview`, { waitUntil: 'load' });
+    await p.waitForSelector('[data-testid=diagram-view][data-drawn-points]:not([data-drawn-points="0"])', { timeout: 60_000 });
+    expect(await p.getByTestId('unlabelled-stretch').count()).toBe(0);
+  });
+
   it('compare: zooming one panel moves the shared axis of the other, and the table aligns every special point', async (ctx) => {
     const p = ready(ctx);
     await p.goto(`${base}/dev/diagram-preview?compare=1`, { waitUntil: 'load' });

@@ -7,15 +7,15 @@ import { project, type Projection } from '../../lib/plot/projection';
 import { splitRuns } from '../../lib/plot/runs';
 import { formatValue } from '../../lib/plot/ticks';
 import type { BandTag, RegimeBand } from '../../lib/regimes/types';
-import { locatedBandEdges } from '../../lib/regimes/band-edge';
+import { locatedBandEdges, type UnlabelledStretch } from '../../lib/regimes/band-edge';
 
 const END_WORDS: Record<string, string> = {
   'sweep-bound': 'edge of the sweep', 'closed-loop': 'closed on itself', merged: 'met another branch', 'point-cap': 'point cap reached',
   'step-collapse': 'step size collapsed', 'newton-failure': 'corrector failed', 'state-bound': 'left the state box',
 };
 
-export const DiagramTable = memo(function DiagramTable({ diagram, projection, regimes, tags, onOpenSpecial }: {
-  diagram: Diagram; projection: Projection; regimes: readonly RegimeBand[]; tags: readonly BandTag[]; onOpenSpecial: (id: string) => void;
+export const DiagramTable = memo(function DiagramTable({ diagram, projection, regimes, unlabelled = [], tags, onOpenSpecial }: {
+  diagram: Diagram; projection: Projection; regimes: readonly RegimeBand[]; unlabelled?: readonly UnlabelledStretch[]; tags: readonly BandTag[]; onOpenSpecial: (id: string) => void;
 }) {
   const crossings = locatedBandEdges(regimes);
   return (
@@ -73,8 +73,10 @@ export const DiagramTable = memo(function DiagramTable({ diagram, projection, re
           <caption>Coupling regime bands</caption>
           <thead><tr><th scope="col">Regime</th><th scope="col">From</th><th scope="col">To</th><th scope="col">Bounded by</th><th scope="col">Reason</th></tr></thead>
           <tbody>
-            {regimes.map((b, i) => (
-              <tr key={i}><th scope="row">{REGIME_LABEL[b.regime]}</th><td className="num">{formatValue(b.from, 8)}</td><td className="num">{formatValue(b.to, 8)}</td><td>{b.bounds.join(', ')}</td><td>{b.reason}</td></tr>
+            {[...regimes.map((b) => ({ band: b as RegimeBand | null, gap: null as UnlabelledStretch | null, from: b.from })), ...unlabelled.map((g) => ({ band: null, gap: g, from: g.from }))].sort((u, v) => u.from - v.from).map((row, i) => row.band ? (
+              <tr key={i}><th scope="row">{REGIME_LABEL[row.band.regime]}</th><td className="num">{formatValue(row.band.from, 8)}</td><td className="num">{formatValue(row.band.to, 8)}</td><td>{row.band.bounds.join(', ')}</td><td>{row.band.reason}</td></tr>
+            ) : (
+              <tr key={i} data-testid="unlabelled-row"><th scope="row">not labelled</th><td className="num">{formatValue(row.gap!.from, 8)}</td><td className="num">{formatValue(row.gap!.to, 8)}</td><td>—</td><td>{row.gap!.reason}</td></tr>
             ))}
           </tbody>
         </table>

@@ -16,7 +16,7 @@ import { labelWidth, stackRows } from '../../lib/plot/stack-rows';
 import { decimateByPixel } from '../../lib/plot/thin';
 import { formatValue, integerTicks, linearAxis } from '../../lib/plot/ticks';
 import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
-import { locatedBandEdges } from '../../lib/regimes/band-edge';
+import { locatedBandEdges, unlabelledStretches } from '../../lib/regimes/band-edge';
 import { ExportMenu } from '../export/ExportMenu';
 import { DiagramTable } from './DiagramTable';
 import { Legend } from './Legend';
@@ -78,6 +78,15 @@ export function DiagramView(props: DiagramViewProps) {
   const totalPoints = useMemo(() => diagram.branches.reduce((s, b) => s + b.points.length, 0), [diagram]);
 
   const ext = useMemo(() => diagramExtent(diagram, projection), [diagram, projection]);
+  // Stretches of the sweep without a label, drawn hatched with their reason (only when bands exist:
+  // a run without regime analysis has nothing to explain).
+  const gaps = useMemo(() => {
+    if (regimes.length === 0) return [];
+    // The swept range as traced; a diagram that does not record it gets only the gaps between bands.
+    const from = typeof diagram.settings.from === 'number' ? diagram.settings.from : Math.min(...regimes.map((b) => b.from));
+    const to = typeof diagram.settings.to === 'number' ? diagram.settings.to : Math.max(...regimes.map((b) => b.to));
+    return unlabelledStretches(regimes, Math.min(from, to), Math.max(from, to));
+  }, [regimes, diagram]);
   const baseX = useMemo(() => {
     const s = (ext.p[1] - ext.p[0]) || 1;
     return scaleLinear().domain([ext.p[0] - 0.02 * s, ext.p[1] + 0.02 * s]).range([0, plotW]);
@@ -300,13 +309,29 @@ export function DiagramView(props: DiagramViewProps) {
         <div ref={wrapRef} className="dg-plot-wrap" style={{ height }}>
           {/* Back layer: bands and manual tags. */}
           <svg className="dg-layer" width={width} height={height} aria-hidden="true">
-            <defs><clipPath id={clipId}><rect x={0} y={0} width={plotW} height={plotH} /></clipPath></defs>
+            <defs>
+              <clipPath id={clipId}><rect x={0} y={0} width={plotW} height={plotH} /></clipPath>
+              <pattern id={`${clipId}-hatch`} width={8} height={8} patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
+                <line x1={0} y1={0} x2={0} y2={8} className="dg-hatch-line" />
+              </pattern>
+            </defs>
             <g transform={`translate(${M.left},${M.top})`}>
               <rect className="dg-plot-bg" width={plotW} height={plotH} />
               <g clipPath={`url(#${clipId})`}>
                 {regimes.map((b, i) => {
                   const x0 = Math.max(-2, xs(b.from)), x1 = Math.min(plotW + 2, xs(b.to));
                   return x1 > x0 ? <rect key={i} className={`dg-band dg-band-${b.regime}`} x={x0} width={x1 - x0} y={0} height={plotH} /> : null;
+                })}
+                {gaps.map((g, i) => {
+                  const x0 = Math.max(-2, xs(g.from)), x1 = Math.min(plotW + 2, xs(g.to));
+                  if (x1 <= x0) return null;
+                  return (
+                    <g key={`gap${i}`} className="dg-unlabelled" data-testid="unlabelled-stretch">
+                      <rect x={x0} width={x1 - x0} y={0} height={plotH} fill={`url(#${clipId}-hatch)`} />
+                      {x1 - x0 > 140 ? <text x={(x0 + x1) / 2} y={16} textAnchor="middle">not labelled: {g.reason}</text> : null}
+                      <title>{`not labelled from ${formatValue(g.from, 4)} to ${formatValue(g.to, 4)}: ${g.reason}`}</title>
+                    </g>
+                  );
                 })}
                 {/* Located band edges (saddle connections, engagement crossovers): a dashed line and a diamond, unlike any special-point glyph. */}
                 {crossings.map((c) => {
@@ -429,9 +454,9 @@ export function DiagramView(props: DiagramViewProps) {
       <div className="dg-status" aria-live="polite">
         Showing {diagram.parameter} from <b>{formatValue(xDomain[0], 4)}</b> to <b>{formatValue(xDomain[1], 4)}</b> · {drawnCount.toLocaleString('en')} of {totalPoints.toLocaleString('en')} points drawn
       </div>
-      <Legend regimes={regimes} specialTypes={specialTypes} hasLocatedEdges={crossings.length > 0} showTags={showTags && tags.length > 0} />
+      <Legend regimes={regimes} specialTypes={specialTypes} hasLocatedEdges={crossings.length > 0} hasUnlabelled={gaps.length > 0} showTags={showTags && tags.length > 0} />
       <p className="dg-note">{INDICATIVE_NOTE}</p>
-      <DiagramTable diagram={diagram} projection={projection} regimes={regimes} tags={tags} onOpenSpecial={openSpecialById} />
+      <DiagramTable diagram={diagram} projection={projection} regimes={regimes} unlabelled={gaps} tags={tags} onOpenSpecial={openSpecialById} />
     </div>
   );
 }

@@ -8,10 +8,11 @@ import type { RegimeBand } from '../../lib/regimes/types';
  * the types present (as in the exported figure, lib/plot/figure.ts), the located-edge mark when there
  * is one, the band shades present and manual tags.
  */
-export function Legend({ regimes, specialTypes, hasLocatedEdges, showTags }: {
+export function Legend({ regimes, specialTypes, hasLocatedEdges, hasUnlabelled = false, showTags }: {
   regimes: readonly RegimeBand[];
   specialTypes: ReadonlySet<SpecialPointType>;
   hasLocatedEdges: boolean;
+  hasUnlabelled?: boolean;
   showTags: boolean;
 }) {
   const present = [...new Set(regimes.map((r) => r.regime))];
@@ -42,6 +43,7 @@ export function Legend({ regimes, specialTypes, hasLocatedEdges, showTags }: {
           <span className={`dg-swatch dg-band-${r}`} aria-hidden="true" />{REGIME_LABEL[r]}
         </span>
       ))}
+      {hasUnlabelled ? <span className="dg-legend-item"><span className="dg-swatch dg-swatch-unlabelled" aria-hidden="true" />not labelled (hatched; hover for why)</span> : null}
       {showTags ? <span className="dg-legend-item"><span className="dg-swatch dg-swatch-tag" aria-hidden="true" />manual tag</span> : null}
     </div>
   );

@@ -1,4 +1,4 @@
-import type { RegimeBand } from './types';
+import type { RegimeBand, StartState } from './types';
 
 /** What a band's edge is, read from its `bounds` text (see RegimeBand.bounds). */
 export type BandEdgeKind = 'special point' | 'saddle connection' | 'engagement crossover' | 'label undefined' | 'sweep bound';
@@ -33,4 +33,46 @@ export function locatedBandEdges(bands: readonly RegimeBand[]): { p: number; kin
     }
   }
   return out.sort((u, v) => u.p - v.p);
+}
+
+/** A stretch of the range with no band (the label is undefined there), and why in words. */
+export interface UnlabelledStretch {
+  readonly from: number;
+  readonly to: number;
+  readonly start: StartState;
+  readonly reason: string;
+}
+
+/**
+ * The stretches of [from, to] that no band of a start state covers, per start state present (all-base
+ * when bands carry none). The reason is read off the neighbouring band's bound ("label undefined: no
+ * label above: no way out of all-base found" gives "no way out of all-base found"); a stretch with no
+ * such bound says so. Gaps narrower than 1e-12 (1 + |p|) are rounding between bands, not stretches.
+ */
+export function unlabelledStretches(bands: readonly RegimeBand[], from: number, to: number): UnlabelledStretch[] {
+  const out: UnlabelledStretch[] = [];
+  const starts = [...new Set(bands.map((b) => b.start ?? 'all-base'))];
+  if (starts.length === 0) starts.push('all-base');
+  for (const start of starts) {
+    const own = bands.filter((b) => (b.start ?? 'all-base') === start).sort((u, v) => u.from - v.from);
+    let at = from;
+    let before: RegimeBand | undefined;
+    const push = (lo: number, hi: number, next: RegimeBand | undefined) => {
+      if (hi - lo <= 1e-12 * (1 + Math.abs(lo))) return;
+      const why = undefinedReason(before?.bounds[1]) ?? undefinedReason(next?.bounds[0]);
+      out.push({ from: lo, to: hi, start, reason: why ?? 'no label here (see the run’s diagnostics)' });
+    };
+    for (const b of own) {
+      if (b.from > at) push(at, Math.min(b.from, to), b);
+      at = Math.max(at, b.to);
+      before = b;
+    }
+    if (at < to) push(at, to, undefined);
+  }
+  return out;
+}
+
+function undefinedReason(bound: string | undefined): string | null {
+  if (!bound || bandEdgeKind(bound) !== 'label undefined') return null;
+  return bound.replace(/^label undefined:\s*/, '').replace(/^no label (above|below):\s*/, '');
 }

@@ -19,18 +19,30 @@ function EnginePreview() {
   return <DiagramView diagram={data.diagram} regimes={data.regimes} escapeGraphs={data.escapeGraphs} provenance={{ ...TWO_LAKE_PROVENANCE, modelName: 'Three invented lakes (engine fixture)', engineVersion: data.diagram.engineVersion }} title="Three lakes (engine fixture, invented model)" />;
 }
 
-export function PreviewHarness({ points = 400, coupling = 0.1, compare = false, source = 'analytic' }: { points?: number; coupling?: number; compare?: boolean; source?: string }) {
+export function PreviewHarness({ points = 400, coupling = 0.1, compare = false, source = 'analytic', unlabelled = false }: { points?: number; coupling?: number; compare?: boolean; source?: string; unlabelled?: boolean }) {
   if (source === 'engine') return <EnginePreview />;
-  return <AnalyticPreview points={points} coupling={coupling} compare={compare} />;
+  return <AnalyticPreview points={points} coupling={coupling} compare={compare} unlabelled={unlabelled} />;
 }
 
-function AnalyticPreview({ points, coupling, compare }: { points: number; coupling: number; compare: boolean }) {
+/** ?unlabelled=1: the middle (strong) band left out, its neighbours' bounds saying why, as labelRegimes words it (invented). */
+const UNLABELLED_WHY = 'no way out of all-base found (invented for the preview)';
+function withoutMiddleBand(bands: RegimeBand[]): RegimeBand[] {
+  return bands.flatMap((b, i) => {
+    if (i === 2) return [];
+    if (i === 1) return [{ ...b, bounds: [b.bounds[0], `label undefined: no label above: ${UNLABELLED_WHY}`] }];
+    if (i === 3) return [{ ...b, bounds: [`label undefined: no label below: ${UNLABELLED_WHY}`, b.bounds[1]] }];
+    return [b];
+  });
+}
+
+function AnalyticPreview({ points, coupling, compare, unlabelled }: { points: number; coupling: number; compare: boolean; unlabelled: boolean }) {
   const data = useMemo(() => {
     const diagram = makeTwoLakeDiagram({ coupling, pointsPerBranch: Math.max(10, Math.round(points / 3)) });
-    const regimes = makeTwoLakeBands(diagram);
+    const all = makeTwoLakeBands(diagram);
+    const regimes = unlabelled ? withoutMiddleBand(all) : all;
     const escapeGraphs = regimes.map((b) => makeTwoLakeEscapeGraph(diagram, (b.from + b.to) / 2));
     return { diagram, regimes, escapeGraphs };
-  }, [points, coupling]);
+  }, [points, coupling, unlabelled]);
   const variant = useMemo(() => {
     if (!compare) return null;
     const diagram = makeTwoLakeDiagram({ coupling: coupling * 1.6, pointsPerBranch: 400 });
