@@ -117,6 +117,26 @@ describe('diagram island on the preview page', () => {
     await expect.poll(width).toBeCloseTo(before, 6);
   });
 
+  it('the hover readout follows a zoom under a pointer that does not move', async (ctx) => {
+    const p = ready(ctx);
+    const box = (await p.getByTestId('diagram-canvas').boundingBox())!;
+    const x = box.x + box.width * 0.15;
+    let found = false;
+    for (let f = 0.05; f < 0.95 && !found; f += 0.005) {
+      await p.mouse.move(x, box.y + box.height * f);
+      found = (await p.locator('.dg-tooltip').count()) > 0;
+    }
+    expect(found).toBe(true);
+    const head = () => p.locator('.dg-tooltip-head').count().then((c) => (c ? p.locator('.dg-tooltip-head').textContent() : 'none'));
+    const before = await head();
+    // Zoom about the centre by the keyboard: the data under the pointer moves, the pointer does not.
+    await p.locator('.dg-overlay').first().focus();
+    await p.keyboard.press('+');
+    await expect.poll(head).not.toBe(before);
+    await p.keyboard.press('0');
+    await p.mouse.move(0, 0);
+  });
+
   it('clicking on a branch opens the point panel with its state and eigenvalues', async (ctx) => {
     const p = ready(ctx);
     const box = (await p.getByTestId('diagram-canvas').boundingBox())!;

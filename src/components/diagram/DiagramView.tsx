@@ -44,6 +44,9 @@ export function DiagramView(props: DiagramViewProps) {
   const canvasRef = useRef<HTMLCanvasElement>(null);
   const overlayRef = useRef<SVGSVGElement>(null);
   const zoomRef = useRef<ZoomBehavior<SVGSVGElement, unknown> | null>(null);
+  // Last pointer position over the plot (plot coordinates), so the hover readout can follow a zoom or
+  // pan that moves the data under a pointer that does not move.
+  const pointerRef = useRef<readonly [number, number] | null>(null);
   const drawnRef = useRef<Drawn>({ sx: new Float32Array(0), sy: new Float32Array(0), branch: new Int32Array(0), index: new Int32Array(0), n: 0 });
 
   const options = useMemo(() => availableProjections(diagram, thresholds), [diagram, thresholds]);
@@ -197,6 +200,8 @@ export function DiagramView(props: DiagramViewProps) {
     });
     drawnRef.current = out;
     setDrawnCount(out.n);
+    const at = pointerRef.current;
+    if (at) setHover(nearest(at[0], at[1]));
   }, [projected, xs, ys, plotW, plotH, palette]);
 
   const nearest = useCallback((mx: number, my: number) => {
@@ -214,12 +219,13 @@ export function DiagramView(props: DiagramViewProps) {
     return [ev.clientX - r.left - M.left, ev.clientY - r.top - M.top] as const;
   };
   const onMove = (ev: React.MouseEvent<SVGSVGElement>) => {
-    if (ev.buttons) return;
-    // Over a glyph or band ribbon its own title speaks; a branch tooltip there would cover the glyph.
-    if ((ev.target as Element).closest('.dg-focusable')) { setHover(null); return; }
     const [mx, my] = local(ev);
-    if (mx < 0 || my < 0 || mx > plotW || my > plotH) { setHover(null); return; }
-    setHover(nearest(mx, my));
+    const inside = mx >= 0 && my >= 0 && mx <= plotW && my <= plotH;
+    // Over a glyph or band ribbon its own title speaks; a branch tooltip there would cover the glyph.
+    const overGlyph = Boolean((ev.target as Element).closest('.dg-focusable'));
+    pointerRef.current = inside && !overGlyph ? [mx, my] : null;
+    if (ev.buttons) return;
+    setHover(pointerRef.current ? nearest(mx, my) : null);
   };
   const onClick = (ev: React.MouseEvent<SVGSVGElement>) => {
     if ((ev.target as Element).closest('.dg-focusable')) return;
@@ -370,7 +376,7 @@ export function DiagramView(props: DiagramViewProps) {
           {/* Front layer: axes, glyphs, hover; receives zoom and pan. */}
           <svg ref={overlayRef} className="dg-layer dg-overlay" width={width} height={height} tabIndex={0}
             role="application" aria-label={`Diagram of ${yLabel} against ${diagram.parameter}. Plus and minus zoom, arrow keys pan, 0 resets. Tab reaches the special points and bands.`}
-            onMouseMove={onMove} onMouseLeave={() => setHover(null)} onClick={onClick}>
+            onMouseMove={onMove} onMouseLeave={() => { pointerRef.current = null; setHover(null); }} onClick={onClick}>
             <g transform={`translate(${M.left},${M.top})`}>
               <rect width={plotW} height={plotH} fill="transparent" />
               {/* Band ribbon above the plot: the regime labels, focusable. */}
