@@ -16,7 +16,7 @@ import { labelWidth, stackRows } from '../../lib/plot/stack-rows';
 import { decimateByPixel } from '../../lib/plot/thin';
 import { formatValue, integerTicks, linearAxis } from '../../lib/plot/ticks';
 import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
-import { locatedBandEdges, unlabelledStretches } from '../../lib/regimes/band-edge';
+import { locatedBandEdges, unlabelledInRun } from '../../lib/regimes/band-edge';
 import { ExportMenu } from '../export/ExportMenu';
 import { DiagramTable } from './DiagramTable';
 import { Legend } from './Legend';
@@ -81,15 +81,8 @@ export function DiagramView(props: DiagramViewProps) {
   const totalPoints = useMemo(() => diagram.branches.reduce((s, b) => s + b.points.length, 0), [diagram]);
 
   const ext = useMemo(() => diagramExtent(diagram, projection), [diagram, projection]);
-  // Stretches of the sweep without a label, drawn hatched with their reason (only when bands exist:
-  // a run without regime analysis has nothing to explain).
-  const gaps = useMemo(() => {
-    if (regimes.length === 0) return [];
-    // The swept range as traced; a diagram that does not record it gets only the gaps between bands.
-    const from = typeof diagram.settings.from === 'number' ? diagram.settings.from : Math.min(...regimes.map((b) => b.from));
-    const to = typeof diagram.settings.to === 'number' ? diagram.settings.to : Math.max(...regimes.map((b) => b.to));
-    return unlabelledStretches(regimes, Math.min(from, to), Math.max(from, to));
-  }, [regimes, diagram]);
+  // Stretches of the sweep without a label, drawn hatched with their reason.
+  const gaps = useMemo(() => unlabelledInRun(regimes, diagram.settings), [regimes, diagram]);
   const baseX = useMemo(() => {
     const s = (ext.p[1] - ext.p[0]) || 1;
     return scaleLinear().domain([ext.p[0] - 0.02 * s, ext.p[1] + 0.02 * s]).range([0, plotW]);

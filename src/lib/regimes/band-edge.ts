@@ -76,3 +76,15 @@ function undefinedReason(bound: string | undefined): string | null {
   if (!bound || bandEdgeKind(bound) !== 'label undefined') return null;
   return bound.replace(/^label undefined:\s*/, '').replace(/^no label (above|below):\s*/, '');
 }
+
+/**
+ * unlabelledStretches over the range a diagram was traced on (its settings' `from` and `to`); a
+ * diagram that does not record them gets only the gaps between bands, and no bands give none (a run
+ * without regime analysis has nothing to explain).
+ */
+export function unlabelledInRun(bands: readonly RegimeBand[], settings: Readonly<Record<string, unknown>>): UnlabelledStretch[] {
+  if (bands.length === 0) return [];
+  const from = typeof settings.from === 'number' ? settings.from : Math.min(...bands.map((b) => b.from));
+  const to = typeof settings.to === 'number' ? settings.to : Math.max(...bands.map((b) => b.to));
+  return unlabelledStretches(bands, Math.min(from, to), Math.max(from, to));
+}

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { unlabelledStretches, type RegimeBand } from '../../../src/lib/regimes/index';
+import { unlabelledInRun, unlabelledStretches, type RegimeBand } from '../../../src/lib/regimes/index';
 
 // Hand-made bands in the shape labelRegimes returns (bounds texts as in label-regimes.ts).
 const band = (from: number, to: number, bounds: [string, string], start?: 'all-base' | 'all-tipped'): RegimeBand =>
@@ -26,5 +26,15 @@ describe('unlabelledStretches', () => {
 
   it('calls the whole range unlabelled when there is no band at all', () => {
     expect(unlabelledStretches([], -1, 1)).toEqual([{ from: -1, to: 1, start: 'all-base', reason: 'no label here (see the run’s diagnostics)' }]);
+  });
+
+  it('unlabelledInRun uses the traced range from the diagram settings, else only gaps between bands, and nothing without bands', () => {
+    const bands = [band(1, 2, ['sweep-bound', 'saddle-node']), band(3, 4, ['saddle-node', 'sweep-bound'])];
+    expect(unlabelledInRun(bands, { from: 0, to: 5 }).map((g) => [g.from, g.to])).toEqual([[0, 1], [2, 3], [4, 5]]);
+    expect(unlabelledInRun(bands, { to: 5, from: 0 })).toHaveLength(3);
+    expect(unlabelledInRun(bands, {}).map((g) => [g.from, g.to])).toEqual([[2, 3]]);
+    // A sweep traced downwards (from > to) is the same range.
+    expect(unlabelledInRun(bands, { from: 5, to: 0 })).toHaveLength(3);
+    expect(unlabelledInRun([], { from: 0, to: 5 })).toEqual([]);
   });
 });
