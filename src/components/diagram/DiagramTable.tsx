@@ -7,7 +7,7 @@ import { project, type Projection } from '../../lib/plot/projection';
 import { splitRuns } from '../../lib/plot/runs';
 import { formatValue } from '../../lib/plot/ticks';
 import type { BandTag, RegimeBand } from '../../lib/regimes/types';
-import { locatedBandEdges, type UnlabelledStretch } from '../../lib/regimes/band-edge';
+import { bandTableRows, locatedBandEdges, type UnlabelledStretch } from '../../lib/regimes/band-edge';
 
 const END_WORDS: Record<string, string> = {
   'sweep-bound': 'edge of the sweep', 'closed-loop': 'closed on itself', merged: 'met another branch', 'point-cap': 'point cap reached',
@@ -73,10 +73,8 @@ export const DiagramTable = memo(function DiagramTable({ diagram, projection, re
           <caption>Coupling regime bands</caption>
           <thead><tr><th scope="col">Regime</th><th scope="col">From</th><th scope="col">To</th><th scope="col">Bounded by</th><th scope="col">Reason</th></tr></thead>
           <tbody>
-            {[...regimes.map((b) => ({ band: b as RegimeBand | null, gap: null as UnlabelledStretch | null, from: b.from })), ...unlabelled.map((g) => ({ band: null, gap: g, from: g.from }))].sort((u, v) => u.from - v.from).map((row, i) => row.band ? (
-              <tr key={i}><th scope="row">{REGIME_LABEL[row.band.regime]}</th><td className="num">{formatValue(row.band.from, 8)}</td><td className="num">{formatValue(row.band.to, 8)}</td><td>{row.band.bounds.join(', ')}</td><td>{row.band.reason}</td></tr>
-            ) : (
-              <tr key={i} data-testid="unlabelled-row"><th scope="row">not labelled</th><td className="num">{formatValue(row.gap!.from, 8)}</td><td className="num">{formatValue(row.gap!.to, 8)}</td><td>—</td><td>{row.gap!.reason}</td></tr>
+            {bandTableRows(regimes, unlabelled).map((row, i) => (
+              <tr key={i} data-testid={row.regime ? undefined : 'unlabelled-row'}><th scope="row">{row.regime ? REGIME_LABEL[row.regime] : 'not labelled'}</th><td className="num">{formatValue(row.from, 8)}</td><td className="num">{formatValue(row.to, 8)}</td><td>{row.bounds.length ? row.bounds.join(', ') : '—'}</td><td>{row.reason}</td></tr>
             ))}
           </tbody>
         </table>

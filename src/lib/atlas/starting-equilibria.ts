@@ -30,8 +30,7 @@ export function isUncoupledAt(system: CompiledSystem, from: number): boolean {
  * Coupled network (a sweep that starts at nonzero coupling): the same combinations as Newton guesses,
  * plus the multi-start guesses below. Otherwise: damped Newton from the document's start guesses,
  * the origin and multiStartCount quasi-random guesses (Halton sequence) in [-box, box]^n. Every
- * candidate is polished by Newton on
- * the full system and duplicates (max-norm distance below 1e-7 (1 + |x|)) are dropped.
+ * candidate is polished by Newton on the full system and duplicates (max-norm distance below 1e-7 (1 + |x|)) are dropped.
  */
 export function findStartingEquilibria(system: CompiledSystem, from: number, s: ResolvedTraceSettings): StartingEquilibria {
   const n = system.dimension;
@@ -144,7 +143,7 @@ function elementCombinations(system: CompiledSystem, from: number, s: ResolvedTr
     g[i] = tipped[i];
     guesses.push(g);
   }
-  diagnostics.push({
+  if (report) diagnostics.push({
     level: 'info',
     code: 'start-patterns-limited',
     message: `${combos.toExponential(3)} combinations of element equilibria exceed the limit of ${s.maxStartCombinations}; starting from the all-base, all-tipped and the ${n} single-node-tipped patterns plus the document's start list only`,

@@ -1,4 +1,4 @@
-import type { RegimeBand, StartState } from './types';
+import type { Regime, RegimeBand, StartState } from './types';
 
 /** What a band's edge is, read from its `bounds` text (see RegimeBand.bounds). */
 export type BandEdgeKind = 'special point' | 'saddle connection' | 'engagement crossover' | 'label undefined' | 'sweep bound';
@@ -87,4 +87,21 @@ export function unlabelledInRun(bands: readonly RegimeBand[], settings: Readonly
   const from = typeof settings.from === 'number' ? settings.from : Math.min(...bands.map((b) => b.from));
   const to = typeof settings.to === 'number' ? settings.to : Math.max(...bands.map((b) => b.to));
   return unlabelledStretches(bands, Math.min(from, to), Math.max(from, to));
+}
+
+/** One row of a band table: a band, or an unlabelled stretch (regime null) with its reason. */
+export interface BandTableRow {
+  readonly from: number;
+  readonly to: number;
+  readonly regime: Regime | null;
+  readonly bounds: readonly string[];
+  readonly reason: string;
+}
+
+/** Bands and unlabelled stretches in one list ordered by `from`, for the diagram's and the report's tables. */
+export function bandTableRows(bands: readonly RegimeBand[], gaps: readonly UnlabelledStretch[]): BandTableRow[] {
+  return [
+    ...bands.map((b) => ({ from: b.from, to: b.to, regime: b.regime, bounds: b.bounds, reason: b.reason })),
+    ...gaps.map((g) => ({ from: g.from, to: g.to, regime: null, bounds: [], reason: g.reason })),
+  ].sort((u, v) => u.from - v.from);
 }

@@ -12,4 +12,4 @@ export { cutPoints, changesEscapeGraph, type Cut } from './intervals';
 export { mergeBands, type IntervalLabel } from './merge-bands';
 export { integrateFlow, type FlowResult, type FlowSettings } from './flow';
 export { bandTagSchema, validateBandTag, tagOverlaps, BAND_TAG_NAME_MAX, BAND_TAG_NOTE_MAX, type BandTagResult } from './band-tag';
-export { bandEdgeKind, isLocatedEdge, locatedBandEdges, unlabelledStretches, unlabelledInRun, type BandEdgeKind, type UnlabelledStretch } from './band-edge';
+export { bandEdgeKind, isLocatedEdge, locatedBandEdges, unlabelledStretches, unlabelledInRun, bandTableRows, type BandEdgeKind, type BandTableRow, type UnlabelledStretch } from './band-edge';

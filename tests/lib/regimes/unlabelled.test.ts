@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { unlabelledInRun, unlabelledStretches, type RegimeBand } from '../../../src/lib/regimes/index';
+import { bandTableRows, unlabelledInRun, unlabelledStretches, type RegimeBand } from '../../../src/lib/regimes/index';
 
 // Hand-made bands in the shape labelRegimes returns (bounds texts as in label-regimes.ts).
 const band = (from: number, to: number, bounds: [string, string], start?: 'all-base' | 'all-tipped'): RegimeBand =>
@@ -36,5 +36,12 @@ describe('unlabelledStretches', () => {
     // A sweep traced downwards (from > to) is the same range.
     expect(unlabelledInRun(bands, { from: 5, to: 0 })).toHaveLength(3);
     expect(unlabelledInRun([], { from: 0, to: 5 })).toEqual([]);
+  });
+
+  it('bandTableRows puts bands and unlabelled stretches in one list by from, a stretch with regime null and no bounds', () => {
+    const bands = [band(3, 4, ['saddle-node', 'sweep-bound']), band(1, 2, ['sweep-bound', 'saddle-node'])];
+    const rows = bandTableRows(bands, unlabelledInRun(bands, { from: 0, to: 4 }));
+    expect(rows.map((r) => [r.from, r.regime])).toEqual([[0, null], [1, 'weak'], [2, null], [3, 'weak']]);
+    expect(rows[0].bounds).toEqual([]);
   });
 });
