@@ -37,10 +37,13 @@ export function integrateFlow(
   const n = system.dimension;
   const xin = new Float64Array(n);
   const out = new Float64Array(n);
+  // odex copies the returned array into its own storage at once, so one array serves every call.
+  const ret: number[] = new Array<number>(n).fill(0);
   const rhs = (_t: number, y: number[]) => {
     for (let i = 0; i < n; i++) xin[i] = y[i];
     system.rates(xin, p, out);
-    return Array.from(out);
+    for (let i = 0; i < n; i++) ret[i] = out[i];
+    return ret;
   };
   const solver = new Solver(n);
   solver.relativeTolerance = settings.relativeTolerance;
