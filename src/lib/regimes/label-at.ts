@@ -5,7 +5,9 @@ import { resolveOptions, type RegimeOptions } from './options';
 import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles';
 import { equilibriaAt, type Equilibrium } from './equilibria-at';
 import type { IntegrationBudget } from './escape-graph';
-import { looksCooperative, startExits, type Exit } from './start-exits';
+import { frameRolesOf, looksCooperative, progressSlope, startExits, type Exit } from './start-exits';
+import { newtonAtFixedParameter } from './linear-algebra';
+import { progressOf } from './pattern';
 import { listNames, patternWords } from './reason';
 
 /** The label at one parameter value, from the exits of the start state there. */
@@ -56,6 +58,12 @@ export interface Labeller {
   rolesAt(p: number): (NodeRoles | null)[];
   /** Refined equilibria at p (cached by p). */
   equilibriaAt(p: number): Equilibrium[];
+  /**
+   * The equilibrium Newton's method at fixed p reaches from `guess`, with its progress and
+   * d progress / dp in the start's frame (as Exit.progress and Exit.slope); null when Newton fails or
+   * the roles depend on p (then progress is not the smooth function of p the root finder assumes).
+   */
+  progressAt(p: number, guess: readonly number[], start: StartState): { x: number[]; progress: number[]; slope: number[] | null } | null;
   readonly names: readonly string[];
   readonly options: RegimeOptions;
   readonly budget: IntegrationBudget;
@@ -147,6 +155,17 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
     names, options: o, budget, counts,
     rolesAt,
     equilibriaAt: (p) => equilibriaFor(p).equilibria,
+    progressAt(p, guess, start) {
+      if (!fixedRoles) return null;
+      const roles = rolesAt(p);
+      if (roles.some((r) => r === null)) return null;
+      const r = newtonAtFixedParameter(system, guess, p, o.newtonTolerance, o.newtonMaxIterations);
+      if (!r.converged) return null;
+      const x = Array.from(r.x);
+      const frame = frameRolesOf(roles as NodeRoles[], start);
+      const mirrored = start === 'all-tipped';
+      return { x, progress: progressOf(mirrored ? x.map((c) => -c) : x, frame), slope: progressSlope(system, x, p, frame, mirrored) };
+    },
     labelAt(p, start = 'all-base') {
       const k = `${start}|${p}`;
       let hit = labelCache.get(k);

@@ -150,15 +150,33 @@ function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState): 
     }
     return m;
   };
+  // Points placed on both sides of a located engagement root, with the node whose progress sits at
+  // the threshold there: that node's nearness to the threshold at that end is the root itself, not a
+  // sign of another crossover (movesFast leaves it out).
+  const anchored = new Map<number, number>();
   const refine = (l: PointLabel, r: PointLabel) => {
     if (l.key !== r.key) {
       if (r.p - l.p <= o.locateTolerance) { events.push({ left: l, right: r }); return; }
+      const root = engagementRoot(labeller, l, r, start);
+      const h = 0.45 * o.locateTolerance;
+      if (root && root.p - h > l.p && root.p + h < r.p) {
+        // Full labels on both sides of the root, 0.9 locateTolerance apart: the bracket that the
+        // bisection would have ended with, reached in a few Newton steps on one saddle instead.
+        const la = at(root.p - h);
+        const lb = at(root.p + h);
+        anchored.set(la.p, root.node);
+        anchored.set(lb.p, root.node);
+        refine(l, la);
+        refine(la, lb);
+        refine(lb, r);
+        return;
+      }
       const m = midLabel(l, r);
       refine(l, m);
       refine(m, r);
       return;
     }
-    if (r.p - l.p > finest && movesFast(l, r, o.progressStep, o.engagedProgress)) {
+    if (r.p - l.p > finest && movesFast(l, r, o.progressStep, o.engagedProgress, anchored.get(l.p), anchored.get(r.p))) {
       const m = midLabel(l, r);
       refine(l, m);
       refine(m, r);
@@ -188,9 +206,10 @@ function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState): 
  * far s can be from a straight line there (common practice, no source: the Hermite-minus-secant
  * difference as an error indicator). Halve when e > step (the progress moves fast and bends), or when
  * H or an end comes within e of the engagement threshold (a crossover could hide inside).
- * Without slopes, |s(r) - s(l)| stands in for e.
+ * Without slopes, |s(r) - s(l)| stands in for e. An end placed at a located engagement root of node
+ * i (anchoredLeft / anchoredRight = i) does not count as near the threshold for node i.
  */
-function movesFast(l: PointLabel, r: PointLabel, step: number, engaged: number): boolean {
+function movesFast(l: PointLabel, r: PointLabel, step: number, engaged: number, anchoredLeft?: number, anchoredRight?: number): boolean {
   if (l.exits.length !== r.exits.length) return false;
   const order = (x: PointLabel) => [...x.exits].sort((u, v) => keyOf(u).localeCompare(keyOf(v)));
   const el = order(l);
@@ -202,7 +221,9 @@ function movesFast(l: PointLabel, r: PointLabel, step: number, engaged: number):
     for (let i = 0; i < a.progress.length; i++) {
       const s0 = a.progress[i];
       const s1 = b.progress[i];
-      const values = [s0, s1];
+      const values: number[] = [];
+      if (anchoredLeft !== i) values.push(s0);
+      if (anchoredRight !== i) values.push(s1);
       let e = Math.abs(s1 - s0);
       if (a.slope && b.slope) {
         e = 0;
@@ -224,6 +245,75 @@ function movesFast(l: PointLabel, r: PointLabel, step: number, engaged: number):
 }
 
 const keyOf = (e: PointLabel['exits'][number]) => `${e.engaged.join(',')}>${e.tipping.join(',')}`;
+
+/**
+ * Where a node's progress at an exit saddle crosses engagedProgress between two labels whose keys
+ * differ, when that is what differs: both have the same number of exits, each exit of l has a
+ * nearest exit of r with the same changed nodes, and for some matched pair a node is engaged on one
+ * side only. The root of g(p) = s_i(p) - engagedProgress is found by Newton's method on p with the
+ * slope ds_i/dp of the implicit function theorem (Exit.slope), the saddle followed by Newton's
+ * method at fixed p from the straight line between the two saddles, kept inside the bracket (a step
+ * leaving it, or one that does not shrink |g| by half, is replaced by bisection; the safeguarded
+ * Newton iteration of Press et al., Numerical Recipes, 3rd ed., section 9.4, "rtsafe"). Stops when the
+ * bracket or the step is below 1e-3 locateTolerance. Null when the difference is of another kind
+ * (a saddle connection), when Newton's method at fixed p fails or wanders off the straight line by
+ * more than the two saddles' distance, or when roles depend on p: the caller then bisects.
+ */
+function engagementRoot(labeller: Labeller, l: PointLabel, r: PointLabel, start: StartState): { p: number; node: number } | null {
+  if (l.regime === null || r.regime === null || l.exits.length !== r.exits.length || l.exits.length === 0) return null;
+  const e = labeller.options.engagedProgress;
+  const used = new Set<number>();
+  let pair: { a: PointLabel['exits'][number]; b: PointLabel['exits'][number]; node: number } | null = null;
+  for (const a of l.exits) {
+    let best = -1;
+    let bestD = Infinity;
+    r.exits.forEach((b, k) => {
+      const d = maxDist(a.saddle, b.saddle);
+      if (!used.has(k) && d < bestD) { bestD = d; best = k; }
+    });
+    if (best < 0) return null;
+    used.add(best);
+    const b = r.exits[best];
+    if (a.tipping.join(',') !== b.tipping.join(',')) return null;
+    if (pair) continue;
+    for (let i = 0; i < a.progress.length; i++) {
+      if ((a.progress[i] >= e) !== (b.progress[i] >= e)) { pair = { a, b, node: i }; break; }
+    }
+  }
+  if (!pair) return null;
+  const { a, b, node } = pair;
+  const spread = maxDist(a.saddle, b.saddle);
+  const tol = 1e-3 * labeller.options.locateTolerance;
+  let lo = l.p;
+  let hi = r.p;
+  const gLo = a.progress[node] - e;
+  const rising = gLo < 0;
+  const evalAt = (p: number) => {
+    const t = (p - l.p) / (r.p - l.p);
+    const guess = a.saddle.map((c, i) => c + t * (b.saddle[i] - c));
+    const q = labeller.progressAt(p, guess, start);
+    if (!q || maxDist(q.x, guess) > spread + 1e-9 * (1 + Math.max(...guess.map(Math.abs)))) return null;
+    return { g: q.progress[node] - e, slope: q.slope ? q.slope[node] : null };
+  };
+  // Start from the secant through the two ends.
+  const gHi = b.progress[node] - e;
+  let p = gHi === gLo ? 0.5 * (lo + hi) : lo + (hi - lo) * (gLo / (gLo - gHi));
+  if (!(p > lo && p < hi)) p = 0.5 * (lo + hi);
+  let lastG = Infinity;
+  for (let it = 0; it < 60; it++) {
+    const v = evalAt(p);
+    if (!v) return null;
+    if ((v.g < 0) === rising) lo = p; else hi = p;
+    if (v.g === 0 || hi - lo < tol) return { p, node };
+    let next = Number.NaN;
+    if (v.slope !== null && v.slope !== 0 && Number.isFinite(v.slope)) next = p - v.g / v.slope;
+    if (!(next > lo && next < hi) || Math.abs(v.g) > 0.5 * Math.abs(lastG)) next = 0.5 * (lo + hi);
+    lastG = v.g;
+    if (Math.abs(next - p) < tol) return { p: next, node };
+    p = next;
+  }
+  return null;
+}
 
 /** Names what changed between two labels a bisection bracket apart. */
 function describeCrossover(l: PointLabel, r: PointLabel, names: readonly string[], start: StartState): LocatedCrossover {

@@ -10,7 +10,7 @@ import { fmt } from './element-roles';
 import { DenseLu } from '../numerics/index';
 
 /** d progress_i / dp at an equilibrium: dx/dp = -J_x^{-1} F_p, divided by the frame's threshold - base. */
-function progressSlope(system: CompiledSystem, x: readonly number[], p: number, frameRoles: readonly NodeRoles[], mirrored: boolean): number[] | null {
+export function progressSlope(system: CompiledSystem, x: readonly number[], p: number, frameRoles: readonly NodeRoles[], mirrored: boolean): number[] | null {
   const n = system.dimension;
   const xf = Float64Array.from(x);
   const jac = system.jacobian(xf, p, new Float64Array(n * n));
@@ -24,6 +24,14 @@ function progressSlope(system: CompiledSystem, x: readonly number[], p: number, 
     out.push(d);
   }
   return out;
+}
+
+/**
+ * Roles in the start's frame: unchanged for all-base; for recovery from all-tipped mirrored x -> -x,
+ * so that progress runs from the tipped root (0) to the threshold (1).
+ */
+export function frameRolesOf(roles: readonly NodeRoles[], start: StartState): readonly NodeRoles[] {
+  return start === 'all-tipped' ? roles.map((r) => ({ base: -r.tipped, threshold: -r.threshold, tipped: -r.base })) : roles;
 }
 
 /**
@@ -129,7 +137,7 @@ export function startExits(
   if (s0 < 0) return { start: -1, ...empty };
   const xStart = targets.states[s0].x;
   const recovery = start === 'all-tipped';
-  const frameRoles = recovery ? roles.map((r) => ({ base: -r.tipped, threshold: -r.threshold, tipped: -r.base })) : roles;
+  const frameRoles = frameRolesOf(roles, start);
   const exits: Exit[] = [];
   let unresolvedExits = 0;
   let unresolvedSaddles = 0;
