@@ -3,7 +3,8 @@ import type { Diagnostic, Diagram } from '../atlas/types';
 import type { EdgeKind, NodeState, Regime, StartState } from './types';
 import { resolveOptions, type RegimeOptions } from './options';
 import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles';
-import { equilibriaAt, type Equilibrium } from './equilibria-at';
+import { analyseEquilibrium, equilibriaAt, sameState, type Equilibrium } from './equilibria-at';
+import { DenseLu } from '../numerics/index';
 import type { IntegrationBudget } from './escape-graph';
 import { frameRolesOf, looksCooperative, progressSlope, startExits, type Exit } from './start-exits';
 import { newtonAtFixedParameter } from './linear-algebra';
@@ -52,8 +53,13 @@ export function exitKind(e: Pick<Exit, 'engaged' | 'tipping'>, n: number): EdgeK
 }
 
 export interface Labeller {
-  /** The label at p for the start state (cached by p). Never throws. */
-  labelAt(p: number, start?: StartState): PointLabel;
+  /**
+   * The label at p for the start state (cached by p). Never throws. `span`: an interval between
+   * cuts that holds p (no special point inside joins an equilibrium with fewer than two unstable
+   * eigenvalues); the stable states and index-1 saddles may then be continued from another labelled
+   * point of the same span instead of refined from the diagram (continueFromNeighbour). Same label.
+   */
+  labelAt(p: number, start?: StartState, span?: readonly [number, number]): PointLabel;
   /** Roles at p (null entries where the element is not bistable). */
   rolesAt(p: number): (NodeRoles | null)[];
   /** Refined equilibria at p (cached by p). */
@@ -68,7 +74,8 @@ export interface Labeller {
   readonly options: RegimeOptions;
   readonly budget: IntegrationBudget;
   /** Manifold-branch integrations and saddles decided without integrating, so far. */
-  readonly counts: { integrations: number; skipped: number; points: number };
+  /** continued: points whose equilibria were continued from a neighbour in their span; continuationFallbacks: tries that failed (refined from the diagram instead). */
+  readonly counts: { integrations: number; skipped: number; points: number; continued: number; continuationFallbacks: number };
 }
 
 /**
@@ -87,8 +94,11 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
   const fixedRoles = o.roles !== undefined || system.network?.sweepIsCoupling === true;
   let roles0: (NodeRoles | null)[] | null = null;
   const budget: IntegrationBudget = { left: o.maxIntegrations };
-  const counts = { integrations: 0, skipped: 0, points: 0 };
-  const eqCache = new Map<number, { equilibria: Equilibrium[]; monotone: boolean }>();
+  const counts = { integrations: 0, skipped: 0, points: 0, continued: 0, continuationFallbacks: 0 };
+  const eqCache = new Map<number, EquilibriumSet>();
+  /** Sets continued inside a span (stable states and index-1 saddles only), and the labelled p of each span. */
+  const continued = new Map<number, EquilibriumSet>();
+  const spans = new Map<string, number[]>();
   const labelCache = new Map<string, PointLabel>();
 
   const rolesAt = (p: number) => {
@@ -122,11 +132,34 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
     return hit;
   };
 
-  const compute = (p: number, start: StartState): PointLabel => {
+  const equilibriaInSpan = (p: number, span: readonly [number, number] | undefined): EquilibriumSet => {
+    const known = eqCache.get(p) ?? continued.get(p);
+    if (known) return known;
+    if (!span || !fixedRoles) return equilibriaFor(p);
+    const key = `${span[0]}|${span[1]}`;
+    let list = spans.get(key);
+    if (!list) spans.set(key, (list = []));
+    let near = Number.NaN;
+    for (const q of list) if (!(Math.abs(q - p) >= Math.abs(near - p))) near = q;
+    list.push(p);
+    const source = Number.isNaN(near) ? undefined : eqCache.get(near) ?? continued.get(near);
+    if (source) {
+      const next = continueFromNeighbour(system, source, near, p, o);
+      if (next) {
+        counts.continued++;
+        continued.set(p, next);
+        return next;
+      }
+      counts.continuationFallbacks++;
+    }
+    return equilibriaFor(p);
+  };
+
+  const compute = (p: number, start: StartState, span: readonly [number, number] | undefined): PointLabel => {
     const none = (reason: string, code: string, extra: Partial<PointLabel> = {}): PointLabel => ({ p, start, regime: null, reason, exits: [], key: `none:${code}`, ...extra });
     const roles = rolesAt(p);
     if (roles.some((r) => r === null)) return none('regimes undefined: an element is not bistable', 'undefined');
-    const { equilibria, monotone } = equilibriaFor(p);
+    const { equilibria, monotone } = equilibriaInSpan(p, span);
     const diagnostics: Diagnostic[] = [];
     const found = startExits(system, p, equilibria, roles as NodeRoles[], start, monotone, o, budget, diagnostics);
     diagnostics.forEach(note);
@@ -166,12 +199,12 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
       const mirrored = start === 'all-tipped';
       return { x, progress: progressOf(mirrored ? x.map((c) => -c) : x, frame), slope: progressSlope(system, x, p, frame, mirrored) };
     },
-    labelAt(p, start = 'all-base') {
+    labelAt(p, start = 'all-base', span) {
       const k = `${start}|${p}`;
       let hit = labelCache.get(k);
       if (!hit) {
         try {
-          hit = compute(p, start);
+          hit = compute(p, start, span);
         } catch (e) {
           note({ level: 'error', code: 'regimes-failed', p,
             message: `regime analysis failed at ${system.parameter} = ${fmt(p)}: ${e instanceof Error ? e.message : String(e)}; no label there` });
@@ -182,6 +215,43 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
       return hit;
     },
   };
+}
+
+interface EquilibriumSet { readonly equilibria: Equilibrium[]; readonly monotone: boolean }
+
+/**
+ * The stable states and index-1 saddles at p, continued from a set at p0 of the same span: each by
+ * the tangent predictor x + (p - p0) dx/dp (dx/dp = -J_x^{-1} F_p, implicit function theorem) and
+ * Newton's method at fixed p, then its spectrum. Inside a span no special point joins an equilibrium
+ * with fewer than two unstable eigenvalues, so their number is the same at p0 and p; when every
+ * continued point converges, is distinct from the others and keeps its number of unstable
+ * eigenvalues, the continued points are therefore all of them (a one-to-one map onto a set of the
+ * same size). Otherwise null, and the caller refines from the diagram. Equilibria with two or more
+ * unstable eigenvalues are left out: the exits need only the others (startExits uses the rest only
+ * to rule branches out without integrating, so without them it integrates more, never less), and
+ * arrival balls are capped by arrivalRadius anyway. The cooperative flag is the source's, checked
+ * again on the continued points.
+ */
+function continueFromNeighbour(system: CompiledSystem, source: EquilibriumSet, p0: number, p: number, o: RegimeOptions): EquilibriumSet | null {
+  const n = system.dimension;
+  const out: Equilibrium[] = [];
+  const jac = new Float64Array(n * n);
+  const fp = new Float64Array(n);
+  for (const e of source.equilibria) {
+    if (e.neutral !== 0 || e.unstable > 1) continue;
+    const x0 = Float64Array.from(e.x);
+    system.jacobian(x0, p0, jac);
+    system.parameterDerivative(x0, p0, fp);
+    const dx = new DenseLu(jac, n).solve(Array.from(fp, (v) => -v));
+    if (!dx) return null;
+    const guess = e.x.map((c, i) => c + (p - p0) * dx[i]);
+    const r = newtonAtFixedParameter(system, guess, p, o.newtonTolerance, o.newtonMaxIterations);
+    if (!r.converged || out.some((f) => sameState(f.x, r.x, o.duplicateTolerance))) return null;
+    const next = analyseEquilibrium(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
+    if (next.unstable !== e.unstable || next.neutral !== 0 || (next.unstable === 1 && !next.unstableVector)) return null;
+    out.push(next);
+  }
+  return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p) };
 }
 
 /**

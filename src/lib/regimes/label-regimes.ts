@@ -17,8 +17,12 @@ export interface RegimeResult {
   readonly diagnostics: Diagnostic[];
   /** Every located saddle connection and engagement crossover, in increasing p per start. */
   readonly crossovers: LocatedCrossover[];
-  /** Work done: labelled parameter values, manifold-branch integrations, saddles ruled out without integrating. */
-  readonly work: { readonly points: number; readonly integrations: number; readonly skipped: number };
+  /**
+   * Work done: labelled parameter values (and how many of them continued their equilibria from a
+   * neighbour, and how many tries at that fell back to the diagram), manifold-branch integrations,
+   * saddles ruled out without integrating.
+   */
+  readonly work: { readonly points: number; readonly continued: number; readonly continuationFallbacks: number; readonly integrations: number; readonly skipped: number };
 }
 
 const MAX_DIAGNOSTICS = 60;
@@ -58,7 +62,7 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
       diagnostics.length = MAX_DIAGNOSTICS;
       diagnostics.push({ level: 'info', code: 'diagnostics-truncated', message: `${extra} further diagnostics were left out` });
     }
-    return { regimes, escapeGraphs, diagnostics, crossovers, work: labeller ? { ...labeller.counts } : { points: 0, integrations: 0, skipped: 0 } };
+    return { regimes, escapeGraphs, diagnostics, crossovers, work: labeller ? { ...labeller.counts } : { points: 0, continued: 0, continuationFallbacks: 0, integrations: 0, skipped: 0 } };
   };
 
   if (!system.network && !o.roles) {
@@ -126,8 +130,9 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
 function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState): { pieces: Piece[]; crossovers: LocatedCrossover[] } {
   const o = labeller.options;
   const w = b.p - a.p;
+  const span = [a.p, b.p] as const;
   const at = (p: number) => {
-    const l = labeller.labelAt(p, start);
+    const l = labeller.labelAt(p, start, span);
     if (l.truncated) throw new BudgetExhausted();
     return l;
   };

@@ -55,6 +55,28 @@ describe('labelAt on the symmetric cubic pair (analytic branches, closed forms i
     }
   });
 
+  it('a label whose equilibria were continued from a neighbour in its span is the label refined from the diagram', () => {
+    // (beta_sn, beta_pf) holds no special point: the continued stable states and saddles must be the
+    // refined ones (the counting argument of continueFromNeighbour), and so the exits and the key.
+    const span = [betaSaddleNode, betaPitchfork] as const;
+    const near = createLabeller(system, diagram);
+    const p0 = betaSaddleNode + 0.1 * (betaPitchfork - betaSaddleNode);
+    near.labelAt(p0, 'all-base', span);
+    for (const f of [0.3, 0.6, 0.9]) {
+      const p = betaSaddleNode + f * (betaPitchfork - betaSaddleNode);
+      const got = near.labelAt(p, 'all-base', span);
+      const fresh = createLabeller(system, diagram).labelAt(p);
+      expect(got.key).toBe(fresh.key);
+      expect(got.exits).toHaveLength(fresh.exits.length);
+      for (const e of fresh.exits) {
+        const twin = got.exits.find((g) => g.saddle.every((c, i) => Math.abs(c - e.saddle[i]) < 1e-10));
+        expect(twin?.destination).toEqual(e.destination);
+      }
+    }
+    expect(near.counts.continued).toBe(3);
+    expect(near.counts.continuationFallbacks).toBe(0);
+  });
+
   it('labelRegimes puts the strong band at the pitchfork and the weak band at the saddle-node to 1e-8', () => {
     const result = labelRegimes(system, diagram);
     const strong = result.regimes.find((b) => b.regime === 'strong')!;
