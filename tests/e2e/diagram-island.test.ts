@@ -206,6 +206,18 @@ describe('diagram island on the preview page', () => {
     expect(await p.locator('.dg-legend').textContent()).toContain('not labelled');
     expect(await p.getByTestId('unlabelled-row').textContent()).toContain('no way out of all-base found');
     await p.screenshot({ path: screenshotPath('diagram-unlabelled-stretch') });
+    // Clicking its ribbon (or Enter on it) opens its reason in the side panel.
+    const ribbon = p.getByTestId('unlabelled-ribbon');
+    expect(await ribbon.count()).toBe(1);
+    await ribbon.click();
+    const panel = p.getByTestId('side-panel');
+    expect(await panel.locator('.dg-panel-title').textContent()).toBe('Not labelled');
+    expect(await panel.getByTestId('unlabelled-reason').textContent()).toBe('no way out of all-base found');
+    await panel.getByRole('button', { name: 'Close details' }).click();
+    await ribbon.focus();
+    await p.keyboard.press('Enter');
+    expect(await panel.getByTestId('unlabelled-reason').textContent()).toBe('no way out of all-base found');
+    await panel.screenshot({ path: screenshotPath('diagram-unlabelled-panel') });
     // The full fixture has no gap: nothing hatched.
     await p.goto(`${base}/dev/diagram-preview`, { waitUntil: 'load' });
     await p.waitForSelector('[data-testid=diagram-view][data-drawn-points]:not([data-drawn-points="0"])', { timeout: 60_000 });

@@ -17,6 +17,7 @@ import { SPECIAL_LABEL } from '../../src/lib/plot/markers';
 import { splitAllRuns } from '../../src/lib/plot/runs';
 import { formatValue } from '../../src/lib/plot/ticks';
 import type { RegimeBand } from '../../src/lib/regimes/types';
+import { bandExitSummary } from '../../src/lib/regimes/band-exits';
 import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, shootBothThemes, signIn } from './browser.ts';
 
 
@@ -158,6 +159,11 @@ describe('a seeded demo run page, as the demo modeler', () => {
     await page.getByTestId('band-ribbon').first().click();
     const panel = page.getByTestId('side-panel');
     expect(await panel.getByTestId('band-reason').textContent()).toBe(regimes[0].reason);
+    // The reason as a table: one row per exit the band's reason rests on, with a summary on top.
+    expect(regimes[0].exits?.length ?? 0).toBeGreaterThan(0);
+    expect(await panel.getByTestId('band-exits').locator('tbody tr').count()).toBe(regimes[0].exits!.length);
+    expect(await panel.getByTestId('band-summary').textContent()).toBe(bandExitSummary(regimes[0]));
+    await panel.screenshot({ path: screenshotPath('run-diagram-band-panel-light') });
     expect(await panel.getByTestId('escape-graph').count()).toBe(1);
     const form = panel.getByTestId('tag-form');
     await form.getByLabel('Name').fill(tagName);

@@ -228,7 +228,9 @@ export function DiagramView(props: DiagramViewProps) {
     if (hit) { setSelection({ kind: 'point', branch: hit.branch, index: hit.index }); return; }
     const p = xs.invert(mx);
     const bi = regimes.findIndex((b) => p >= b.from && p <= b.to);
-    if (bi >= 0) setSelection({ kind: 'band', index: bi });
+    if (bi >= 0) { setSelection({ kind: 'band', index: bi }); return; }
+    const gi = gaps.findIndex((g) => p >= g.from && p <= g.to);
+    if (gi >= 0) setSelection({ kind: 'gap', index: gi });
   };
 
   const onKey = (ev: React.KeyboardEvent) => {
@@ -388,6 +390,20 @@ export function DiagramView(props: DiagramViewProps) {
                   </g>
                 );
               })}
+              {/* Unlabelled stretches get a hatched ribbon of their own: click or Enter opens why. */}
+              {gaps.map((g, i) => {
+                const x0 = Math.max(-2, xs(g.from)), x1 = Math.min(plotW + 2, xs(g.to));
+                if (x1 - x0 < 1) return null;
+                const selected = selection?.kind === 'gap' && selection.index === i;
+                return (
+                  <g key={`gapr${i}`} className={`dg-focusable dg-ribbon dg-ribbon-unlabelled${selected ? ' is-selected' : ''}`} role="button" tabIndex={0}
+                    data-testid="unlabelled-ribbon" aria-label={`Not labelled from ${formatValue(g.from)} to ${formatValue(g.to)}. Open why.`}
+                    onClick={(e) => { e.stopPropagation(); setSelection({ kind: 'gap', index: i }); }} onKeyDown={(e) => keyOpen(e, () => setSelection({ kind: 'gap', index: i }))}>
+                    <rect x={x0 + 0.5} y={-24} width={x1 - x0 - 1} height={18} rx={2} fill={`url(#${clipId}-hatch)`} />
+                    {x1 - x0 > 90 ? <text x={(x0 + x1) / 2} y={-11} textAnchor="middle">not labelled</text> : null}
+                  </g>
+                );
+              })}
               {/* Axes. */}
               <g className="dg-axis" transform={`translate(0,${plotH})`}>
                 <line x1={0} x2={plotW} />
@@ -446,7 +462,7 @@ export function DiagramView(props: DiagramViewProps) {
             </div>
           ) : null}
         </div>
-        <SidePanel diagram={diagram} projection={projection} selection={selection} regimes={regimes} escapeGraphs={escapeGraphs}
+        <SidePanel diagram={diagram} projection={projection} selection={selection} regimes={regimes} unlabelled={gaps} escapeGraphs={escapeGraphs}
           canTag={Boolean(props.canTag && (props.onAddTag || props.tagEndpoint))} onAddTag={addTag} onClose={() => { setSelection(null); overlayRef.current?.focus(); }} />
       </div>
 

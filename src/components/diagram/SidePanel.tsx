@@ -6,7 +6,51 @@ import { markerFillRule, markerPath, SPECIAL_DESCRIPTION, SPECIAL_LABEL } from '
 import { project, projectionLabel, type Projection } from '../../lib/plot/projection';
 import { formatValue } from '../../lib/plot/ticks';
 import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
-import { bandEdgeKind } from '../../lib/regimes/band-edge';
+import { bandEdgeKind, type UnlabelledStretch } from '../../lib/regimes/band-edge';
+import { bandExitRows, bandExitSummary } from '../../lib/regimes/band-exits';
+
+/**
+ * Why the band has its label: a one-line summary and a table with one row per exit of the start
+ * state (the saddle, the nodes engaged there, the further nodes that follow, where it leads, its
+ * kind), taken where the band's reason was taken; the full sentence stays below for the record.
+ * Results stored without exits show the sentence alone.
+ */
+function BandReason({ band, names, parameter }: { band: RegimeBand; names: readonly string[]; parameter: string }) {
+  const summary = bandExitSummary(band);
+  const rows = bandExitRows(band, names);
+  if (!summary) {
+    return (
+      <>
+        <h4>Reason</h4>
+        <p className="dg-reason" data-testid="band-reason">{band.reason}</p>
+      </>
+    );
+  }
+  return (
+    <>
+      <h4>Ways out</h4>
+      <p className="dg-reason" data-testid="band-summary">{summary}</p>
+      <table className="dg-exits" data-testid="band-exits">
+        <caption className="dg-muted">at {parameter} = {formatValue(band.exitsAt ?? Number.NaN, 6)}</caption>
+        <thead><tr><th scope="col">Exit</th><th scope="col">Then</th><th scope="col">Leads to</th><th scope="col">Kind</th></tr></thead>
+        <tbody>
+          {rows.map((r, k) => (
+            <tr key={k} className={`dg-exit-${r.kind}`}>
+              <th scope="row">{r.exit}</th>
+              <td>{r.then}</td>
+              <td>{r.leadsTo}</td>
+              <td>{r.kindWords}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <details className="dg-reason-full">
+        <summary>In one sentence</summary>
+        <p className="dg-reason" data-testid="band-reason">{band.reason}</p>
+      </details>
+    </>
+  );
+}
 
 /** The words after the edge kind: the special point's types, or what changed at a located crossover. */
 function edgeDetail(bound: string | undefined): string {
@@ -20,6 +64,8 @@ import type { Selection } from './types';
 
 interface Props {
   diagram: Diagram; projection: Projection; selection: Selection; regimes: readonly RegimeBand[]; escapeGraphs: readonly EscapeGraph[];
+  /** Unlabelled stretches of the swept range (unlabelledInRun), for the 'gap' selection. */
+  unlabelled?: readonly UnlabelledStretch[];
   canTag: boolean; onAddTag: (tag: BandTag) => Promise<void>; onClose: () => void;
 }
 
@@ -103,7 +149,7 @@ function TagForm({ band, onAddTag }: { band: Pick<RegimeBand, 'from' | 'to'>; on
   );
 }
 
-export function SidePanel({ diagram, projection, selection, regimes, escapeGraphs, canTag, onAddTag, onClose }: Props) {
+export function SidePanel({ diagram, projection, selection, regimes, unlabelled = [], escapeGraphs, canTag, onAddTag, onClose }: Props) {
   const headRef = useRef<HTMLHeadingElement>(null);
   useEffect(() => { if (selection) headRef.current?.focus(); }, [selection]);
   const close = <button type="button" className="dg-close" onClick={onClose} aria-label="Close details">Close</button>;
@@ -154,6 +200,20 @@ export function SidePanel({ diagram, projection, selection, regimes, escapeGraph
         <Evidence evidence={sp.evidence} />
       </>
     ) : null;
+  } else if (selection.kind === 'gap') {
+    const gap = unlabelled[selection.index];
+    body = gap ? (
+      <>
+        <h3 className="dg-panel-title" tabIndex={-1} ref={headRef}><span className="dg-swatch dg-swatch-unlabelled" aria-hidden="true" />Not labelled</h3>{close}
+        <dl className="dg-dl">
+          <dt>Range</dt><dd className="num">{formatValue(gap.from, 8)} to {formatValue(gap.to, 8)}</dd>
+          {gap.start !== 'all-base' ? <><dt>Start</dt><dd>{gap.start}</dd></> : null}
+        </dl>
+        <h4>Why</h4>
+        <p className="dg-reason" data-testid="unlabelled-reason">{gap.reason}</p>
+        <p className="dg-muted">A label needs a stable {gap.start} state and, for each index-1 saddle that leads out of it, the state its other manifold branch reaches. Where the engine could not establish that, it leaves the stretch unlabelled rather than guess; the run’s diagnostics list each case with its parameter value.</p>
+      </>
+    ) : null;
   } else if (selection.kind === 'range') {
     body = (
       <>
@@ -173,8 +233,7 @@ export function SidePanel({ diagram, projection, selection, regimes, escapeGraph
           <dt>Lower edge</dt><dd data-testid="band-lower-edge"><span className="dg-edge-kind">{bandEdgeKind(band.bounds[0] ?? '')}</span>{edgeDetail(band.bounds[0])}</dd>
           <dt>Upper edge</dt><dd data-testid="band-upper-edge"><span className="dg-edge-kind">{bandEdgeKind(band.bounds[1] ?? '')}</span>{edgeDetail(band.bounds[1])}</dd>
         </dl>
-        <h4>Reason</h4>
-        <p className="dg-reason" data-testid="band-reason">{band.reason}</p>
+        <BandReason band={band} names={diagram.variables} parameter={diagram.parameter} />
         <h4>Escape graph{graph ? ` at ${diagram.parameter} = ${formatValue(graph.p)}` : ''}</h4>
         {graph ? <EscapeGraphDrawing graph={graph} names={diagram.variables} /> : <p className="dg-muted">No escape graph was stored for this band.</p>}
         {canTag ? <TagForm key={selection.index} band={band} onAddTag={onAddTag} /> : null}

@@ -29,6 +29,8 @@ export type Selection =
   | { readonly kind: 'point'; readonly branch: number; readonly index: number }
   | { readonly kind: 'special'; readonly id: string }
   | { readonly kind: 'band'; readonly index: number }
+  /** An unlabelled stretch (unlabelledInRun's list, in order). */
+  | { readonly kind: 'gap'; readonly index: number }
   /** A tag on any parameter range (starts as the visible range). */
   | { readonly kind: 'range'; readonly from: number; readonly to: number }
   | null;

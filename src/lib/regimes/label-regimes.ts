@@ -121,6 +121,8 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
 
   const regimes = starts.flatMap((s) => mergeBands(pieces.get(s)!.map((q): IntervalLabel => ({
     from: q.from, to: q.to, fromBound: q.fromBound, toBound: q.toBound, regime: q.label.regime, reason: q.label.reason, start: s,
+    exits: q.label.exits.map((e) => ({ saddle: e.saddle.slice(), engaged: e.engaged.slice(), tipping: e.tipping.slice(), destination: e.destination.slice(), kind: exitKind(e, n) })),
+    exitsAt: q.label.p,
   }))));
   const escapeGraphs = o.escapeGraphs ? graphsOfPieces(system, labeller, pieces.get(starts[0])!, starts, note) : [];
   return finish(regimes, escapeGraphs, crossovers, labeller);
@@ -131,10 +133,20 @@ function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState): 
   const o = labeller.options;
   const w = b.p - a.p;
   const span = [a.p, b.p] as const;
+  const seen: PointLabel[] = [];
   const at = (p: number) => {
     const l = labeller.labelAt(p, start, span);
     if (l.truncated) throw new BudgetExhausted();
+    seen.push(l);
     return l;
+  };
+  // A piece's label (same key throughout): the sampled one nearest the piece's middle, so that the
+  // exits shown for it are taken inside the piece, not 1e-7 from a cut.
+  const central = (from: number, to: number, fallback: PointLabel): PointLabel => {
+    const mid = 0.5 * (from + to);
+    let best = fallback;
+    for (const l of seen) if (l.key === fallback.key && l.p >= from && l.p <= to && Math.abs(l.p - mid) < Math.abs(best.p - mid)) best = l;
+    return best;
   };
   const inA = a.p + Math.min(o.cutOffset * (1 + Math.abs(a.p)), 0.01 * w);
   const inB = b.p - Math.min(o.cutOffset * (1 + Math.abs(b.p)), 0.01 * w);
@@ -196,11 +208,11 @@ function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState): 
   for (const e of events) {
     const c = describeCrossover(e.left, e.right, labeller.names, start);
     crossovers.push(c);
-    pieces.push({ from: lo, to: c.p, fromBound: loBound, toBound: c.description, label: e.left });
+    pieces.push({ from: lo, to: c.p, fromBound: loBound, toBound: c.description, label: central(lo, c.p, e.left) });
     lo = c.p;
     loBound = c.description;
   }
-  pieces.push({ from: lo, to: b.p, fromBound: loBound, toBound: cutName(b), label: events.length ? events[events.length - 1].right : samples[0] });
+  pieces.push({ from: lo, to: b.p, fromBound: loBound, toBound: cutName(b), label: central(lo, b.p, events.length ? events[events.length - 1].right : samples[0]) });
   return { pieces, crossovers };
 }
 

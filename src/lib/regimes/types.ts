@@ -47,6 +47,26 @@ export interface RegimeBand {
   readonly reason: string;
   /** Which start state the label is about; absent means all-base (tipping). */
   readonly start?: StartState;
+  /**
+   * The exits behind `reason` (the band's first stretch of unchanged reasons), taken at `exitsAt`:
+   * one row each for the band's exit table. Absent in results stored before engine 1.3.
+   */
+  readonly exits?: BandExit[];
+  readonly exitsAt?: number;
+}
+
+/** One exit of the start state (regimes/start-exits.ts), in node indices of the model and the start's frame. */
+export interface BandExit {
+  /** The index-1 saddle. */
+  readonly saddle: number[];
+  /** Nodes with progress >= engagedProgress at the saddle. */
+  readonly engaged: number[];
+  /** Nodes that leave the start's level at the destination (tip, or recover for all-tipped). */
+  readonly tipping: number[];
+  /** Pattern of the stable state the exit leads to. */
+  readonly destination: NodeState[];
+  /** contained (only the engaged nodes change), synchronous (one unit, every node) or cascading. */
+  readonly kind: EdgeKind;
 }
 
 /** What kind of event a located band edge is. Special points and sweep ends are named by their types in `bounds`. */
