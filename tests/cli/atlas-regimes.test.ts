@@ -16,7 +16,10 @@ describe('atlas CLI coupling regimes', () => {
     expect(out.regimes.map((b: { regime: string }) => b.regime)).toEqual(['weak', 'intermediate', 'strong']);
     // beta_sn = 1/3 - (r/2)^(2/3), derived in tests/lib/regimes/fixtures.ts.
     expect(Math.abs(out.regimes[0].to - symmetricPairValues(R).betaSaddleNode)).toBeLessThan(1e-8);
-    for (const b of out.regimes) expect(Object.keys(b).sort()).toEqual(['bounds', 'from', 'reason', 'regime', 'to']);
+    for (const b of out.regimes) {
+      expect(Object.keys(b).sort()).toEqual(['bounds', 'exits', 'exitsAt', 'from', 'reason', 'regime', 'to']);
+      for (const e of b.exits) expect(Object.keys(e).sort()).toEqual(['destination', 'engaged', 'kind', 'saddle', 'tipping']);
+    }
     expect(out.escapeGraphs).toHaveLength(3);
     for (const g of out.escapeGraphs) {
       expect(typeof g.p).toBe('number');

@@ -8,6 +8,7 @@ export { barriersAt, stateLabel, saddleLabel, defaultBarrierOptions, type Barrie
 export { exitSwitches, saddleKeys, defaultExitSwitchOptions, type ExitSwitchOptions, type ExitSwitchResult, type ExitSample } from './exit-switches';
 export { eyringKramersPrefactor, DEFAULT_DEGENERACY_TOLERANCE, type PrefactorResult } from './prefactor';
 export { solveEscapeChain, defaultEscapeChainOptions, type ChainTransition, type EscapeChain, type EscapeChainOptions, type EscapeChainResult } from './markov-chain';
+export { bouchetReygnerPrefactor, lyapunov, defaultBouchetReygnerOptions, type BouchetReygnerOptions, type BouchetReygnerResult } from './bouchet-reygner';
 export { predictEscapes, halfwayThresholds, type Prediction, type PredictionOptions, type PredictedRate, type PrefactorKind } from './prediction';
 export { meanFirstPassage1d, defaultFirstPassage1dOptions, type FirstPassage1dOptions, type FirstPassage1dResult } from './first-passage-1d';
 export { escapeThresholds, type EscapeDirection } from './thresholds';

@@ -12,6 +12,8 @@ import { defaultRegimeOptions } from '../regimes/options';
 import type { Barrier, CancelSignal, NoiseGraph, NoiseSpec, Progress } from './types';
 import { NoiseSettingError } from './noise-spec';
 import { eyringKramersPrefactor } from './prefactor';
+import { bouchetReygnerPrefactor } from './bouchet-reygner';
+import { scaledField } from './gmam';
 import { solveEscapeChain, type ChainTransition, type EscapeChainOptions } from './markov-chain';
 
 export type PrefactorKind = 'eyring-kramers' | 'bouchet-reygner' | 'exponential-only';
@@ -83,8 +85,10 @@ export function halfwayThresholds(roles: readonly NodeRoles[], start?: ArrayLike
  * Predicted escape sequences and times at weak noise.
  * Rates: k = C exp(-barrier / level^2) per Barrier (state -> saddle -> other state). Gradient
  * systems take the Eyring–Kramers prefactor C = mu(s)/(2 pi) sqrt(|det J(m)| / |det J(s)|) (Berglund
- * 2013; prefactor.ts). Non-gradient systems: the Bouchet–Reygner prefactor is not implemented, so
- * the rates are the leading exponential order exp(-barrier / level^2) with C = 1, said in a warning
+ * 2013; prefactor.ts). Non-gradient systems take the Bouchet–Reygner prefactor from each barrier's
+ * minimum-action path (Bouchet & Reygner 2016; bouchet-reygner.ts). Where either is not defined for
+ * some edge (its conditions fail, the path is too coarse, the integral does not settle), every rate
+ * is the leading exponential order exp(-barrier / level^2) with C = 1, said in a warning
  * (`prefactor: 'exponential-only'`): order probabilities are then right only where one barrier
  * dominates, and times only in logarithmic scale. Crossing orders: along the Barrier's path (state
  * to saddle, straight segment when it has none) and then the saddle's unstable-manifold branch
@@ -144,8 +148,22 @@ export function predictEscapes(
     }
     if (kind === 'exponential-only') prefactors.fill(null);
   } else {
-    diagnostics.push({ level: 'warning', code: 'prediction-exponential-only', p,
-      message: 'the scaled field is not a gradient and the Bouchet–Reygner prefactor is not implemented: rates are exp(-barrier / sigma^2) with unit prefactor, so sequence probabilities hold only where one barrier dominates and mean times only to logarithmic order (log T ~ barrier / sigma^2)' });
+    // Non-gradient: the Bouchet–Reygner prefactor from each barrier's minimum-action path, in the
+    // scaled coordinates y = x / w where the noise is isotropic (bouchet-reygner.ts).
+    kind = 'bouchet-reygner';
+    const field = scaledField(system, p, spec.weights);
+    for (let k = 0; k < usable.length; k++) {
+      const b = usable[k];
+      const r = bouchetReygnerPrefactor(field, b.path.map((x) => Float64Array.from(x, (v, i) => v / spec.weights[i])));
+      if (!r.ok) {
+        kind = 'exponential-only';
+        diagnostics.push({ level: 'warning', code: 'prediction-exponential-only', p,
+          message: `the scaled field is not a gradient and the Bouchet–Reygner prefactor from state ${b.from} over saddle ${b.saddle} is not available: ${r.reason}; every rate is exp(-barrier / sigma^2) with unit prefactor, so sequence probabilities hold only where one barrier dominates and mean times only to logarithmic order (log T ~ barrier / sigma^2)` });
+        break;
+      }
+      prefactors[k] = r.prefactor;
+    }
+    if (kind === 'exponential-only') prefactors.fill(null);
   }
 
   const crossingCache = new Map<string, { groups: number[][]; ok: boolean }>();

@@ -191,6 +191,33 @@ describe('predictEscapes(system, graph, barriers, spec, options)', () => {
     expect(total + pr.incomplete).toBeCloseTo(1, 12);
   });
 
+  it('takes the Bouchet–Reygner prefactor for the non-gradient one-way pair, and the upstream escape has the 1-D Kramers prefactor', () => {
+    // x_up' = f(x_up), x_down' = f(x_down) + beta (x_up - x_down), f(x) = r + x - x^3: the upstream
+    // node does not feel the other, so its own escape from base over its middle root is the 1-D
+    // double well's, whatever the downstream node does. The escape from all-base over the saddle with
+    // `up` at its middle root therefore has the 1-D Eyring–Kramers prefactor
+    //   C = f'(m) / (2 pi) sqrt(|f'(a)| / f'(m)) = sqrt(|f'(a)| f'(m)) / (2 pi)
+    // (Berglund 2013, the 1-D form; a, m the base and middle roots, cubicRoots), which the
+    // two-dimensional Bouchet–Reygner formula must reproduce (a non-trivial case: V is not separable).
+    const r = 0.1;
+    const beta = 0.1;
+    const system = compileModelJson(cubicNetwork({ r, nodes: ['up', 'down'], links: [{ from: 'up', to: 'down' }], sweep: { parameter: 'beta', from: 0, to: 0.6 } }));
+    const graph = graphOf(system, oneWayPairDiagram(r, 0, 0.6).diagram, beta);
+    const start = baseIndex(graph);
+    const iso = new Float64Array([1, 1]);
+    const found = barriersAt(system, graph, iso, { pairs: (from) => from === start });
+    expect(found.gradient).toBe(false);
+    const pr = predictEscapes(system, graph, found.barriers, uniform(2, 0.2), { start, gradient: false });
+    expect(pr.prefactor).toBe('bouchet-reygner');
+    const { a, m } = cubicRoots(r);
+    const fp = (x: number) => 1 - 3 * x * x;
+    const expected = Math.sqrt(Math.abs(fp(a)) * fp(m)) / (2 * Math.PI);
+    const upFirst = pr.rates.find((x) => x.from === start && Math.abs(graph.graph.saddles[x.saddle].x[0] - m) < 1e-6);
+    expect(upFirst).toBeTruthy();
+    // Measured 9.3e-4 with gmam's default 200 segments (bouchet-reygner.ts: the error is the path's).
+    expect(Math.abs(upFirst!.prefactor! / expected - 1)).toBeLessThan(2e-3);
+  });
+
   it('reports progress up to 1 and returns a partial answer when cancelled', () => {
     const barriers = closedFormBarriers(singleGraph, 0, 0, []);
     const fractions: number[] = [];
