@@ -16,6 +16,16 @@ describe('PathStreams', () => {
     }
   });
 
+  it('shares one generator per thread: each select gives its own stream, whichever instance selected before', () => {
+    const a = new PathStreams(5);
+    const b = new PathStreams(6);
+    for (const [streams, seed, i] of [[a, 5, 3], [b, 6, 3], [a, 5, 4], [b, 6, 0]] as const) {
+      const got = streams.select(i);
+      const want = pathNormals(seed, i);
+      for (let k = 0; k < 700; k++) expect(got()).toBe(want());
+    }
+  });
+
   it('rejects a bad path index naming it', () => {
     expect(() => new PathStreams(1).select(-1)).toThrow(/path index/);
     expect(() => new PathStreams(1.5)).toThrow(/seed/);
