@@ -57,7 +57,7 @@ type Table = Map<string, Map<string, number>>;
  * neighbouring samples where the tied lowest sets are disjoint, the difference of the two barriers is
  * bisected to `parameterTolerance` in p. The switch is reported with the common barrier (mean of the
  * two at the final midpoint). The located p is as accurate as the barriers: potential barriers to
- * rounding, gMAM barriers to their discretization (about 1e-6 relative), divided by the slope of the
+ * rounding, gMAM barriers to their discretization (2.4e-7 relative at 200 segments, docs/noise.md), divided by the slope of the
  * difference. A switch whose saddle vanishes inside the bracket (a bifurcation, not a crossing) is a
  * diagnostic, not a switch. Two switches between the same two samples cancel and are missed
  * (raise samplesPerInterval). Never throws for numerical trouble.
