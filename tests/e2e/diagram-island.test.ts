@@ -5,7 +5,7 @@
  * with DEV_PAGES=1; where it is not served the tests skip and say so.
  * Base URL: DIAGRAM_PREVIEW_BASE_URL, else TEST_BASE_URL.
  */
-import { readFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import Papa from 'papaparse';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
@@ -193,6 +193,37 @@ describe('diagram island on the preview page', () => {
     const pdf = await downloadText(p, 'export-pdf');
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
     expect(pdf.length).toBeGreaterThan(10_000);
+  });
+
+  it('exports a one-column figure for a paper: PDF at 85 mm with a Greek axis title pdf.js reads back, PNG at 600 dpi with pHYs', async (ctx) => {
+    const p = ready(ctx);
+    if (!(await p.getByTestId('export-size').isVisible())) await p.getByTestId('export-toggle').click();
+    await p.getByTestId('export-size').selectOption('one-column');
+    expect(await p.getByTestId('export-width').inputValue()).toBe('85');
+    await p.getByTestId('export-x-label').fill('coupling β (1/yr)');
+    await p.locator('.dg-export-panel').screenshot({ path: screenshotPath('diagram-export-paper') });
+    const pdf = await downloadText(p, 'export-pdf');
+    const media = /\/MediaBox \[0 0 ([\d.]+) ([\d.]+)\]/.exec(pdf.toString('latin1'))!;
+    // 85 mm = 85 / 25.4 in = 240.94 pt (1 in = 72 pt, PDF 1.7 §8.3.2.3).
+    expect(Number(media[1])).toBeCloseTo((85 / 25.4) * 72, 1);
+    const pdfjs = await import('pdfjs-dist/legacy/build/pdf.mjs');
+    const doc = await pdfjs.getDocument({ data: new Uint8Array(pdf), isEvalSupported: false }).promise;
+    const text = (await (await doc.getPage(1)).getTextContent()).items.map((it) => ('str' in it ? it.str : '')).join('');
+    expect(text).toContain('coupling β (1/yr)');
+    const png = await downloadText(p, 'export-png-paper');
+    writeFileSync(screenshotPath('diagram-export-paper-600dpi'), png);
+    // IHDR width at byte 16 (PNG 1.2 §11.2.2): 85 mm at 600 dpi = 85 / 25.4 × 600 = 2008 px.
+    expect(Math.abs(png.readUInt32BE(16) - Math.round((85 / 25.4) * 600))).toBeLessThanOrEqual(1);
+    const phys = png.indexOf('pHYs', 0, 'latin1');
+    expect(phys).toBeGreaterThan(0);
+    // Pixels per metre, unit 1 = metre: 600 / 0.0254 = 23622 (PNG 1.2 §4.2.4.2).
+    expect(png.readUInt32BE(phys + 4)).toBe(23622);
+    expect(png[phys + 12]).toBe(1);
+    // A size the layout cannot hold is refused in words, and the buttons wait.
+    await p.getByTestId('export-width').fill('5');
+    expect(await p.getByTestId('export-size-problem').textContent()).toMatch(/^width: must be between 20 and 600 mm/);
+    expect(await p.getByTestId('export-pdf').isDisabled()).toBe(true);
+    await p.getByTestId('export-size').selectOption('screen');
   });
 
   it('a stretch with no band is hatched in the ribbon, says why, and has a legend entry', async (ctx) => {

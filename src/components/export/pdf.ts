@@ -9,11 +9,12 @@ import type { Figure } from '../../lib/plot/figure';
 import { loadFonts } from './fonts';
 import { createFigureDocument, drawFigure } from './pdf-draw';
 
-export async function figureToPdf(fig: Figure, meta: { title: string; subject: string }): Promise<Blob> {
+/** `scale`: points per layout unit (paper.ts; 1 for the screen-sized figure). */
+export async function figureToPdf(fig: Figure, meta: { title: string; subject: string }, scale = 1): Promise<Blob> {
   const [{ default: PDFDocument }, { toBlob }, fonts] = await Promise.all([import('pdfkit'), import('pdfkit/output'), loadFonts()]);
-  const doc = createFigureDocument(PDFDocument, fig, meta, { regular: fonts.regular, semibold: fonts.semibold, italic: fonts.italic });
+  const doc = createFigureDocument(PDFDocument, fig, meta, { regular: fonts.regular, semibold: fonts.semibold, italic: fonts.italic, greek: fonts.greek }, scale);
   const blob = toBlob(doc);
-  drawFigure(doc, fig);
+  drawFigure(doc, fig, { scale, greek: true });
   doc.end();
   return blob;
 }

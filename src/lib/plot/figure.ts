@@ -48,6 +48,9 @@ export interface FigureInput {
   readonly palette?: PlotPalette;
   /** Points per run at most; defaults to four per horizontal pixel of the plot. */
   readonly pointBudget?: number;
+  /** Axis titles; default "parameter <name>" and the projection's label. Any Unicode (β, units). */
+  readonly xLabel?: string;
+  readonly yLabel?: string;
 }
 
 export const STABLE_WIDTH = 2.4;
@@ -92,7 +95,10 @@ export function buildFigure(input: FigureInput): Figure {
   const plot = { x: m.left, y: m.top, w: width - m.left - m.right, h: plotH };
   const ext = diagramExtent(diagram, projection);
   const pad = (d: [number, number]): [number, number] => { const s = (d[1] - d[0]) || 1; return [d[0] - 0.04 * s, d[1] + 0.04 * s]; };
-  const px = linearAxis(input.pDomain ?? ext.p, [plot.x, plot.x + plot.w], 7, !input.pDomain);
+  // About one tick label per 55 units of plot width (a label like "-0.25" in the mono face is about
+  // 32 units), at most 7: narrow paper figures would otherwise print the labels edge to edge.
+  const xTickCount = Math.max(3, Math.min(7, Math.round(plot.w / 55)));
+  const px = linearAxis(input.pDomain ?? ext.p, [plot.x, plot.x + plot.w], xTickCount, !input.pDomain);
   const py = linearAxis(input.yDomain ?? pad(ext.y), [plot.y + plot.h, plot.y], 6, !input.yDomain);
   const X = px.map, Y = py.map;
   const items: Prim[] = [];
@@ -164,8 +170,10 @@ export function buildFigure(input: FigureInput): Figure {
     items.push({ t: 'path', d: `M${plot.x - 5},${r2(t.pos)}h5`, stroke: pal.ink, strokeWidth: 1 });
     items.push({ t: 'text', x: plot.x - 8, y: r2(t.pos + 3.5), text: t.label, size: 10.5, anchor: 'end', fill: pal.ink, mono: true });
   }
-  items.push({ t: 'text', x: plot.x + plot.w / 2, y: axisY + 36, text: `parameter ${diagram.parameter}`, size: 12, anchor: 'middle', fill: pal.ink, weight: 600 });
-  items.push({ t: 'text', x: 16, y: plot.y + plot.h / 2, text: projectionLabel(projection, diagram.variables), size: 12, anchor: 'middle', fill: pal.ink, weight: 600, rotate: -90 });
+  const xTitle = input.xLabel?.trim() || `parameter ${diagram.parameter}`;
+  const yTitle = input.yLabel?.trim() || projectionLabel(projection, diagram.variables);
+  items.push({ t: 'text', x: plot.x + plot.w / 2, y: axisY + 36, text: xTitle, size: 12, anchor: 'middle', fill: pal.ink, weight: 600 });
+  items.push({ t: 'text', x: 16, y: plot.y + plot.h / 2, text: yTitle, size: 12, anchor: 'middle', fill: pal.ink, weight: 600, rotate: -90 });
 
   // Legend: line styles, then the glyphs of the types present.
   let ly = axisY + m.bottom + 14;

@@ -13,6 +13,8 @@ export interface SvgOptions {
    */
   readonly fontFaceCss?: string;
   readonly description?: string;
+  /** Physical size for the width and height attributes (e.g. '85mm'); the viewBox stays in layout units. */
+  readonly physical?: { readonly width: string; readonly height: string };
 }
 
 export const SANS = "Inter, 'Helvetica Neue', Arial, sans-serif";
@@ -43,7 +45,7 @@ export function figureToSvg(fig: Figure, options: SvgOptions = {}): string {
   const style = options.fontFaceCss ? `<style><![CDATA[${options.fontFaceCss.replace(/]]>/g, '')}]]></style>` : '';
   return [
     `<?xml version="1.0" encoding="UTF-8"?>`,
-    `<svg xmlns="http://www.w3.org/2000/svg" version="1.1" width="${fig.width}" height="${fig.height}" viewBox="0 0 ${fig.width} ${fig.height}" font-family="${SANS}">`,
+    `<svg xmlns="http://www.w3.org/2000/svg" version="1.1" width="${options.physical?.width ?? fig.width}" height="${options.physical?.height ?? fig.height}" viewBox="0 0 ${fig.width} ${fig.height}" font-family="${SANS}">`,
     `<title>${xmlEscape(fig.title)}</title>`,
     options.description ? `<desc>${xmlEscape(options.description)}</desc>` : '',
     `<defs>${style}<clipPath id="bm-plot"><rect x="${x}" y="${y}" width="${w}" height="${h}"/></clipPath></defs>`,
