@@ -178,7 +178,7 @@ describe('diagram island on the preview page', () => {
     const runs = doc.path.filter((x: Record<string, string>) => x['@data-run'] !== undefined);
     expect(runs.length).toBe(splitAllRuns(fixture.branches).length);
     expect(svg).toContain("font-family:'Inter'");
-    const csv = Papa.parse<string[]>((await downloadText(p, 'export-csv')).toString('utf8').trim());
+    const csv = Papa.parse<string[]>((await downloadText(p, 'export-csv')).toString('utf8').trim(), { comments: '#' });
     expect(csv.data.length).toBe(totalPoints + 1);
     expect(Number(csv.data[1][2])).toBe(fixture.branches[0].points[0].p);
   });

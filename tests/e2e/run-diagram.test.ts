@@ -10,6 +10,7 @@
 import { readFileSync } from 'node:fs';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import Papa from 'papaparse';
+import { strFromU8, unzipSync } from 'fflate';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Diagram, SpecialPoint } from '../../src/lib/atlas/types';
@@ -50,6 +51,11 @@ async function openRun(page: Page) {
 async function download(page: Page, testId: string): Promise<string> {
   const [dl] = await Promise.all([page.waitForEvent('download', { timeout: 60_000 }), page.getByTestId(testId).click()]);
   return readFileSync((await dl.path())!, 'utf8');
+}
+
+async function downloadBytes(page: Page, testId: string): Promise<Buffer> {
+  const [dl] = await Promise.all([page.waitForEvent('download', { timeout: 60_000 }), page.getByTestId(testId).click()]);
+  return readFileSync((await dl.path())!);
 }
 
 const pDomain = async (page: Page) => (await page.getByTestId('diagram-view').getAttribute('data-p-domain'))!.split(',').map(Number);
@@ -220,16 +226,27 @@ describe('a seeded demo run page, as the demo modeler', () => {
     // The tag added above is in the figure's tag layer (the export shows the current view with tags).
     expect(JSON.stringify(doc.text)).toContain(tagName);
 
-    const csv = Papa.parse<string[]>((await download(page, 'export-csv')).trim()).data;
-    const api = Papa.parse<string[]>((await (await page.request.get(`${BASE_URL}/api/runs/${runId}/result.csv`)).text()).trim()).data;
+    // The export menu and the page's data link write one CSV layout: the same file, byte for byte,
+    // provenance block included (lib/plot/data-export.ts).
+    const menuText = await download(page, 'export-csv');
+    const apiText = await (await page.request.get(`${BASE_URL}/api/runs/${runId}/result.csv`)).text();
+    expect(menuText).toBe(apiText);
+    expect(menuText.split('\n')).toContain(`# run: ${runId}`);
+    const csv = Papa.parse<string[]>(menuText.trim(), { comments: '#' }).data;
     const nVar = diagram.variables.length;
-    expect(csv[0].slice(0, 3 + nVar + 1)).toEqual(['branch', 'point', diagram.parameter, ...diagram.variables, 'unstable']);
-    expect(api[0]).toEqual(['branch', diagram.parameter, ...diagram.variables, 'unstable']);
-    expect(csv.length).toBe(api.length);
-    for (let r = 1; r < csv.length; r++) {
-      // Same branch, same numbers character for character (both print the shortest round-trip form).
-      expect([csv[r][0], ...csv[r].slice(2, 3 + nVar + 1)]).toEqual(api[r]);
-    }
+    expect(csv[0]).toEqual(['branch', 'point', diagram.parameter, ...diagram.variables, 'unstable', 'stability']);
+    // The figure bundle: figure in three formats, the same CSV, the model document of exactly this
+    // version (byte for byte what the version export serves) and a README.
+    const zip = unzipSync(new Uint8Array(await downloadBytes(page, 'export-bundle')));
+    expect(Object.keys(zip).sort()).toEqual(['README.txt', 'data.csv', 'figure.pdf', 'figure.png', 'figure.svg', 'model.json']);
+    expect(strFromU8(zip['data.csv'])).toBe(apiText);
+    const runInfo = (await (await page.request.get(`${BASE_URL}/api/runs/${runId}`)).json()) as { run: { modelId: number; versionNumber: number } };
+    const docText = await (await page.request.get(`${BASE_URL}/api/models/${runInfo.run.modelId}/versions/${runInfo.run.versionNumber}/export`)).text();
+    expect(strFromU8(zip['model.json'])).toBe(docText);
+    expect(strFromU8(zip['figure.pdf'].subarray(0, 5))).toBe('%PDF-');
+    expect(Buffer.from(zip['figure.png']).indexOf('pHYs', 0, 'latin1')).toBeGreaterThan(0);
+    expect(strFromU8(zip['README.txt'])).toContain(`run ${runId}`);
+    expect(strFromU8(zip['README.txt'])).toMatch(/indicative/);
     // And against the JSON result: row k of branch b is point k of that branch.
     let r = 1;
     for (const b of diagram.branches) {

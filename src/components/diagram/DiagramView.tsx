@@ -303,7 +303,7 @@ export function DiagramView(props: DiagramViewProps) {
           <button type="button" onClick={() => setSelection({ kind: 'range', from: Number(xDomain[0].toPrecision(6)), to: Number(xDomain[1].toPrecision(6)) })} data-testid="tag-range">Tag the range in view…</button>
         ) : null}
         <ExportMenu diagram={diagram} projection={projection} regimes={regimes} escapeGraphs={escapeGraphs} tags={tags} showTags={showTags}
-          pDomain={xDomain} yDomain={yDomain} provenance={provenance} />
+          pDomain={xDomain} yDomain={yDomain} provenance={provenance} documentUrl={props.documentUrl} />
       </div>
 
       <div className="dg-main" style={{ ['--dg-plot-h' as string]: `${height + 2}px` }}>

@@ -11,6 +11,8 @@ export interface DiagramViewProps {
   /** Per-node thresholds (the uncoupled unstable equilibria); enables the "number of tipped nodes" projection. */
   readonly thresholds?: number[];
   readonly provenance: Provenance;
+  /** URL of the model document of exactly this version (GET …/versions/:n/export), for the figure bundle. */
+  readonly documentUrl?: string;
   /** Shows the tag form in the band panel (modelers). */
   readonly canTag?: boolean;
   /** Called with a new tag; reject to show the error in the form. Only usable from React parents. */

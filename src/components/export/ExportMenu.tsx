@@ -31,6 +31,8 @@ export interface ExportMenuProps {
   readonly provenance: Provenance;
   /** Width of exported figures in CSS px (default 720). */
   readonly figureWidth?: number;
+  /** URL of the model document of exactly this version, put into the figure bundle. */
+  readonly documentUrl?: string;
 }
 
 export function ExportMenu(props: ExportMenuProps) {
@@ -110,7 +112,43 @@ export function ExportMenu(props: ExportMenuProps) {
     const { fig, scale } = figure();
     download(await figureToPdf(fig, { title: fig.title, subject: provenanceLine(props.provenance) }, scale), safeFileName(stem, 'pdf'));
   });
-  const exportCsv = run('CSV', async () => { download(new Blob([diagramToCsv(props.diagram, props.projection)], { type: 'text/csv' }), safeFileName(stem, 'csv')); });
+  /**
+   * One zip (fflate) with the figure as SVG, PDF and PNG at the dialog's settings, the data as CSV
+   * (the one layout, provenance block included), the model document of this exact version (checked
+   * against the version hash the server sends with it) and a README of what is inside.
+   */
+  const exportBundle = run('Figure bundle', async () => {
+    const [{ zipSync, strToU8 }, { figureToPdf }] = await Promise.all([import('fflate'), import('./pdf')]);
+    const f = await svgText();
+    const pixelScale = f.widthIn ? (f.widthIn * dpi) / f.fig.width : 2;
+    const res = f.widthIn ? dpi : 192;
+    const png = withResolution(new Uint8Array(await (await svgToPng(f.svg, f.fig.width, f.fig.height, pixelScale)).arrayBuffer()), res);
+    const pdf = new Uint8Array(await (await figureToPdf(f.fig, { title: f.fig.title, subject: provenanceLine(props.provenance) }, f.scale)).arrayBuffer());
+    const files: Record<string, Uint8Array> = {
+      'figure.svg': strToU8(f.svg),
+      'figure.pdf': pdf,
+      'figure.png': png,
+      'data.csv': strToU8(diagramToCsv(props.diagram, props.provenance)),
+    };
+    let model = 'not included: this view has no stored model version';
+    if (props.documentUrl) {
+      const res2 = await fetch(props.documentUrl, { credentials: 'same-origin' });
+      if (!res2.ok) throw new Error(`the model document could not be fetched (HTTP ${res2.status})`);
+      const hash = res2.headers.get('X-Document-Hash');
+      if (hash && hash !== props.provenance.versionHash) throw new Error('the model document does not match this run’s version');
+      files['model.json'] = new Uint8Array(await res2.arrayBuffer());
+      model = `model.json — the model document of exactly this version (hash ${props.provenance.versionHash})`;
+    }
+    files['README.txt'] = strToU8(bundleReadme({
+      provenance: props.provenance, model,
+      size: f.physical ? `${f.physical.width} × ${f.physical.height}, tick labels ${fontSize} pt, PNG ${res} dpi` : `screen size ${f.fig.width} × ${f.fig.height} px, PNG 2× (${res} dpi)`,
+      diagram: props.diagram,
+    }));
+    const when = new Date(props.provenance.date);
+    const zip = zipSync(files, { level: 6, mtime: Number.isNaN(when.getTime()) || when.getFullYear() < 1980 ? new Date() : when });
+    download(new Blob([zip as Uint8Array<ArrayBuffer>], { type: 'application/zip' }), safeFileName(`${stem}-figure`, 'zip'));
+  });
+  const exportCsv = run('CSV', async () => { download(new Blob([diagramToCsv(props.diagram, props.provenance)], { type: 'text/csv' }), safeFileName(stem, 'csv')); });
   const exportJson = run('JSON', async () => {
     const text = diagramToJson({
       provenance: props.provenance,
@@ -181,6 +219,9 @@ export function ExportMenu(props: ExportMenuProps) {
             )}
             <button type="button" onClick={exportPdf} disabled={!!busy || !!sizeProblem} data-testid="export-pdf">PDF</button>
           </div>
+          <div className="dg-export-actions">
+            <button type="button" onClick={exportBundle} disabled={!!busy || !!sizeProblem} data-testid="export-bundle">Figure bundle (.zip): figure, data, model, README</button>
+          </div>
           <h4>Data behind it</h4>
           <div className="dg-export-actions">
             <button type="button" onClick={exportCsv} disabled={!!busy} data-testid="export-csv">CSV (one row per point)</button>
@@ -192,6 +233,27 @@ export function ExportMenu(props: ExportMenuProps) {
       ) : null}
     </div>
   );
+}
+
+/** The README of a figure bundle: what each file is, where it came from, how to read the CSV. */
+export function bundleReadme(input: { provenance: Provenance; model: string; size: string; diagram: Diagram }): string {
+  const p = input.provenance;
+  return [
+    'Brinkmap figure bundle',
+    '',
+    provenanceLine(p),
+    '',
+    'figure.svg  the figure as vector graphics (fonts embedded)',
+    'figure.pdf  the same figure as PDF (fonts embedded, text selectable)',
+    'figure.png  the same figure as a raster image (resolution recorded in the file)',
+    `            ${input.size}`,
+    `data.csv    every computed point: branch, point, ${input.diagram.parameter}, ${input.diagram.variables.join(', ')}, unstable, stability;`,
+    '            the lines starting with # are the provenance (read with comment character #)',
+    input.model,
+    '',
+    'Model results are indicative; defer to domain experts and local regulation.',
+    '',
+  ].join('\n');
 }
 
 export default ExportMenu;

@@ -78,11 +78,14 @@ describe('run life cycle through the API', () => {
 
     const csv = await w.reviewer.get(ws(`/api/runs/${runId}/result.csv`, w.workspaceId));
     expect(csv.headers.get('content-type')).toMatch(/text\/csv/);
-    const lines = csv.text.trim().split('\n');
-    expect(lines[0]).toBe('branch,beta,upper,lower,unstable');
+    // A provenance block of '#' lines (the run, its model version), then header and rows (data-export.ts).
+    const all = csv.text.trim().split('\n');
+    expect(all).toContain(`# run: ${runId}`);
+    const lines = all.filter((l: string) => !l.startsWith('#'));
+    expect(lines[0]).toBe('branch,point,beta,upper,lower,unstable,stability');
     expect(lines.length - 1).toBe(total);
     const first = diagram.branches[0].points[0];
-    expect(lines[1]).toBe([diagram.branches[0].id, first.p, ...first.x, first.unstable].join(','));
+    expect(lines[1]).toBe([diagram.branches[0].id, 0, first.p, ...first.x, first.unstable, first.unstable === 0 ? 'stable' : 'unstable'].join(','));
 
     if (total > 200) {
       const thin = await w.reviewer.get(ws(`/api/runs/${runId}/result?points=200`, w.workspaceId));

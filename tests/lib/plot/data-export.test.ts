@@ -6,12 +6,18 @@ import { makeTwoLakeDiagram, TWO_LAKE_PROVENANCE } from '../../fixtures/two-lake
 const diagram = makeTwoLakeDiagram({ pointsPerBranch: 120 });
 
 describe('diagramToCsv', () => {
-  const csv = diagramToCsv(diagram, { kind: 'mean' });
-  const parsed = Papa.parse<string[]>(csv.trim());
-  it('has a header then one row per branch point', () => {
+  const csv = diagramToCsv(diagram, TWO_LAKE_PROVENANCE);
+  const parsed = Papa.parse<string[]>(csv.trim(), { comments: '#' });
+  it('opens with a provenance block of comment lines, then a header and one row per branch point', () => {
+    const lines = csv.split('\n');
+    expect(lines[0]).toBe('# Brinkmap diagram data');
+    expect(lines).toContain(`# model: ${TWO_LAKE_PROVENANCE.modelName}`);
+    expect(lines).toContain(`# model version hash: ${TWO_LAKE_PROVENANCE.versionHash}`);
+    expect(lines).toContain(`# run: ${TWO_LAKE_PROVENANCE.runId}`);
+    expect(lines.some((l) => /^# Model results are indicative/.test(l))).toBe(true);
     const total = diagram.branches.reduce((s, b) => s + b.points.length, 0);
     expect(parsed.data.length).toBe(total + 1);
-    expect(parsed.data[0]).toEqual(['branch', 'point', 'c', 'Upper lake', 'Lower lake', 'unstable', 'stability', 'mean state']);
+    expect(parsed.data[0]).toEqual(['branch', 'point', 'c', 'Upper lake', 'Lower lake', 'unstable', 'stability']);
   });
   it('round-trips every number exactly (shortest round-trip printing)', () => {
     const b = diagram.branches[1];
@@ -20,8 +26,11 @@ describe('diagramToCsv', () => {
       expect(Number(r[2])).toBe(b.points[i].p);
       expect(Number(r[3])).toBe(b.points[i].x[0]);
       expect(Number(r[5])).toBe(b.points[i].unstable);
-      expect(Number(r[7])).toBe((b.points[i].x[0] + b.points[i].x[1]) / 2);
+      expect(r[6]).toBe(b.points[i].unstable === 0 ? 'stable' : 'unstable');
     });
+  });
+  it('without a provenance it is the header and rows alone', () => {
+    expect(diagramToCsv(diagram).startsWith('branch,point,c,')).toBe(true);
   });
 });
 

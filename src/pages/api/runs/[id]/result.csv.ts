@@ -1,15 +1,16 @@
 import { handler } from '../../../../lib/server/http.ts';
 import { requireRole } from '../../../../lib/server/auth/guards.ts';
 import { getRunResult } from '../../../../lib/server/results/repository.ts';
-import { diagramToCsv } from '../../../../lib/server/results/csv.ts';
+import { diagramToCsv } from '../../../../lib/plot/data-export.ts';
 import { idParam } from '../../../../lib/server/models/route-params.ts';
 
-/** Every stored point as CSV: branch, the swept parameter, each state variable, unstable count. */
+/** Every stored point as CSV in the one layout of lib/plot/data-export.ts, with the run's provenance block. */
 export const GET = handler(async ({ locals, params }) => {
   const { workspace } = requireRole(locals);
   const runId = idParam(params.id, 'run');
   const r = await getRunResult(workspace.id, runId);
-  return new Response(diagramToCsv(JSON.parse(r.diagramText)), {
+  const provenance = { modelName: r.run.modelName, versionHash: r.run.versionHash, runId: String(runId), engineVersion: r.engineVersion, date: r.createdAt };
+  return new Response(diagramToCsv(JSON.parse(r.diagramText), provenance), {
     status: 200,
     headers: {
       'Content-Type': 'text/csv; charset=utf-8',
