@@ -264,12 +264,7 @@ export function lyapunov(bm: Float64Array, n: number): Float64Array | null {
   const lu = new FlatLu(size).factor(k);
   const s = lu.solve(rhs);
   if (!s) return null;
-  for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) {
-    const v = 0.5 * (s[i * n + j] + s[j * n + i]);
-    s[i * n + j] = v;
-    s[j * n + i] = v;
-  }
-  return s;
+  return symmetrize(s, n);
 }
 
 function inverse(a: Float64Array, n: number): Float64Array | null {
@@ -283,12 +278,7 @@ function inverse(a: Float64Array, n: number): Float64Array | null {
     if (!col) return null;
     for (let i = 0; i < n; i++) out[i * n + j] = col[i];
   }
-  for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) {
-    const v = 0.5 * (out[i * n + j] + out[j * n + i]);
-    out[i * n + j] = v;
-    out[j * n + i] = v;
-  }
-  return out;
+  return symmetrize(out, n);
 }
 
 /** Number of negative eigenvalues of a symmetric matrix (its spectrum is real). */
@@ -338,12 +328,17 @@ function hessianAlong(field: DriftField, y: Float64Array, p: Float64Array): Floa
       out[i * n + j] = s / (2 * h);
     }
   }
+  return symmetrize(out, n);
+}
+
+/** (A + A^T) / 2 in place; returns A. */
+function symmetrize(a: Float64Array, n: number): Float64Array {
   for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) {
-    const v = 0.5 * (out[i * n + j] + out[j * n + i]);
-    out[i * n + j] = v;
-    out[j * n + i] = v;
+    const v = 0.5 * (a[i * n + j] + a[j * n + i]);
+    a[i * n + j] = v;
+    a[j * n + i] = v;
   }
-  return out;
+  return a;
 }
 
 function dist(a: Float64Array, c: Float64Array): number {

@@ -261,6 +261,17 @@ function movesFast(l: PointLabel, r: PointLabel, step: number, engaged: number, 
   return false;
 }
 
+/** Index of the exit whose saddle is nearest `saddle` (max norm) among those not in `used`; -1 when none. */
+function nearestUnused(exits: readonly PointLabel['exits'][number][], saddle: readonly number[], used: ReadonlySet<number>): number {
+  let best = -1;
+  let bestD = Infinity;
+  exits.forEach((e, k) => {
+    const d = maxDist(e.saddle, saddle);
+    if (!used.has(k) && d < bestD) { bestD = d; best = k; }
+  });
+  return best;
+}
+
 const keyOf = (e: PointLabel['exits'][number]) => `${e.engaged.join(',')}>${e.tipping.join(',')}`;
 
 /**
@@ -282,12 +293,7 @@ function engagementRoot(labeller: Labeller, l: PointLabel, r: PointLabel, start:
   const used = new Set<number>();
   let pair: { a: PointLabel['exits'][number]; b: PointLabel['exits'][number]; node: number } | null = null;
   for (const a of l.exits) {
-    let best = -1;
-    let bestD = Infinity;
-    r.exits.forEach((b, k) => {
-      const d = maxDist(a.saddle, b.saddle);
-      if (!used.has(k) && d < bestD) { bestD = d; best = k; }
-    });
+    const best = nearestUnused(r.exits, a.saddle, used);
     if (best < 0) return null;
     used.add(best);
     const b = r.exits[best];
@@ -346,12 +352,8 @@ function describeCrossover(l: PointLabel, r: PointLabel, names: readonly string[
   const words = (pattern: readonly NodeState[]) => patternWords(pattern, names);
   const engagedWord = start === 'all-tipped' ? 'engaged towards recovery' : 'engaged';
   for (const er of r.exits) {
-    let best = -1;
-    let bestD = Infinity;
-    l.exits.forEach((el, k) => {
-      const d = maxDist(el.saddle, er.saddle);
-      if (!used.has(k) && d < bestD) { bestD = d; best = k; }
-    });
+    const best = nearestUnused(l.exits, er.saddle, used);
+    const bestD = best < 0 ? Infinity : maxDist(l.exits[best].saddle, er.saddle);
     const scale = 1e-3 * (1 + Math.max(...er.saddle.map(Math.abs)));
     if (best < 0 || bestD > scale) {
       connections.push(`${exitName(er, names).replace('the exit', 'the saddle')} becomes an exit of ${start}, ending in ${words(er.destination)}`);
