@@ -62,8 +62,22 @@ export function equilibriaAt(
   for (const x of extraGuesses) guesses.push({ x: x.slice(), branch: 'guess' });
   const found: { x: Float64Array; residual: number; branch: string }[] = [];
   let failures = 0;
+  // Duplicates are looked up in buckets of u = x_0 / (1 + |x_0|): two states within the relative
+  // tolerance tol (1 + |x_0|) of each other differ by at most tol in u (du/dx_0 = 1 / (1 + |x_0|)^2),
+  // so with buckets 10 tol wide a duplicate is in the same bucket or a neighbouring one. A 6-node
+  // diagram shows about 700 equilibria near zero coupling; comparing each with all found so far cost
+  // more than refining them.
+  const width = 10 * settings.duplicateTolerance;
+  const buckets = new Map<number, number[]>();
+  const bucketOf = (x: ArrayLike<number>) => Math.floor(x[0] / (1 + Math.abs(x[0])) / width);
   const add = (x: Float64Array, residual: number, branch: string): boolean => {
-    if (found.some((f) => sameState(f.x, x, settings.duplicateTolerance))) return false;
+    const key = bucketOf(x);
+    for (let k = key - 1; k <= key + 1; k++) {
+      for (const j of buckets.get(k) ?? []) if (sameState(found[j].x, x, settings.duplicateTolerance)) return false;
+    }
+    let list = buckets.get(key);
+    if (!list) buckets.set(key, (list = []));
+    list.push(found.length);
     found.push({ x, residual, branch });
     return true;
   };

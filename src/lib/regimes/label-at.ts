@@ -4,10 +4,9 @@ import type { EdgeKind, NodeState, Regime, StartState } from './types';
 import { resolveOptions, type RegimeOptions } from './options';
 import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles';
 import { analyseEquilibrium, equilibriaAt, sameState, type Equilibrium } from './equilibria-at';
-import { DenseLu } from '../numerics/index';
 import type { IntegrationBudget } from './escape-graph';
-import { frameRolesOf, looksCooperative, progressSlope, startExits, type Exit } from './start-exits';
-import { newtonAtFixedParameter } from './linear-algebra';
+import { frameRolesOf, looksCooperative, progressSlope, startExits, type Exit, type ExitOrderMode } from './start-exits';
+import { newtonAtFixedParameter, solveLinear } from './linear-algebra';
 import { progressOf } from './pattern';
 import { listNames, patternWords } from './reason';
 
@@ -70,12 +69,19 @@ export interface Labeller {
    * the roles depend on p (then progress is not the smooth function of p the root finder assumes).
    */
   progressAt(p: number, guess: readonly number[], start: StartState): { x: number[]; progress: number[]; slope: number[] | null } | null;
+  /**
+   * True once a check found the order of the equilibria unreliable here (a branch ending elsewhere
+   * than the order says, or at a stable state the diagram does not show). Labels decided by order
+   * before that (counts.decided) should then be recomputed without it; labelRegimes does.
+   */
+  readonly orderBroken: boolean;
   readonly names: readonly string[];
   readonly options: RegimeOptions;
   readonly budget: IntegrationBudget;
   /** Manifold-branch integrations and saddles decided without integrating, so far. */
   /** continued: points whose equilibria were continued from a neighbour in their span; continuationFallbacks: tries that failed (refined from the diagram instead). */
-  readonly counts: { integrations: number; skipped: number; points: number; continued: number; continuationFallbacks: number };
+  /** decided: manifold branches whose end the order of the equilibria decided without integrating (orderedLimit). */
+  readonly counts: { integrations: number; skipped: number; decided: number; points: number; continued: number; continuationFallbacks: number };
 }
 
 /**
@@ -94,7 +100,9 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
   const fixedRoles = o.roles !== undefined || system.network?.sweepIsCoupling === true;
   let roles0: (NodeRoles | null)[] | null = null;
   const budget: IntegrationBudget = { left: o.maxIntegrations };
-  const counts = { integrations: 0, skipped: 0, points: 0, continued: 0, continuationFallbacks: 0 };
+  const counts = { integrations: 0, skipped: 0, decided: 0, points: 0, continued: 0, continuationFallbacks: 0 };
+  let orderTrusted = o.orderedLimits;
+  const state = { orderBroken: false };
   const eqCache = new Map<number, EquilibriumSet>();
   /** Sets continued inside a span (stable states and index-1 saddles only), and the labelled p of each span. */
   const continued = new Map<number, EquilibriumSet>();
@@ -126,7 +134,7 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
       }
       const eq = equilibriaAt(system, diagram, p, o, extra);
       eq.diagnostics.forEach(note);
-      hit = { equilibria: eq.equilibria, monotone: o.monotoneSkip && looksCooperative(system, eq.equilibria, p) };
+      hit = { equilibria: eq.equilibria, monotone: o.monotoneSkip && looksCooperative(system, eq.equilibria, p), verified: false };
       eqCache.set(p, hit);
     }
     return hit;
@@ -159,12 +167,32 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
     const none = (reason: string, code: string, extra: Partial<PointLabel> = {}): PointLabel => ({ p, start, regime: null, reason, exits: [], key: `none:${code}`, ...extra });
     const roles = rolesAt(p);
     if (roles.some((r) => r === null)) return none('regimes undefined: an element is not bistable', 'undefined');
-    const { equilibria, monotone } = equilibriaInSpan(p, span);
+    const set = equilibriaInSpan(p, span);
+    const { equilibria, monotone } = set;
     const diagnostics: Diagnostic[] = [];
-    const found = startExits(system, p, equilibria, roles as NodeRoles[], start, monotone, o, budget, diagnostics);
+    // Order decides branch ends only on verified sets: a set where every branch was integrated, each
+    // end agreed with the order and no stable state was missing, or a set continued one-to-one from
+    // such a set (the same stable states, see continueFromNeighbour). One disagreement turns it off
+    // for the rest of this labeller.
+    const order: ExitOrderMode = !orderTrusted ? 'off' : set.verified ? 'decide' : 'verify';
+    const found = startExits(system, p, equilibria, roles as NodeRoles[], start, monotone, o, budget, diagnostics, order);
     diagnostics.forEach(note);
     counts.integrations += found.integrations;
     counts.skipped += found.skipped;
+    counts.decided += found.decided;
+    if (order === 'verify' && found.orderMismatches === 0 && found.discovered === 0 && !found.truncated) set.verified = true;
+    if (found.discovered > 0 && orderTrusted) {
+      // A stable state the diagram does not show: spans between its special points may then hide
+      // folds, and a continued set may lack states that exist at its p. No order decisions from here.
+      orderTrusted = false;
+      state.orderBroken = true;
+    }
+    if (found.orderMismatches > 0) {
+      orderTrusted = false;
+      state.orderBroken = true;
+      note({ level: 'warning', code: 'order-mismatch', p,
+        message: `at ${system.parameter} = ${fmt(p)} ${found.orderMismatches === 1 ? 'a manifold branch ends' : `${found.orderMismatches} manifold branches end`} elsewhere than the order of the equilibria says (some stable state is missing from the diagram, or the system is not cooperative between its equilibria); every later branch is integrated` });
+    }
     counts.points++;
     if (found.truncated) return none('integration budget used up', 'budget', { truncated: true });
     if (found.start < 0) {
@@ -186,6 +214,7 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
 
   return {
     names, options: o, budget, counts,
+    get orderBroken() { return state.orderBroken; },
     rolesAt,
     equilibriaAt: (p) => equilibriaFor(p).equilibria,
     progressAt(p, guess, start) {
@@ -217,7 +246,12 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
   };
 }
 
-interface EquilibriumSet { readonly equilibria: Equilibrium[]; readonly monotone: boolean }
+interface EquilibriumSet {
+  readonly equilibria: Equilibrium[];
+  readonly monotone: boolean;
+  /** Branch ends may be decided by order here (set by compute after a clean check, inherited by continuation). */
+  verified: boolean;
+}
 
 /**
  * The stable states and index-1 saddles at p, continued from a set at p0 of the same span: each by
@@ -242,7 +276,7 @@ function continueFromNeighbour(system: CompiledSystem, source: EquilibriumSet, p
     const x0 = Float64Array.from(e.x);
     system.jacobian(x0, p0, jac);
     system.parameterDerivative(x0, p0, fp);
-    const dx = new DenseLu(jac, n).solve(Array.from(fp, (v) => -v));
+    const dx = solveLinear(jac, n, Array.from(fp, (v) => -v));
     if (!dx) return null;
     const guess = e.x.map((c, i) => c + (p - p0) * dx[i]);
     const r = newtonAtFixedParameter(system, guess, p, o.newtonTolerance, o.newtonMaxIterations);
@@ -251,7 +285,7 @@ function continueFromNeighbour(system: CompiledSystem, source: EquilibriumSet, p
     if (next.unstable !== e.unstable || next.neutral !== 0 || (next.unstable === 1 && !next.unstableVector)) return null;
     out.push(next);
   }
-  return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p) };
+  return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p), verified: source.verified };
 }
 
 /**

@@ -20,9 +20,9 @@ export interface RegimeResult {
   /**
    * Work done: labelled parameter values (and how many of them continued their equilibria from a
    * neighbour, and how many tries at that fell back to the diagram), manifold-branch integrations,
-   * saddles ruled out without integrating.
+   * saddles ruled out without integrating, branches whose end the order decided (orderedLimit).
    */
-  readonly work: { readonly points: number; readonly continued: number; readonly continuationFallbacks: number; readonly integrations: number; readonly skipped: number };
+  readonly work: { readonly points: number; readonly continued: number; readonly continuationFallbacks: number; readonly integrations: number; readonly skipped: number; readonly decided: number };
 }
 
 const MAX_DIAGNOSTICS = 60;
@@ -62,7 +62,7 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
       diagnostics.length = MAX_DIAGNOSTICS;
       diagnostics.push({ level: 'info', code: 'diagnostics-truncated', message: `${extra} further diagnostics were left out` });
     }
-    return { regimes, escapeGraphs, diagnostics, crossovers, work: labeller ? { ...labeller.counts } : { points: 0, continued: 0, continuationFallbacks: 0, integrations: 0, skipped: 0 } };
+    return { regimes, escapeGraphs, diagnostics, crossovers, work: labeller ? { ...labeller.counts } : { points: 0, continued: 0, continuationFallbacks: 0, integrations: 0, skipped: 0, decided: 0 } };
   };
 
   if (!system.network && !o.roles) {
@@ -93,27 +93,41 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
     note({ level: 'info', code: 'cuts-ignored',
       message: `${ignored} of ${diagram.bifurcations.length} special points join only equilibria with two or more unstable eigenvalues; they cannot change the escape graph and do not cut the bands` });
   }
-  const labeller = createLabeller(system, diagram, o, note);
-  const pieces = new Map<StartState, Piece[]>(starts.map((s) => [s, []]));
-  const crossovers: LocatedCrossover[] = [];
-  let exhaustedAt: number | null = null;
-  for (let k = 0; k + 1 < cuts.length && exhaustedAt === null; k++) {
-    const a = cuts[k];
-    const b = cuts[k + 1];
-    if (b.p - a.p < o.minimumInterval) continue;
-    const found: { start: StartState; pieces: Piece[]; crossovers: LocatedCrossover[] }[] = [];
-    try {
-      for (const start of starts) found.push({ start, ...locateInterval(labeller, a, b, start) });
-    } catch (e) {
-      if (!(e instanceof BudgetExhausted)) throw e;
-      exhaustedAt = a.p;
-      break;
+  const labelIntervals = (labeller: Labeller) => {
+    const pieces = new Map<StartState, Piece[]>(starts.map((s) => [s, []]));
+    const crossovers: LocatedCrossover[] = [];
+    let exhaustedAt: number | null = null;
+    for (let k = 0; k + 1 < cuts.length; k++) {
+      const a = cuts[k];
+      const b = cuts[k + 1];
+      if (b.p - a.p < o.minimumInterval) continue;
+      const found: { start: StartState; pieces: Piece[]; crossovers: LocatedCrossover[] }[] = [];
+      try {
+        for (const start of starts) found.push({ start, ...locateInterval(labeller, a, b, start) });
+      } catch (e) {
+        if (!(e instanceof BudgetExhausted)) throw e;
+        exhaustedAt = a.p;
+        break;
+      }
+      for (const f of found) {
+        pieces.get(f.start)!.push(...f.pieces);
+        crossovers.push(...f.crossovers);
+      }
+      // Labels so far rest on branch ends decided by order, which a check has just found unreliable
+      // for this diagram: stop, the caller starts again integrating every branch.
+      if (labeller.orderBroken && labeller.counts.decided > 0) return null;
     }
-    for (const f of found) {
-      pieces.get(f.start)!.push(...f.pieces);
-      crossovers.push(...f.crossovers);
-    }
+    return { pieces, crossovers, exhaustedAt };
+  };
+  let labeller = createLabeller(system, diagram, o, note);
+  let done = labelIntervals(labeller);
+  if (!done) {
+    note({ level: 'info', code: 'order-off',
+      message: 'the order of the equilibria did not decide manifold branch ends reliably for this diagram (see the warnings); the bands were labelled again integrating every branch' });
+    labeller = createLabeller(system, diagram, { ...o, orderedLimits: false }, note);
+    done = labelIntervals(labeller)!;
   }
+  const { pieces, crossovers, exhaustedAt } = done;
   if (exhaustedAt !== null) {
     note({ level: 'warning', code: 'regimes-budget', p: exhaustedAt,
       message: `the cap of ${o.maxIntegrations} manifold integrations was reached in the interval from ${system.parameter} = ${fmt(exhaustedAt)}; it and the later ones are not labelled (raise maxIntegrations for larger networks)` });

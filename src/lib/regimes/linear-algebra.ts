@@ -1,5 +1,6 @@
 import type { CompiledSystem } from '../model/compiled-system';
-import { DenseLu, eigenvalues, newton } from '../numerics/index';
+import { eigenvalues, newton } from '../numerics/index';
+import { FlatLu } from '../numerics/flat-lu';
 
 export interface FixedPointResult {
   readonly converged: boolean;
@@ -12,7 +13,9 @@ export interface FixedPointResult {
 /**
  * Newton's method for F(x, p) = 0 at fixed p: the engine's damped Newton (numerics/newton.ts) with
  * residual tolerance `tolerance` (max norm) and iteration cap `maxIterations`; its step tolerance
- * (1e-10 relative) is kept. Never throws; x0 is not mutated.
+ * (1e-10 relative) is kept, with the allocation-free FlatLu as its linear solver (the regime layer
+ * solves at hyperbolic equilibria, where a pivot below n eps |J| means a fold, not a step to take).
+ * Never throws; x0 is not mutated.
  */
 export function newtonAtFixedParameter(
   system: CompiledSystem,
@@ -21,7 +24,7 @@ export function newtonAtFixedParameter(
   tolerance: number,
   maxIterations: number,
 ): FixedPointResult {
-  const r = newton(system, x0, p, { residualTolerance: tolerance, maxIterations });
+  const r = newton(system, x0, p, { residualTolerance: tolerance, maxIterations, linearSolver: 'flat' });
   return { converged: r.converged, iterations: r.iterations, residual: r.residual, x: r.x };
 }
 
@@ -30,6 +33,11 @@ export interface Spectrum {
   readonly im: number[];
   /** Unit eigenvector of eigenvalue k when it is real, else null. */
   vector(k: number): number[] | null;
+}
+
+/** Solves J z = b by FlatLu (LU with partial pivoting in one Float64Array); null when singular. */
+export function solveLinear(jac: Float64Array, n: number, b: ArrayLike<number>): Float64Array | null {
+  return new FlatLu(n).factor(jac).solve(b);
 }
 
 /**
@@ -57,7 +65,7 @@ function realEigenvector(jac: Float64Array, n: number, lambda: number): number[]
     const mu = lambda + scale * Math.max(1, Math.abs(lambda));
     const shifted = Float64Array.from(jac);
     for (let i = 0; i < n; i++) shifted[i * n + i] -= mu;
-    const lu = new DenseLu(shifted, n);
+    const lu = new FlatLu(n).factor(shifted);
     // Fixed, non-symmetric start so that no component of an eigenvector is missed by symmetry.
     let y: ArrayLike<number> = Array.from({ length: n }, (_, i) => 1 + 0.1 * Math.sin(i + 1));
     let ok = true;

@@ -55,6 +55,12 @@ export interface RegimeOptions {
   readonly minimumInterval: number;
   /** Skip manifold branches that provably cannot reach the start state (cooperative systems; see startExits). */
   readonly monotoneSkip: boolean;
+  /**
+   * In the cooperative case, let the order of the equilibria decide where a manifold branch ends
+   * (orderedLimit in start-exits.ts) at points whose equilibria were continued inside a span, instead
+   * of integrating; points refined from the diagram integrate and check the order against it.
+   */
+  readonly orderedLimits: boolean;
   /** Sampling between cuts: the interval is first cut into this many equal pieces. */
   readonly initialSamples: number;
   /** Sampling: a piece is halved while an exit's progress moves more than this across it, or sits this close to engagedProgress ... */
@@ -93,6 +99,7 @@ export const defaultRegimeOptions: RegimeOptions = {
   maxIntegrations: 40_000,
   minimumInterval: 1e-12,
   monotoneSkip: true,
+  orderedLimits: true,
   initialSamples: 4,
   progressStep: 0.05,
   finestFraction: 1 / 200,

@@ -3,11 +3,11 @@ import type { Diagnostic } from '../atlas/types';
 import type { NodeState, StableState, StartState } from './types';
 import type { NodeRoles } from './element-roles';
 import type { RegimeOptions } from './options';
-import { isIndexOneSaddle, type Equilibrium } from './equilibria-at';
+import { isIndexOneSaddle, sameState, type Equilibrium } from './equilibria-at';
 import { branchTargets, followBranch, type GraphSettings, type IntegrationBudget, type ManifoldBranch } from './escape-graph';
 import { isAll, progressOf } from './pattern';
+import { solveLinear } from './linear-algebra';
 import { fmt } from './element-roles';
-import { DenseLu } from '../numerics/index';
 
 /** d progress_i / dp at an equilibrium: dx/dp = -J_x^{-1} F_p, divided by the frame's threshold - base. */
 export function progressSlope(system: CompiledSystem, x: readonly number[], p: number, frameRoles: readonly NodeRoles[], mirrored: boolean): number[] | null {
@@ -15,7 +15,7 @@ export function progressSlope(system: CompiledSystem, x: readonly number[], p: n
   const xf = Float64Array.from(x);
   const jac = system.jacobian(xf, p, new Float64Array(n * n));
   const fp = system.parameterDerivative(xf, p, new Float64Array(n));
-  const dx = new DenseLu(jac, n).solve(Array.from(fp, (v) => -v));
+  const dx = solveLinear(jac, n, Array.from(fp, (v) => -v));
   if (!dx) return null;
   const out: number[] = [];
   for (let i = 0; i < n; i++) {
@@ -50,7 +50,7 @@ export interface Exit {
   readonly engaged: readonly number[];
   /** Nodes that leave the start's level at the destination (tipped nodes; recovered ones for recovery). */
   readonly tipping: readonly number[];
-  /** Integration times of the branch to the start and of the branch to the destination. */
+  /** Integration times of the branch to the start and of the branch to the destination (NaN for a branch decided by order). */
   readonly travelTimes: readonly [number, number];
   /**
    * d progress / dp along the saddle's branch of equilibria, from dx/dp = -J_x^{-1} F_p (implicit
@@ -71,6 +71,12 @@ export interface StartExits {
   /** Saddles decided without any integration (order argument, see startExits). */
   readonly skipped: number;
   readonly integrations: number;
+  /** Branches whose end the order decided without integrating (order 'decide', see orderedLimit). */
+  readonly decided: number;
+  /** Branches integrated where the order also decided and the two disagree (order 'verify'). */
+  readonly orderMismatches: number;
+  /** Stable states that integrated branches reached and `equilibria` did not hold (added with a warning). */
+  readonly discovered: number;
   /** True when the integration budget ran out (the list is incomplete). */
   readonly truncated: boolean;
 }
@@ -106,6 +112,63 @@ const leq = (a: ArrayLike<number>, b: ArrayLike<number>) => {
 };
 
 /**
+ * Where a branch of the unstable manifold of an index-1 saddle x_s ends, decided by order alone, for
+ * a cooperative system whose unstable eigenvector v is non-negative. The branch leaving along -v
+ * (sign -1) is a decreasing orbit; every equilibrium y <= x_s other than x_s stays below it (order
+ * preservation, Kamke's condition), and it converges (a bounded monotone orbit), so its limit is the
+ * greatest equilibrium below x_s; the branch along +v ends at the least equilibrium above x_s
+ * (H. L. Smith, Monotone Dynamical Systems, AMS 1995, Prop. 3.2.1 and ch. 2, the order-interval
+ * argument of Dancer & Hess, J. reine angew. Math. 419, 1991 (from memory)). Among `all` (the known
+ * equilibria) that extremal element must exist and be a stable state of `states`; the limit is an
+ * equilibrium of the full set, and an unstable limit (the branch lying in another saddle's stable
+ * manifold) is a saddle connection, which happens at isolated parameter values only, so a stable
+ * extremal element of the known set is the limit whenever the known set holds every stable state.
+ * Returns the index into `states`, or -1 when the order does not decide (no extremal element, or an
+ * unstable one): the caller integrates then. Comparisons use `leq` (1e-10 relative), equality with
+ * x_s by `sameState`.
+ */
+export function orderedLimit(xs: readonly number[], v: readonly number[], sign: 1 | -1, all: readonly (readonly number[])[], states: readonly StableState[], duplicateTolerance: number): number {
+  const n = xs.length;
+  // y lies on the branch's side when sign (y - x_s) >= 0 in every component and > 0 wherever v_i > 0
+  // (x_s + sign eps v moves those components off x_s; components with v_i = 0, nodes upstream of the
+  // saddle's unstable direction, stay exactly at x_s). A difference within the 1e-10 relative
+  // tolerance is equality: equilibria that share an upstream node's value with x_s (one-way links)
+  // do so exactly. On a component the branch moves clearly (v_i >= 1e-3) such a y is off the side; on
+  // one it barely moves (1e-12 < v_i < 1e-3) equality cannot be told from a small difference, and the
+  // order does not decide.
+  const side: (readonly number[])[] = [];
+  for (const y of all) {
+    if (sameState(y, xs, duplicateTolerance)) continue;
+    let on = true;
+    for (let i = 0; i < n && on; i++) {
+      const d = sign * (y[i] - xs[i]);
+      const tol = 1e-10 * (1 + Math.abs(xs[i]));
+      if (v[i] > 1e-12) {
+        if (Math.abs(d) <= tol) {
+          if (v[i] < 1e-3) return -1;
+          on = false;
+        } else if (d < 0) on = false;
+      } else if (d < -tol) on = false;
+    }
+    if (on) side.push(y);
+  }
+  if (side.length === 0) return -1;
+  // The extremal element: the greatest of `side` for the decreasing branch, the least for the increasing one.
+  const beyond = (a: readonly number[], b: readonly number[]) => (sign < 0 ? leq(a, b) : leq(b, a));
+  let best = side[0];
+  for (const y of side) if (beyond(best, y)) best = y;
+  for (const y of side) if (!beyond(y, best)) return -1;
+  return states.findIndex((st) => sameState(st.x, best, duplicateTolerance));
+}
+
+/**
+ * How startExits uses orderedLimit on ordered saddles (cooperative system, v >= 0): 'decide' takes its
+ * answer instead of integrating wherever it decides; 'verify' integrates as always and counts the
+ * branches where the two disagree (StartExits.orderMismatches); 'off' ignores it.
+ */
+export type ExitOrderMode = 'decide' | 'verify' | 'off';
+
+/**
  * Exits of the start state (all-base, or all-tipped for recovery) at parameter p, integrating only
  * what an exit needs. For every index-1 saddle the branch that can reach the start is integrated
  * first; only when it ends at the start is the other branch followed (to its destination).
@@ -117,7 +180,9 @@ const leq = (a: ArrayLike<number>, b: ArrayLike<number>) => {
  * branch cannot end at the start when the start is not below (above) x_s, or when an equilibrium
  * y <= x0 (y >= x0) is not below (above) the start. Branches ruled out that way are not integrated;
  * a saddle with both ruled out costs nothing. Without `monotone` both branches of a saddle may be
- * needed: the one pointing towards the start (v . (x_start - x_s)) goes first.
+ * needed: the one pointing towards the start (v . (x_start - x_s)) goes first. With `order` 'decide'
+ * an ordered branch that is not ruled out ends where orderedLimit says, without integrating, whenever
+ * it decides; with 'verify' every branch is integrated and disagreements are counted.
  */
 export function startExits(
   system: CompiledSystem,
@@ -129,11 +194,13 @@ export function startExits(
   settings: GraphSettings & Pick<RegimeOptions, 'engagedProgress'>,
   budget: IntegrationBudget,
   diagnostics: Diagnostic[],
+  order: ExitOrderMode = 'off',
 ): StartExits {
   const targets = branchTargets(system, equilibria, roles, settings);
   const level: NodeState = start === 'all-tipped' ? 'tipped' : 'base';
   const s0 = targets.states.findIndex((s) => isAll(s.pattern, level));
-  const empty = { states: targets.states, exits: [], unresolvedExits: 0, unresolvedSaddles: 0, skipped: 0, integrations: 0, truncated: false };
+  const empty = { states: targets.states, exits: [], unresolvedExits: 0, unresolvedSaddles: 0, skipped: 0, integrations: 0, decided: 0, orderMismatches: 0, discovered: 0, truncated: false };
+  const knownStates = targets.states.length;
   if (s0 < 0) return { start: -1, ...empty };
   const xStart = targets.states[s0].x;
   const recovery = start === 'all-tipped';
@@ -146,11 +213,20 @@ export function startExits(
   let truncated = false;
   const all = equilibria.map((e) => e.x);
 
-  const follow = (saddle: Equilibrium, sign: 1 | -1): ManifoldBranch | null => {
+  let decided = 0;
+  let orderMismatches = 0;
+  const follow = (saddle: Equilibrium, sign: 1 | -1, ordered: boolean): ManifoldBranch | null => {
+    const limit = ordered && order !== 'off' ? orderedLimit(saddle.x, saddle.unstableVector!, sign, all, targets.states, settings.duplicateTolerance) : -1;
+    if (order === 'decide' && limit >= 0) {
+      decided++;
+      return { reached: limit, time: Number.NaN, slowTime: Number.NaN };
+    }
     if (budget.left < 1) { truncated = true; return null; }
     budget.left -= 1;
     integrations++;
-    return followBranch(system, p, saddle, sign, targets, settings, diagnostics);
+    const b = followBranch(system, p, saddle, sign, targets, settings, diagnostics);
+    if (limit >= 0 && b.reached >= 0 && b.reached !== limit) orderMismatches++;
+    return b;
   };
 
   for (const saddle of equilibria.filter(isIndexOneSaddle)) {
@@ -177,22 +253,22 @@ export function startExits(
     const firstCan = canReach(first);
     const secondCan = canReach(second);
     if (!firstCan && !secondCan) { skipped++; continue; }
-    const a = firstCan ? follow(saddle, first) : null;
+    const a = firstCan ? follow(saddle, first, ordered) : null;
     if (truncated) break;
     let toStart: ManifoldBranch | null = null;
     let other: ManifoldBranch | null = null;
     if (a && a.reached === s0) {
       toStart = a;
-      other = follow(saddle, second);
+      other = follow(saddle, second, ordered);
     } else {
       if (firstCan && a && a.reached < 0 && !secondCan) { unresolvedSaddles++; continue; }
       if (!secondCan) continue;
-      const b = follow(saddle, second);
+      const b = follow(saddle, second, ordered);
       if (truncated) break;
       if (!b) continue;
       if (b.reached !== s0) { if (b.reached < 0 || (a && a.reached < 0)) unresolvedSaddles++; continue; }
       toStart = b;
-      other = firstCan ? a : follow(saddle, first);
+      other = firstCan ? a : follow(saddle, first, ordered);
     }
     if (truncated) break;
     if (!other || other.reached < 0) { unresolvedExits++; continue; }
@@ -213,5 +289,6 @@ export function startExits(
     exits.push({ saddle: xs.slice(), destination: destination.slice(), progress, engaged, tipping, travelTimes: [toStart.time, other.time],
       slope: progressSlope(system, xs, p, frameRoles, recovery) });
   }
-  return { start: s0, states: targets.states, exits, unresolvedExits, unresolvedSaddles, skipped, integrations, truncated };
+  return { start: s0, states: targets.states, exits, unresolvedExits, unresolvedSaddles, skipped, integrations, decided, orderMismatches,
+    discovered: targets.states.length - knownStates, truncated };
 }
