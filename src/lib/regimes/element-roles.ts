@@ -14,20 +14,34 @@ export interface ElementRolesResult {
 
 /** Per-variable range of the diagram's branch points, widened by max(span, 1) on each side. */
 export function stateRanges(diagram: Diagram, dimension: number): [number, number][] {
+  const key = `${dimension}`;
+  const cached = rangeCache.get(diagram)?.get(key);
+  if (cached) return cached.map(([a, b]) => [a, b]);
   const ranges: [number, number][] = [];
-  for (let i = 0; i < dimension; i++) {
-    let lo = Infinity;
-    let hi = -Infinity;
-    for (const b of diagram.branches) for (const pt of b.points) {
+  const lo = new Array<number>(dimension).fill(Infinity);
+  const hi = new Array<number>(dimension).fill(-Infinity);
+  // One pass over the points for all components (a 6-node diagram has about 10^5 points).
+  for (const b of diagram.branches) for (const pt of b.points) {
+    for (let i = 0; i < dimension; i++) {
       const v = pt.x[i];
-      if (Number.isFinite(v)) { if (v < lo) lo = v; if (v > hi) hi = v; }
+      if (Number.isFinite(v)) { if (v < lo[i]) lo[i] = v; if (v > hi[i]) hi[i] = v; }
     }
-    if (!Number.isFinite(lo)) { lo = -1; hi = 1; }
-    const w = Math.max(hi - lo, 1);
-    ranges.push([lo - w, hi + w]);
   }
-  return ranges;
+  for (let i = 0; i < dimension; i++) {
+    let l = lo[i];
+    let h = hi[i];
+    if (!Number.isFinite(l)) { l = -1; h = 1; }
+    const w = Math.max(h - l, 1);
+    ranges.push([l - w, h + w]);
+  }
+  let forDiagram = rangeCache.get(diagram);
+  if (!forDiagram) rangeCache.set(diagram, (forDiagram = new Map()));
+  forDiagram.set(key, ranges);
+  return ranges.map(([a, b]) => [a, b]);
 }
+
+/** Diagrams are not changed once traced (as equilibria-at.ts's parameter index assumes). */
+const rangeCache = new WeakMap<Diagram, Map<string, [number, number][]>>();
 
 /**
  * Base, threshold and tipped equilibrium of every node's uncoupled element f_i(x; p) at parameter p:

@@ -99,7 +99,7 @@ export function buildEscapeGraph(
   return { graph: { p, states, saddles: edges }, saddles: saddleData, diagnostics, truncated };
 }
 
-/** The stable states a manifold branch can arrive at, with their arrival radii; followBranch adds states it discovers. */
+/** The stable states a manifold branch can arrive at, with their arrival radii (filled by followBranch); followBranch adds states it discovers. */
 export interface BranchTargets {
   readonly states: StableState[];
   readonly radii: number[];
@@ -115,9 +115,9 @@ export function branchTargets(system: CompiledSystem, equilibria: readonly Equil
   const pattern = (x: ArrayLike<number>): NodeState[] => roles ? patternOf(x, roles) : Array.from({ length: n }, () => 'base' as const);
   const states: StableState[] = equilibria.filter(isStable).map((e) => ({ x: e.x.slice(), pattern: pattern(e.x) }));
   const everyPoint = equilibria.map((e) => e.x);
-  const t: BranchTargets = { states, radii: [], everyPoint, pattern };
-  for (const s of states) t.radii.push(arrivalRadiusOf(s.x, everyPoint, settings));
-  return t;
+  // The radii are filled by followBranch on first use: labels whose branch ends the order decides
+  // (startExits) never integrate, and the nearest-neighbour search is quadratic in the equilibria.
+  return { states, radii: [], everyPoint, pattern };
 }
 
 function arrivalRadiusOf(x: readonly number[], everyPoint: readonly number[][], settings: TargetSettings): number {
@@ -147,6 +147,7 @@ export function followBranch(
 ): ManifoldBranch {
   const n = system.dimension;
   const { states, radii, everyPoint } = targets;
+  for (let k = radii.length; k < states.length; k++) radii.push(arrivalRadiusOf(states[k].x, everyPoint, settings));
   const v = saddle.unstableVector!;
   const step = settings.manifoldOffset * (1 + maxAbs(saddle.x));
   const x0 = saddle.x.map((c, i) => c + sign * step * v[i]);

@@ -47,13 +47,22 @@ export function cutName(c: Cut): string {
  */
 export function changesEscapeGraph(system: CompiledSystem, s: SpecialPoint): boolean {
   if (s.type === 'degenerate') return true;
+  const k = unstableCountAt(system, s);
+  return k === null || k <= 1;
+}
+
+/**
+ * k of changesEscapeGraph: the eigenvalues of J_x at the special point with Re > 1e-6 × max(1, max
+ * |lambda|), not counting the critical ones; null when the state does not fit or the spectrum fails.
+ */
+export function unstableCountAt(system: CompiledSystem, s: SpecialPoint): number | null {
   const n = system.dimension;
-  if (s.x.length !== n) return true;
+  if (s.x.length !== n) return null;
   const jac = system.jacobian(Float64Array.from(s.x), s.p, new Float64Array(n * n));
   const spec = eigenvalues(jac, n);
-  if (!spec.ok) return true;
+  if (!spec.ok) return null;
   const eps = 1e-6 * spectralScale(spec);
   let k = 0;
   for (let i = 0; i < n; i++) if (spec.re[i] > eps) k++;
-  return k <= 1;
+  return k;
 }

@@ -1,13 +1,14 @@
 import type { CompiledSystem } from '../model/compiled-system';
-import type { Diagnostic, Diagram } from '../atlas/types';
+import type { Diagnostic, Diagram, SpecialPoint } from '../atlas/types';
 import type { EdgeKind, NodeState, Regime, StartState } from './types';
 import { resolveOptions, type RegimeOptions } from './options';
 import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles';
-import { analyseEquilibrium, equilibriaAt, sameState, type Equilibrium } from './equilibria-at';
+import { analyseEquilibrium, certifiedStable, equilibriaAt, sameState, type Equilibrium } from './equilibria-at';
 import type { IntegrationBudget } from './escape-graph';
 import { frameRolesOf, looksCooperative, progressSlope, startExits, type Exit, type ExitOrderMode } from './start-exits';
 import { newtonAtFixedParameter, solveLinear } from './linear-algebra';
 import { progressOf } from './pattern';
+import { unstableCountAt } from './intervals';
 import { listNames, patternWords } from './reason';
 
 /** The label at one parameter value, from the exits of the start state there. */
@@ -81,7 +82,8 @@ export interface Labeller {
   /** Manifold-branch integrations and saddles decided without integrating, so far. */
   /** continued: points whose equilibria were continued from a neighbour in their span; continuationFallbacks: tries that failed (refined from the diagram instead). */
   /** decided: manifold branches whose end the order of the equilibria decided without integrating (orderedLimit). */
-  readonly counts: { integrations: number; skipped: number; decided: number; points: number; continued: number; continuationFallbacks: number };
+  /** acrossCuts: of the continued points, those continued from the other side of a saddle-node cut (continueAcrossCut). */
+  readonly counts: { integrations: number; skipped: number; decided: number; points: number; continued: number; acrossCuts: number; continuationFallbacks: number };
 }
 
 /**
@@ -100,7 +102,7 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
   const fixedRoles = o.roles !== undefined || system.network?.sweepIsCoupling === true;
   let roles0: (NodeRoles | null)[] | null = null;
   const budget: IntegrationBudget = { left: o.maxIntegrations };
-  const counts = { integrations: 0, skipped: 0, decided: 0, points: 0, continued: 0, continuationFallbacks: 0 };
+  const counts = { integrations: 0, skipped: 0, decided: 0, points: 0, continued: 0, acrossCuts: 0, continuationFallbacks: 0 };
   let orderTrusted = o.orderedLimits;
   const state = { orderBroken: false };
   const eqCache = new Map<number, EquilibriumSet>();
@@ -147,20 +149,56 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
     const key = `${span[0]}|${span[1]}`;
     let list = spans.get(key);
     if (!list) spans.set(key, (list = []));
-    let near = Number.NaN;
-    for (const q of list) if (!(Math.abs(q - p) >= Math.abs(near - p))) near = q;
+    // The nearest labelled points of the span first; a point next to a cut is a poor source for one
+    // farther in (a saddle near its fold moves like sqrt(p - p_fold), and the tangent predictor
+    // overshoots onto its partner), so up to three are tried.
+    const sources = list.slice().sort((u, v) => Math.abs(u - p) - Math.abs(v - p)).slice(0, 3);
     list.push(p);
-    const source = Number.isNaN(near) ? undefined : eqCache.get(near) ?? continued.get(near);
-    if (source) {
+    for (const near of sources) {
+      const source = eqCache.get(near) ?? continued.get(near);
+      if (!source) continue;
       const next = continueFromNeighbour(system, source, near, p, o);
       if (next) {
         counts.continued++;
         continued.set(p, next);
         return next;
       }
-      counts.continuationFallbacks++;
+    }
+    if (sources.length > 0) counts.continuationFallbacks++;
+    else {
+      // First point of its span: continue across the cut from the nearest point labelled on the other
+      // side of it, when the cut is made of saddle-nodes only (continueAcrossCut).
+      const across = acrossCut(p, span);
+      if (across) {
+        counts.continued++;
+        counts.acrossCuts++;
+        continued.set(p, across);
+        return across;
+      }
     }
     return equilibriaFor(p);
+  };
+
+  /** Every labelled p with its span, for acrossCut. */
+  const labelledPoints: { p: number; span: readonly [number, number] }[] = [];
+  const acrossCut = (p: number, span: readonly [number, number]): EquilibriumSet | null => {
+    const reach = 4 * o.cutOffset * (1 + Math.abs(p));
+    for (const cut of [span[0], span[1]]) {
+      if (Math.abs(p - cut) > reach) continue;
+      let q = Number.NaN;
+      for (const l of labelledPoints) {
+        const otherSide = (l.p - cut) * (p - cut) < 0 && (l.span[0] === cut || l.span[1] === cut);
+        if (otherSide && Math.abs(l.p - p) <= 2 * reach && !(Math.abs(l.p - p) >= Math.abs(q - p))) q = l.p;
+      }
+      const source = Number.isNaN(q) ? undefined : eqCache.get(q) ?? continued.get(q);
+      if (!source) continue;
+      const points = diagram.bifurcations.filter((sp) => Math.abs(sp.p - cut) <= 1e-9 * (1 + Math.abs(cut)));
+      if (points.length === 0 || points.some((sp) => sp.type !== 'saddle-node')) return null;
+      const next = continueAcrossCut(system, diagram, source, q, p, points, o);
+      if (!next) counts.continuationFallbacks++;
+      return next;
+    }
+    return null;
   };
 
   const compute = (p: number, start: StartState, span: readonly [number, number] | undefined): PointLabel => {
@@ -168,6 +206,7 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
     const roles = rolesAt(p);
     if (roles.some((r) => r === null)) return none('regimes undefined: an element is not bistable', 'undefined');
     const set = equilibriaInSpan(p, span);
+    if (span) labelledPoints.push({ p, span });
     const { equilibria, monotone } = set;
     const diagnostics: Diagnostic[] = [];
     // Order decides branch ends only on verified sets: a set where every branch was integrated, each
@@ -256,7 +295,8 @@ interface EquilibriumSet {
 /**
  * The stable states and index-1 saddles at p, continued from a set at p0 of the same span: each by
  * the tangent predictor x + (p - p0) dx/dp (dx/dp = -J_x^{-1} F_p, implicit function theorem) and
- * Newton's method at fixed p, then its spectrum. Inside a span no special point joins an equilibrium
+ * Newton's method at fixed p, then its spectrum (for a stable state a Gershgorin certificate first,
+ * certifiedStable). Inside a span no special point joins an equilibrium
  * with fewer than two unstable eigenvalues, so their number is the same at p0 and p; when every
  * continued point converges, is distinct from the others and keeps its number of unstable
  * eigenvalues, the continued points are therefore all of them (a one-to-one map onto a set of the
@@ -281,12 +321,85 @@ function continueFromNeighbour(system: CompiledSystem, source: EquilibriumSet, p
     const guess = e.x.map((c, i) => c + (p - p0) * dx[i]);
     const r = newtonAtFixedParameter(system, guess, p, o.newtonTolerance, o.newtonMaxIterations);
     if (!r.converged || out.some((f) => sameState(f.x, r.x, o.duplicateTolerance))) return null;
-    const next = analyseEquilibrium(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
+    const next = e.unstable === 0
+      ? certifiedStable(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch)
+      : analyseEquilibrium(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
     if (next.unstable !== e.unstable || next.neutral !== 0 || (next.unstable === 1 && !next.unstableVector)) return null;
     out.push(next);
   }
   return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p), verified: source.verified };
 }
+
+/**
+ * The stable states and index-1 saddles at p, continued from a set at p0 on the other side of a cut
+ * made only of saddle-nodes (`points`, all at the cut's parameter value; those joining equilibria
+ * with two or more unstable eigenvalues are ignored, the set holds none of them). Away from those points
+ * nothing happens between p0 and p (the cut is the only special point between them that joins an
+ * equilibrium with fewer than two unstable eigenvalues), so every equilibrium of the source that is
+ * not within 1e-2 (1 + |x|) of a saddle-node continues as in continueFromNeighbour; at each
+ * saddle-node two equilibria with k and k + 1 unstable eigenvalues meet and exist on one side only
+ * (Kuznetsov, Elements of Applied Bifurcation Theory, 3rd ed., section 3.3), so the set loses or gains
+ * the ones of them with at most one unstable eigenvalue: two when k = 0, one when k = 1. Those lost
+ * are the source's equilibria near a saddle-node that do not continue; those gained are refined from
+ * the diagram's own points near the saddle-node (equilibriaAt on the branches through it). The
+ * change must have exactly the expected size, else null and the caller refines from the whole
+ * diagram. The verified flag is the source's: the stable states are the source's plus the ones born
+ * at the cut, which the diagram shows.
+ */
+function continueAcrossCut(system: CompiledSystem, diagram: Diagram, source: EquilibriumSet, p0: number, p: number, points: readonly SpecialPoint[], o: RegimeOptions): EquilibriumSet | null {
+  const n = system.dimension;
+  // Saddle-nodes with k >= 2 (one-way links fold an upstream node at the same p for every state of the
+  // nodes downstream) join only equilibria that the set leaves out.
+  const relevant: SpecialPoint[] = [];
+  let expected = 0;
+  for (const sp of points) {
+    const k = unstableCountAt(system, sp);
+    if (k === null) return null;
+    if (k > 1) continue;
+    relevant.push(sp);
+    expected += k === 0 ? 2 : 1;
+  }
+  const nearPoint = (x: readonly number[]) => relevant.some((sp) => maxNormDist(x, sp.x) <= 1e-2 * (1 + maxNormAbs(sp.x)));
+  const out: Equilibrium[] = [];
+  const jac = new Float64Array(n * n);
+  const fp = new Float64Array(n);
+  let changed = 0;
+  for (const e of source.equilibria) {
+    if (e.neutral !== 0 || e.unstable > 1) continue;
+    const x0 = Float64Array.from(e.x);
+    system.jacobian(x0, p0, jac);
+    system.parameterDerivative(x0, p0, fp);
+    const dx = solveLinear(jac, n, Array.from(fp, (v) => -v));
+    const guess = dx ? e.x.map((c, i) => c + (p - p0) * dx[i]) : e.x.slice();
+    const r = newtonAtFixedParameter(system, guess, p, o.newtonTolerance, o.newtonMaxIterations);
+    const next = !r.converged || out.some((f) => sameState(f.x, r.x, o.duplicateTolerance)) ? null
+      : e.unstable === 0 ? certifiedStable(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch)
+        : analyseEquilibrium(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
+    const ok = next !== null && next.unstable === e.unstable && next.neutral === 0 && (next.unstable !== 1 || next.unstableVector !== undefined)
+      && maxNormDist(next.x, e.x) <= 1e-2 * (1 + maxNormAbs(e.x));
+    if (ok) { out.push(next); continue; }
+    if (!nearPoint(e.x)) return null;
+    changed++;
+  }
+  const ids = new Set(relevant.flatMap((sp) => sp.branches));
+  const local: Diagram = {
+    ...diagram,
+    bifurcations: [],
+    branches: diagram.branches.filter((b) => ids.has(b.id)).map((b) => ({ ...b, points: b.points.filter((q) => nearPoint(q.x)) })),
+  };
+  for (const e of equilibriaAt(system, local, p, o).equilibria) {
+    if (e.neutral !== 0 || e.unstable > 1 || (e.unstable === 1 && !e.unstableVector)) continue;
+    if (out.some((f) => sameState(f.x, e.x, o.duplicateTolerance))) continue;
+    if (!nearPoint(e.x)) return null;
+    out.push(e);
+    changed++;
+  }
+  if (changed !== expected) return null;
+  return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p), verified: source.verified };
+}
+
+const maxNormAbs = (x: readonly number[]) => { let m = 0; for (const v of x) m = Math.max(m, Math.abs(v)); return m; };
+const maxNormDist = (a: readonly number[], b: readonly number[]) => { let m = 0; for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i] - b[i])); return m; };
 
 /**
  * The label at one parameter value: createLabeller(system, diagram, options).labelAt(p, start).

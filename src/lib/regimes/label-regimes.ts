@@ -19,10 +19,11 @@ export interface RegimeResult {
   readonly crossovers: LocatedCrossover[];
   /**
    * Work done: labelled parameter values (and how many of them continued their equilibria from a
-   * neighbour, and how many tries at that fell back to the diagram), manifold-branch integrations,
+   * neighbour (acrossCuts: from the other side of a saddle-node cut), and how many tries at that
+   * fell back to the diagram), manifold-branch integrations,
    * saddles ruled out without integrating, branches whose end the order decided (orderedLimit).
    */
-  readonly work: { readonly points: number; readonly continued: number; readonly continuationFallbacks: number; readonly integrations: number; readonly skipped: number; readonly decided: number };
+  readonly work: { readonly points: number; readonly continued: number; readonly acrossCuts: number; readonly continuationFallbacks: number; readonly integrations: number; readonly skipped: number; readonly decided: number };
 }
 
 const MAX_DIAGNOSTICS = 60;
@@ -62,7 +63,7 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
       diagnostics.length = MAX_DIAGNOSTICS;
       diagnostics.push({ level: 'info', code: 'diagnostics-truncated', message: `${extra} further diagnostics were left out` });
     }
-    return { regimes, escapeGraphs, diagnostics, crossovers, work: labeller ? { ...labeller.counts } : { points: 0, continued: 0, continuationFallbacks: 0, integrations: 0, skipped: 0, decided: 0 } };
+    return { regimes, escapeGraphs, diagnostics, crossovers, work: labeller ? { ...labeller.counts } : { points: 0, continued: 0, acrossCuts: 0, continuationFallbacks: 0, integrations: 0, skipped: 0, decided: 0 } };
   };
 
   if (!system.network && !o.roles) {

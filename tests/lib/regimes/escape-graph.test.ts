@@ -133,11 +133,13 @@ describe('buildEscapeGraph edge cases', () => {
 
   it('labelRegimes stops at the integration cap with a warning and labels only the intervals before it', () => {
     // The cap is set to what the first interval (up to the saddle-node) needs plus one, so it runs out
-    // in the second interval: the weak band is kept, the rest is left unlabelled.
+    // in the second interval: the weak band is kept, the rest is left unlabelled. Every branch is
+    // integrated here (orderedLimits off): with the order deciding, the second interval needs almost none.
     const { betaSaddleNode } = symmetricPairValues(R);
-    const first = labelRegimes(system, symmetricPairDiagram(R), { to: betaSaddleNode, escapeGraphs: false });
+    const integrateAll = { orderedLimits: false };
+    const first = labelRegimes(system, symmetricPairDiagram(R), { ...integrateAll, to: betaSaddleNode, escapeGraphs: false });
     expect(first.regimes.map((b) => b.regime)).toEqual(['weak']);
-    const result = labelRegimes(system, symmetricPairDiagram(R), { maxIntegrations: first.work.integrations + 1 });
+    const result = labelRegimes(system, symmetricPairDiagram(R), { ...integrateAll, maxIntegrations: first.work.integrations + 1 });
     expect(result.regimes.map((b) => b.regime)).toEqual(['weak']);
     expect(result.regimes[0].to).toBe(betaSaddleNode);
     expect(result.diagnostics.some((d) => d.code === 'regimes-budget')).toBe(true);
