@@ -86,3 +86,38 @@ describe('branch ends decided by the order of the equilibria (orderedLimit)', ()
     expect(r.work.decided).toBe(0);
   });
 });
+
+describe('continuing the equilibria across a saddle-node cut', () => {
+  it('gives the label and the exits that refining from the whole diagram gives, on both sides of every cut', () => {
+    // Independent check: the first point of each span, continued from the point just across the cut
+    // (continueAcrossCut), against a fresh labeller that refines every equilibrium the diagram shows.
+    for (const doc of [oneWayChain, mixed, ring]) {
+      const system = compileModelJson(doc);
+      const diagram = traceDiagram(system);
+      const result = labelRegimes(system, diagram, { escapeGraphs: false });
+      expect(result.work.acrossCuts).toBeGreaterThan(0);
+      const cuts = [...new Set(diagram.bifurcations.filter((sp) => sp.type === 'saddle-node').map((sp) => sp.p))].sort((a, b) => a - b);
+      const labeller = createLabeller(system, diagram, {});
+      let checked = 0;
+      for (let k = 0; k < cuts.length; k++) {
+        const c = cuts[k];
+        const lo = k > 0 ? cuts[k - 1] : system.sweep.from;
+        const hi = k + 1 < cuts.length ? cuts[k + 1] : system.sweep.to;
+        if (c - lo < 1e-6 || hi - c < 1e-6) continue;
+        const h = 1e-7 * (1 + Math.abs(c));
+        labeller.labelAt(c - h, 'all-base', [lo, c]);
+        const before = labeller.counts.acrossCuts;
+        const across = labeller.labelAt(c + h, 'all-base', [c, hi]);
+        if (labeller.counts.acrossCuts === before) continue;
+        const fresh = createLabeller(system, diagram, {}).labelAt(c + h);
+        expect(across.key).toBe(fresh.key);
+        expect(across.exits.length).toBe(fresh.exits.length);
+        for (const e of across.exits) {
+          expect(fresh.exits.some((f) => f.saddle.every((v, i) => Math.abs(v - e.saddle[i]) < 1e-8 * (1 + Math.abs(v))))).toBe(true);
+        }
+        checked++;
+      }
+      expect(checked).toBeGreaterThan(0);
+    }
+  });
+});
