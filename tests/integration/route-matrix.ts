@@ -16,6 +16,7 @@
 import type { Client, WorkspaceFixture } from './helpers.ts';
 import { serviceRoutes } from './route-matrix-service.ts';
 import { editorRoutes } from './route-matrix-editor.ts';
+import { compareRoutes } from './route-matrix-compare.ts';
 
 export type Caller = 'signedOut' | 'outsider' | 'owner' | 'modeler' | 'reviewer';
 export type Vars = Record<string, string>;
@@ -163,4 +164,5 @@ export const routeMatrix: RouteCase[] = [
   // Other engineers: spread your rows in here, e.g. ...modelRoutes,
   ...serviceRoutes,
   ...editorRoutes,
+  ...compareRoutes,
 ];

@@ -1,11 +1,12 @@
 /**
- * Two to four diagrams against one shared, locked parameter axis (zoom or pan one, all follow), side by
- * side or overlaid, and a table aligning their special points and band edges by type with differences.
+ * Two to four diagrams against one shared, locked parameter axis (zoom or pan one, all follow), stacked
+ * (so one parameter value lines up down the page) or overlaid, and tables aligning their special points
+ * (by type, on corresponding branches, nearest in parameter and state) and band edges, with differences.
  */
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { scaleLinear, select, zoom, zoomIdentity, type ZoomTransform } from 'd3';
 import type { Diagram } from '../../lib/atlas/types';
-import { alignBandEdges, alignSpecialPoints, type AlignedRow } from '../../lib/plot/compare';
+import { alignBandEdges, alignSpecialPoints, defaultProjectionKey, type AlignedRow } from '../../lib/plot/compare';
 import { diagramExtent, REGIME_LABEL, STABLE_WIDTH, UNSTABLE_DASH, UNSTABLE_WIDTH } from '../../lib/plot/figure';
 import { markerFillRule, markerPath, SPECIAL_LABEL } from '../../lib/plot/markers';
 import { project, projectionLabel, type Projection } from '../../lib/plot/projection';
@@ -16,9 +17,13 @@ import { formatValue, linearAxis } from '../../lib/plot/ticks';
 import type { RegimeBand } from '../../lib/regimes/types';
 import { useWidth } from '../diagram/use-width';
 import '../diagram/diagram.css';
+import './compare.css';
 
 export interface CompareItem {
+  /** Full name, e.g. "Fenn lakes: restored upper lake v1 (run 3)": panel titles and hover text. */
   readonly label: string;
+  /** Short name for column headers, e.g. "run 3" (default: the numeral). */
+  readonly shortLabel?: string;
   readonly diagram: Diagram;
   readonly regimes?: RegimeBand[];
   readonly provenance?: Provenance;
@@ -30,19 +35,27 @@ export interface CompareViewProps {
   readonly initialMode?: 'side' | 'overlay';
 }
 
-const M = { left: 62, right: 12, top: 26, bottom: 40 };
-/** Overlay identities: colour plus a numeral beside every glyph, so diagrams differ without colour too. */
-const OVERLAY = ['var(--dg-overlay-1)', 'var(--dg-overlay-2)', 'var(--dg-overlay-3)', 'var(--dg-overlay-4)'];
+const M = { left: 66, right: 14, top: 28, bottom: 42 };
+/** Overlay identities (compare.css): colour plus a numeral beside every glyph, so diagrams differ without colour too. */
+const OVERLAY = ['var(--cmp-line-1)', 'var(--cmp-line-2)', 'var(--cmp-line-3)', 'var(--cmp-line-4)'];
+/** Panel heights: as tall as the run page's diagram for two, a little less each for three or four; the overlay taller. */
+const panelHeight = (mode: 'side' | 'overlay', count: number) => (mode === 'overlay' ? 540 : count <= 2 ? 420 : 340);
 
+/** The variables all diagrams share (the first n of the shortest list). */
+const commonVariables = (items: readonly CompareItem[]) => (items.length ? items[0].diagram.variables.slice(0, Math.min(...items.map((i) => i.diagram.variables.length))) : []);
+
+/** The run page's choices (availableProjections without thresholds) over the shared variables. */
 function commonProjections(items: readonly CompareItem[]): { key: string; label: string; projection: Projection }[] {
-  const n = Math.min(...items.map((i) => i.diagram.variables.length));
-  const names = items[0].diagram.variables;
+  const names = commonVariables(items);
+  const n = names.length;
   const out: { key: string; label: string; projection: Projection }[] = [];
   for (let i = 0; i < n; i++) out.push({ key: `node:${i}`, label: projectionLabel({ kind: 'node', index: i }, names), projection: { kind: 'node', index: i } });
-  out.push({ key: 'mean', label: 'mean state', projection: { kind: 'mean' } });
+  if (n > 1) out.push({ key: 'mean', label: 'mean state', projection: { kind: 'mean' } });
   out.push({ key: 'norm', label: 'Euclidean norm of the state', projection: { kind: 'norm' } });
   return out;
 }
+
+const shortOf = (items: readonly CompareItem[], i: number) => items[i].shortLabel ?? String(i + 1);
 
 function Panel({ items, indices, projection, transform, onZoom, width, height, overlay, pExtent }: {
   items: readonly CompareItem[]; indices: number[]; projection: Projection; transform: ZoomTransform; onZoom: (t: ZoomTransform) => void;
@@ -80,7 +93,7 @@ function Panel({ items, indices, projection, transform, onZoom, width, height, o
   const [d0, d1] = xs.domain() as [number, number];
   const budget = Math.round(plotW * 2);
   return (
-    <svg ref={ref} width={width} height={height} className="dg-compare-panel" role="img"
+    <svg ref={ref} width={width} height={height} className="dg-compare-panel" role="img" data-diagram-indices={indices.join(',')}
       aria-label={`${indices.map((i) => items[i].label).join(' and ')}: ${projectionLabel(projection, items[indices[0]].diagram.variables)} against ${items[0].diagram.parameter}`}>
       <defs><clipPath id={clip}><rect width={plotW} height={plotH} /></clipPath></defs>
       <g transform={`translate(${M.left},${M.top})`}>
@@ -123,22 +136,34 @@ function Panel({ items, indices, projection, transform, onZoom, width, height, o
           <line y2={plotH} />
           {yAxis.ticks.map((t) => <g key={t.value} transform={`translate(0,${t.pos})`}><line x2={-5} /><text x={-8} dy="0.32em" textAnchor="end">{t.label}</text></g>)}
         </g>
-        <text x={0} y={-9} className="dg-compare-title">{overlay ? 'Overlay: ' + indices.map((i) => `${i + 1} = ${items[i].label}`).join(' · ') : items[indices[0]].label}</text>
+        <text x={0} y={-10} className="dg-compare-title">{overlay ? 'Overlaid: ' + indices.map((i) => `${i + 1} = ${shortOf(items, i)}`).join(' · ') : `${indices[0] + 1} · ${items[indices[0]].label}`}</text>
       </g>
     </svg>
   );
 }
 
-function AlignedTable({ caption, rows, labels, testId }: { caption: string; rows: AlignedRow[]; labels: string[]; testId: string }) {
+const stateText = (x: readonly number[], names: readonly string[]) => x.map((v, i) => `${names[i] ?? `x${i + 1}`} ${formatValue(v, 4)}`).join(', ');
+
+/** Hover text of a special-point row: where each diagram's point sits and how far it is from the first. */
+function rowDetail(r: AlignedRow, shorts: readonly string[], names: readonly string[]): string | undefined {
+  if (!r.states) return undefined;
+  return r.states.map((x, i) => `${shorts[i]}: ${x ? `${stateText(x, names)}${i > 0 && r.distances?.[i] != null ? ` (scaled distance ${formatValue(r.distances[i]!, 2)})` : ''}` : 'no counterpart'}`).join('\n');
+}
+
+function AlignedTable({ caption, rows, labels, shorts, names, testId }: { caption: string; rows: AlignedRow[]; labels: string[]; shorts: string[]; names: readonly string[]; testId: string }) {
   if (!rows.length) return null;
   return (
     <table data-testid={testId}>
       <caption>{caption}</caption>
-      <thead><tr><th scope="col">Matched</th>{labels.map((l, i) => <th key={i} scope="col">{l}</th>)}{labels.slice(1).map((l, i) => <th key={`d${i}`} scope="col">Δ {l} − {labels[0]}</th>)}</tr></thead>
+      <thead><tr>
+        <th scope="col">Matched</th>
+        {labels.map((l, i) => <th key={i} scope="col" data-full-name={l}><abbr title={l}>{shorts[i]}</abbr></th>)}
+        {labels.slice(1).map((l, i) => <th key={`d${i}`} scope="col"><abbr title={`${l} minus ${labels[0]}`}>Δ {shorts[i + 1]} − {shorts[0]}</abbr></th>)}
+      </tr></thead>
       <tbody>
         {rows.map((r, k) => (
-          <tr key={k} className={r.values.some((v) => v == null) ? 'dg-row-missing' : ''}>
-            <th scope="row">{r.label}</th>
+          <tr key={k} className={r.values.some((v) => v == null) ? 'dg-row-missing' : ''} data-ids={r.ids?.map((id) => id ?? '').join(',')}>
+            <th scope="row" title={rowDetail(r, shorts, names)}>{r.label}</th>
             {r.values.map((v, i) => <td key={i} className="num">{v == null ? <em>none</em> : formatValue(v, 8)}</td>)}
             {r.deltas.slice(1).map((d, i) => <td key={`d${i}`} className="num">{d == null ? '—' : d === 0 ? '0' : (d > 0 ? '+' : '') + formatValue(d, 4)}</td>)}
           </tr>
@@ -153,7 +178,10 @@ export function CompareView({ items, initialMode = 'side' }: CompareViewProps) {
   const [mode, setMode] = useState(initialMode);
   const [transform, setTransform] = useState<ZoomTransform>(zoomIdentity);
   const options = useMemo(() => commonProjections(items), [items]);
-  const [projKey, setProjKey] = useState(options[0].key);
+  const [projKey, setProjKey] = useState(() => {
+    const key = defaultProjectionKey(commonVariables(items));
+    return options.some((o) => o.key === key) ? key : options[0].key;
+  });
   const projection = options.find((o) => o.key === projKey)?.projection ?? options[0].projection;
   const pExtent = useMemo(() => {
     let lo = Infinity, hi = -Infinity;
@@ -169,23 +197,25 @@ export function CompareView({ items, initialMode = 'side' }: CompareViewProps) {
   if (params.size > 1) return <p className="dg-error" role="alert">These diagrams sweep different parameters ({[...params].join(', ')}); they cannot share one axis.</p>;
 
   const labels = items.map((i) => i.label);
-  const cols = mode === 'overlay' ? 1 : items.length <= 2 ? items.length : 2;
-  const panelW = Math.floor((width - (cols - 1) * 12) / cols);
-  const panelH = mode === 'overlay' ? 400 : 300;
+  const shorts = items.map((_, i) => shortOf(items, i));
+  // One column: stacked panels share the parameter axis down the page, so one value lines up vertically.
+  const cols = 1;
+  const panelW = Math.floor(width);
+  const panelH = panelHeight(mode, items.length);
   const zoomBy = (k: number) => setTransform((t) => {
     const cx = (Math.max(80, panelW - M.left - M.right)) / 2 + M.left;
     const nk = Math.min(5000, Math.max(1, t.k * k));
     return zoomIdentity.translate(cx - ((cx - t.x) / t.k) * nk, 0).scale(nk);
   });
   return (
-    <section className="dg-diagram dg-compare" data-testid="compare-view" aria-label="Comparison of diagrams">
+    <section className="dg-diagram dg-compare" data-testid="compare-view" data-projection={projKey} data-mode={mode} aria-label="Comparison of diagrams">
       <div className="dg-toolbar" role="group" aria-label="Comparison controls">
-        <h3 className="dg-title">Comparing {labels.join(', ')}</h3>
+        <h3 className="dg-title">Comparing {items.length} diagrams</h3>
         <label className="dg-field"><span>Vertical axis</span>
-          <select value={projKey} onChange={(e) => setProjKey(e.target.value)}>{options.map((o) => <option key={o.key} value={o.key}>{o.label}</option>)}</select>
+          <select value={projKey} data-testid="compare-projection" onChange={(e) => setProjKey(e.target.value)}>{options.map((o) => <option key={o.key} value={o.key}>{o.label}</option>)}</select>
         </label>
         <div className="dg-buttons" role="radiogroup" aria-label="Layout">
-          <button type="button" role="radio" aria-checked={mode === 'side'} className={mode === 'side' ? 'is-on' : ''} onClick={() => setMode('side')}>Side by side</button>
+          <button type="button" role="radio" aria-checked={mode === 'side'} className={mode === 'side' ? 'is-on' : ''} onClick={() => setMode('side')}>One panel each</button>
           <button type="button" role="radio" aria-checked={mode === 'overlay'} className={mode === 'overlay' ? 'is-on' : ''} onClick={() => setMode('overlay')}>Overlaid</button>
         </div>
         <div className="dg-buttons">
@@ -194,6 +224,9 @@ export function CompareView({ items, initialMode = 'side' }: CompareViewProps) {
           <button type="button" onClick={() => setTransform(zoomIdentity)}>Reset view</button>
         </div>
       </div>
+      <ul className="cmp-who" aria-label="Compared runs">
+        {items.map((it, i) => <li key={i}><span className="cmp-num" style={{ color: mode === 'overlay' ? OVERLAY[i] : undefined }}>{i + 1}</span><b>{shorts[i]}</b><span className="dg-muted">{it.label}</span></li>)}
+      </ul>
       <p className="dg-muted" style={{ margin: 0 }}>One parameter axis for all: zooming or panning any panel moves every panel.</p>
       <div ref={wrapRef} className="dg-compare-grid" style={{ display: 'grid', gridTemplateColumns: `repeat(${cols}, minmax(0, 1fr))`, gap: 12 }}>
         {mode === 'overlay'
@@ -212,10 +245,10 @@ export function CompareView({ items, initialMode = 'side' }: CompareViewProps) {
         </div>
       ) : null}
       <div className="dg-tables">
-        <AlignedTable caption="Special points matched by type and order along the parameter" rows={special} labels={labels} testId="compare-special-table" />
-        <AlignedTable caption="Band edges matched by the regimes they separate" rows={edges} labels={labels} testId="compare-band-table" />
+        <AlignedTable caption="Special points matched by type, on corresponding branches, nearest in parameter and state (hover a row for the states)" rows={special} labels={labels} shorts={shorts} names={commonVariables(items)} testId="compare-special-table" />
+        <AlignedTable caption="Band edges matched by the regimes they separate" rows={edges} labels={labels} shorts={shorts} names={commonVariables(items)} testId="compare-band-table" />
         {!edges.length ? <p className="dg-muted">No regime bands to compare.</p> : null}
-        <p className="dg-muted">Bands: {items.map((it) => `${it.label}: ${(it.regimes ?? []).map((b) => REGIME_LABEL[b.regime]).join(' → ') || 'none'}`).join('; ')}</p>
+        <p className="dg-muted">Bands: {items.map((it, i) => `${shorts[i]}: ${(it.regimes ?? []).map((b) => REGIME_LABEL[b.regime]).join(' → ') || 'none'}`).join('; ')}</p>
       </div>
       <p className="dg-note">{INDICATIVE_NOTE}</p>
     </section>
