@@ -66,3 +66,13 @@ export async function shootBothThemes(page: Page, name: string): Promise<void> {
   }
   await page.evaluate(() => { document.documentElement.dataset.theme = 'light'; });
 }
+
+/**
+ * Special points drawn in a diagram view: single glyphs ([data-special-id]) plus the members of every
+ * folded group of glyphs drawn over each other ([data-group-ids], DiagramView / glyph-clusters.ts).
+ */
+export async function specialMarkCount(page: Page, scope = '[data-testid=diagram-view]'): Promise<number> {
+  const single = await page.locator(`${scope} [data-special-id]`).count();
+  const grouped = await page.locator(`${scope} [data-testid=glyph-group]`).evaluateAll((gs) => gs.reduce((n, g) => n + (g.getAttribute('data-group-ids') ?? '').split(' ').filter(Boolean).length, 0));
+  return single + grouped;
+}

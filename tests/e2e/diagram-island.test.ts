@@ -14,7 +14,7 @@ import { alignSpecialPoints } from '../../src/lib/plot/compare';
 import { splitAllRuns } from '../../src/lib/plot/runs';
 import { formatValue } from '../../src/lib/plot/ticks';
 import { makeTwoLakeDiagram } from '../fixtures/two-lake';
-import { BASE_URL, launchBrowser, screenshotPath } from './browser.ts';
+import { BASE_URL, launchBrowser, screenshotPath, specialMarkCount } from './browser.ts';
 
 const base = (process.env.DIAGRAM_PREVIEW_BASE_URL ?? BASE_URL).replace(/\/$/, '');
 const demo = JSON.parse(readFileSync('seeds/demo-accounts.json', 'utf8')) as { users: { email: string; password: string; role: string }[] };
@@ -67,8 +67,32 @@ describe('diagram island on the preview page', () => {
     const drawn = Number(await view.getAttribute('data-drawn-points'));
     expect(drawn).toBeGreaterThan(500);
     expect(drawn).toBeLessThan(totalPoints / 5);
-    expect(await p.locator('[data-testid=diagram-view] [data-special-id]').count()).toBe(fixture.bifurcations.length);
+    expect(await specialMarkCount(p)).toBe(fixture.bifurcations.length);
     await p.screenshot({ path: screenshotPath('diagram-island-50k') });
+  });
+
+  it('glyphs drawn over each other fold into one mark with a count; a click fans them out and each opens its panel', async (ctx) => {
+    const p = ready(ctx);
+    const view = p.getByTestId('diagram-view').first();
+    // Mean state: the fixture's mirror-image folds (same beta, same mean) land on one spot.
+    await view.getByTestId('projection-select').selectOption('mean');
+    const groups = view.getByTestId('glyph-group');
+    await expect.poll(() => groups.count()).toBeGreaterThan(0);
+    expect(await specialMarkCount(p)).toBe(fixture.bifurcations.length);
+    const ids = (await groups.first().getAttribute('data-group-ids'))!.split(' ');
+    expect(ids.length).toBeGreaterThan(1);
+    expect(await groups.first().locator('text').textContent()).toBe(String(ids.length));
+    await view.screenshot({ path: screenshotPath('diagram-glyph-group-folded') });
+    await groups.first().click();
+    const open = view.getByTestId('glyph-group-open');
+    await expect.poll(() => open.count()).toBe(1);
+    expect(await open.locator('[data-special-id]').evaluateAll((gs) => gs.map((g) => g.getAttribute('data-special-id')))).toEqual(ids);
+    await view.screenshot({ path: screenshotPath('diagram-glyph-group-open') });
+    await open.locator(`[data-special-id="${ids[1]}"]`).click();
+    const sp = fixture.bifurcations.find((b) => b.id === ids[1])!;
+    expect(await p.getByTestId('special-p').first().textContent()).toBe(formatValue(sp.p, 10));
+    await p.keyboard.press('Escape');
+    await view.getByTestId('projection-select').selectOption('node:0');
   });
 
   it('the legend lists the glyphs of exactly the special-point types the diagram has', async (ctx) => {

@@ -19,7 +19,7 @@ import { splitAllRuns } from '../../src/lib/plot/runs';
 import { formatValue } from '../../src/lib/plot/ticks';
 import type { RegimeBand } from '../../src/lib/regimes/types';
 import { bandExitSummary } from '../../src/lib/regimes/band-exits';
-import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, shootBothThemes, signIn } from './browser.ts';
+import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, shootBothThemes, signIn, specialMarkCount } from './browser.ts';
 
 
 interface ApiResult { result: { diagram: Diagram; regimes: RegimeBand[] | { regimes?: RegimeBand[] } } }
@@ -98,8 +98,17 @@ describe('a seeded demo run page, as the demo modeler', () => {
     await openRun(page);
     const total = diagram.branches.reduce((s, b) => s + b.points.length, 0);
     expect(Number(await page.getByTestId('diagram-view').getAttribute('data-total-points'))).toBe(total);
-    expect(await page.locator('[data-testid=diagram-view] [data-special-id]').count()).toBe(diagram.bifurcations.length);
+    expect(await specialMarkCount(page)).toBe(diagram.bifurcations.length);
     expect(Number(await page.getByTestId('run-diagram').getAttribute('data-branches'))).toBe(diagram.branches.length);
+  }, 60_000);
+
+  it('ships the diagram as a separate JSON fetch: the page HTML holds no branch data', async () => {
+    const html = await (await page.request.get(`${BASE_URL}/runs/${runId}`)).text();
+    expect(html).not.toContain('&quot;branches&quot;');
+    expect(html).not.toContain('"branches"');
+    expect(html.length).toBeLessThan(200_000);
+    // ... while the drawn diagram is the full result's (the test above counts every stored point).
+    expect(await page.locator('[data-testid=diagram-view]').count()).toBe(1);
   }, 60_000);
 
   it('Zoom in and the wheel narrow the parameter axis, its tick labels follow, Reset view restores them', async () => {
@@ -202,6 +211,74 @@ describe('a seeded demo run page, as the demo modeler', () => {
     await openRun(page);
     expect(await page.getByTestId('tag-layer-item').count()).toBe(layerBefore + 1);
     expect(await page.locator('[data-testid=tag-layer-item] text').allTextContents()).toContain(tagName);
+  }, 60_000);
+
+  it('the escape graph opens full size: every state and saddle drawn, clickable with their values, Escape closes it', async () => {
+    const graphs = ((await (await page.request.get(`${BASE_URL}/api/runs/${runId}/result`)).json()) as { result: { regimes: { escapeGraphs?: { p: number; states: { x: number[] }[]; saddles: { x: number[] }[] }[] } } }).result.regimes.escapeGraphs ?? [];
+    await openRun(page);
+    await page.getByTestId('band-ribbon').first().click();
+    const panel = page.getByTestId('side-panel');
+    const graph = graphs.find((g) => g.p >= regimes[0].from && g.p <= regimes[0].to)!;
+    expect(graph, 'an escape graph stored for the first band').toBeTruthy();
+    await panel.getByTestId('escape-graph-open').click();
+    const dialog = page.getByTestId('escape-graph-dialog');
+    await expect.poll(() => dialog.isVisible()).toBe(true);
+    const full = dialog.getByTestId('escape-graph-full');
+    expect(await full.locator('[data-state]').count()).toBe(graph.states.length);
+    expect(await full.locator('[data-saddle]').count()).toBe(graph.saddles.length);
+    // Patterns readable: the state boxes are at least 15 px glyphs, wider than the thumbnail's circles.
+    const box = await full.locator('[data-state] rect').first().boundingBox();
+    expect(box!.width).toBeGreaterThan(60);
+    // A state by click: its values per node, as stored.
+    await full.locator('[data-state="0"]').click();
+    const detail = dialog.getByTestId('escape-graph-detail');
+    expect(await detail.locator('h4').textContent()).toMatch(/^Stable state: /);
+    const cells = await detail.locator('td.num').allTextContents();
+    expect(cells.map(Number)).toEqual(graph.states[0].x.map((v) => Number(formatValue(v, 10))));
+    // A saddle by keyboard: Tab to it and Enter.
+    await full.locator('[data-saddle="0"]').focus();
+    await page.keyboard.press('Enter');
+    expect(await detail.locator('h4').textContent()).toMatch(/^Saddle: between /);
+    expect((await detail.locator('td.num').allTextContents()).map(Number)).toEqual(graph.saddles[0].x.map((v) => Number(formatValue(v, 10))));
+    await shootBothThemes(page, 'run-diagram-escape-graph-full');
+    await page.keyboard.press('Escape');
+    await expect.poll(() => dialog.count()).toBe(0);
+    // The panel stays open with its thumbnail.
+    expect(await panel.getByTestId('escape-graph').count()).toBe(1);
+  }, 60_000);
+
+  it('lists the critical coupling per node, sortable, and colours the network by it', async () => {
+    const stored = ((await (await page.request.get(`${BASE_URL}/api/runs/${runId}/result`)).json()) as { result: { regimes: { onset?: { nodes: { id: string; status: string; critical: number | null; next: string[] | null }[] } } } }).result.regimes.onset;
+    expect(stored, 'the stored result holds the critical coupling per node').toBeTruthy();
+    await openRun(page);
+    const panel = page.getByTestId('onset-panel');
+    await panel.scrollIntoViewIfNeeded();
+    await hydrated(page);
+    const table = panel.getByTestId('onset-table');
+    const ids = () => table.locator('tbody tr').evaluateAll((rows) => rows.map((r) => (r as HTMLElement).dataset.node));
+    const withFold = stored!.nodes.filter((n) => n.status === 'fold').sort((a, b) => a.critical! - b.critical!);
+    expect(withFold.length).toBeGreaterThan(0);
+    // Default order: smallest critical coupling first, as stored, printed to 8 significant digits.
+    expect((await ids()).slice(0, withFold.length)).toEqual(withFold.map((n) => n.id));
+    for (const n of withFold) {
+      expect(await table.locator(`tr[data-node="${n.id}"] td.num`).textContent()).toBe(formatValue(n.critical!, 8));
+      const next = await table.locator(`tr[data-node="${n.id}"] td`).nth(1).textContent();
+      expect(next).toBe(n.next === null ? 'not resolved' : n.next.length === 0 ? 'none: it falls back or stays alone' : n.next.join(', '));
+    }
+    await panel.getByTestId('onset-sort-critical').click();
+    expect((await ids()).slice(0, withFold.length)).toEqual([...withFold].reverse().map((n) => n.id));
+    await panel.getByTestId('onset-sort-node').click();
+    expect(await ids()).toEqual(stored!.nodes.map((n) => n.id));
+    // The drawing: one node per network node, the lowest critical coupling the darkest fill.
+    const fills = await panel.getByTestId('onset-network').locator('g[data-node] circle').evaluateAll((cs) => cs.map((c) => c.getAttribute('fill')));
+    expect(fills.length).toBe(stored!.nodes.length);
+    const lum = (hex: string) => { const v = [1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16)); return 0.2126 * v[0] + 0.7152 * v[1] + 0.0722 * v[2]; };
+    if (withFold.length > 1) {
+      const fillOf = (id: string) => fills[stored!.nodes.findIndex((n) => n.id === id)]!;
+      expect(lum(fillOf(withFold[0].id))).toBeLessThan(lum(fillOf(withFold[withFold.length - 1].id)));
+    }
+    await panel.screenshot({ path: screenshotPath('run-onset-panel-light') });
+    await shootBothThemes(page, 'run-onset');
   }, 60_000);
 
   it('the SVG export parses and holds one path per stable or unstable run of every branch; the CSV export matches result.csv row by row', async () => {

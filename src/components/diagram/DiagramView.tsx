@@ -14,6 +14,7 @@ import { INDICATIVE_NOTE } from '../../lib/plot/provenance';
 import { splitRuns, type BranchRun } from '../../lib/plot/runs';
 import { labelWidth, stackRows } from '../../lib/plot/stack-rows';
 import { decimateByPixel } from '../../lib/plot/thin';
+import { clusterGlyphs, fanOut } from '../../lib/plot/glyph-clusters';
 import { formatValue, integerTicks, linearAxis } from '../../lib/plot/ticks';
 import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
 import { locatedBandEdges, unlabelledInRun } from '../../lib/regimes/band-edge';
@@ -243,7 +244,7 @@ export function DiagramView(props: DiagramViewProps) {
       case 'ArrowLeft': if (t === overlayRef.current) panBy(step, 0); else return; break;
       case 'ArrowRight': if (t === overlayRef.current) panBy(-step, 0); else return; break;
       case '0': resetView(); break;
-      case 'Escape': setSelection(null); break;
+      case 'Escape': setSelection(null); setExpandedGroup(null); break;
       default: return;
     }
     ev.preventDefault();
@@ -253,6 +254,29 @@ export function DiagramView(props: DiagramViewProps) {
     .map((sp) => ({ sp, cx: xs(sp.p), cy: ys(project(sp.x, projection)) }))
     .filter(({ cx, cy }) => cx >= -MARKER_R && cx <= plotW + MARKER_R && cy >= -MARKER_R && cy <= plotH + MARKER_R);
 
+  // Glyphs closer than 1.6 marker radii would be drawn over each other: one mark with a count instead,
+  // fanned out on click (glyph-clusters.ts). A zoom or pan folds an open group again.
+  const glyphById = new Map(specialsInView.map((g) => [g.sp.id, g]));
+  const glyphGroups = clusterGlyphs(specialsInView.map((g) => ({ id: g.sp.id, cx: g.cx, cy: g.cy })), 1.6 * MARKER_R)
+    .map((c) => ({ cx: c.cx, cy: c.cy, members: c.ids.map((id) => glyphById.get(id)!) }));
+  const [expandedGroup, setExpandedGroup] = useState<string | null>(null);
+  useEffect(() => setExpandedGroup(null), [transform, projection]);
+  const renderGlyph = (sp: SpecialPoint, cx: number, cy: number) => {
+    const selected = selection?.kind === 'special' && selection.id === sp.id;
+    return (
+      <g key={sp.id} className={`dg-focusable dg-special dg-special-${sp.type}${selected ? ' is-selected' : ''}`} transform={`translate(${cx},${cy})`}
+        role="button" tabIndex={0} data-special-id={sp.id} data-type={sp.type}
+        aria-label={`${SPECIAL_LABEL[sp.type]} at ${diagram.parameter} = ${formatValue(sp.p)}, ${yLabel} ${formatValue(project(sp.x, projection))}. Open details.`}
+        onFocus={() => setFocusId(sp.id)} onBlur={() => setFocusId((f) => (f === sp.id ? null : f))}
+        onClick={(e) => { e.stopPropagation(); openSpecial(sp); }} onKeyDown={(e) => keyOpen(e, () => openSpecial(sp))}>
+        <title>{`${SPECIAL_LABEL[sp.type]} at ${formatValue(sp.p)}`}</title>
+        <circle className="dg-hit" r={MARKER_R + 4} />
+        {/* A dashed rounded square, so the focus mark cannot be read as the Hopf ring. */}
+        {focusId === sp.id || selected ? <rect className="dg-focus-ring" x={-MARKER_R - 5} y={-MARKER_R - 5} width={2 * MARKER_R + 10} height={2 * MARKER_R + 10} rx={3} /> : null}
+        <path d={markerPath(sp.type, 0, 0, MARKER_R)} fillRule={markerFillRule(sp.type)} className="dg-glyph" />
+      </g>
+    );
+  };
   const openSpecial = (sp: SpecialPoint) => setSelection({ kind: 'special', id: sp.id });
   const openSpecialById = useCallback((id: string) => setSelection({ kind: 'special', id }), []);
   const keyOpen = (ev: React.KeyboardEvent, open: () => void) => {
@@ -433,19 +457,33 @@ export function DiagramView(props: DiagramViewProps) {
               })() : null}
               {/* Special points. */}
               <g clipPath={`url(#${clipId}-o)`}>
-                {specialsInView.map(({ sp, cx, cy }) => {
-                  const selected = selection?.kind === 'special' && selection.id === sp.id;
+                {glyphGroups.map((group) => {
+                  if (group.members.length === 1) return renderGlyph(group.members[0].sp, group.members[0].cx, group.members[0].cy);
+                  const key = group.members[0].sp.id;
+                  const open = expandedGroup === key;
+                  const types = [...new Set(group.members.map((m) => SPECIAL_LABEL[m.sp.type].toLowerCase()))].join(', ');
+                  const ps = group.members.map((m) => m.sp.p);
+                  const at = Math.min(...ps) === Math.max(...ps) ? formatValue(ps[0]) : `${formatValue(Math.min(...ps))} to ${formatValue(Math.max(...ps))}`;
+                  if (!open) {
+                    return (
+                      <g key={`group-${key}`} className="dg-focusable dg-glyph-group" transform={`translate(${group.cx},${group.cy})`} role="button" tabIndex={0}
+                        data-testid="glyph-group" data-group-ids={group.members.map((m) => m.sp.id).join(' ')}
+                        aria-label={`${group.members.length} special points (${types}) at ${diagram.parameter} = ${at}, drawn as one mark. Spread them out.`}
+                        onClick={(e) => { e.stopPropagation(); setExpandedGroup(key); }} onKeyDown={(e) => keyOpen(e, () => setExpandedGroup(key))}>
+                        <title>{`${group.members.length} special points at ${at}: ${types}. Click to spread them out.`}</title>
+                        <circle className="dg-hit" r={MARKER_R + 6} />
+                        <circle className="dg-group-disc" r={MARKER_R + 3} />
+                        <text className="dg-group-count" dy="0.35em" textAnchor="middle">{group.members.length}</text>
+                      </g>
+                    );
+                  }
+                  const spots = fanOut(group.cx, group.cy, group.members.length, 2 * MARKER_R + 8, 2 * MARKER_R + 6);
                   return (
-                    <g key={sp.id} className={`dg-focusable dg-special dg-special-${sp.type}${selected ? ' is-selected' : ''}`} transform={`translate(${cx},${cy})`}
-                      role="button" tabIndex={0} data-special-id={sp.id} data-type={sp.type}
-                      aria-label={`${SPECIAL_LABEL[sp.type]} at ${diagram.parameter} = ${formatValue(sp.p)}, ${yLabel} ${formatValue(project(sp.x, projection))}. Open details.`}
-                      onFocus={() => setFocusId(sp.id)} onBlur={() => setFocusId((f) => (f === sp.id ? null : f))}
-                      onClick={(e) => { e.stopPropagation(); openSpecial(sp); }} onKeyDown={(e) => keyOpen(e, () => openSpecial(sp))}>
-                      <title>{`${SPECIAL_LABEL[sp.type]} at ${formatValue(sp.p)}`}</title>
-                      <circle className="dg-hit" r={MARKER_R + 4} />
-                      {/* A dashed rounded square, so the focus mark cannot be read as the Hopf ring. */}
-                      {focusId === sp.id || selected ? <rect className="dg-focus-ring" x={-MARKER_R - 5} y={-MARKER_R - 5} width={2 * MARKER_R + 10} height={2 * MARKER_R + 10} rx={3} /> : null}
-                      <path d={markerPath(sp.type, 0, 0, MARKER_R)} fillRule={markerFillRule(sp.type)} className="dg-glyph" />
+                    <g key={`group-${key}`} data-testid="glyph-group-open" data-group-ids={group.members.map((m) => m.sp.id).join(' ')}>
+                      <circle className="dg-group-centre" cx={group.cx} cy={group.cy} r={3}
+                        onClick={(e) => { e.stopPropagation(); setExpandedGroup(null); }} />
+                      {spots.map((q, k) => <line key={k} className="dg-group-leader" x1={group.cx} y1={group.cy} x2={q.x} y2={q.y} />)}
+                      {group.members.map((m, k) => renderGlyph(m.sp, spots[k].x, spots[k].y))}
                     </g>
                   );
                 })}

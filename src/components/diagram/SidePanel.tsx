@@ -59,7 +59,7 @@ function edgeDetail(bound: string | undefined): string {
   if (kind === 'special point') return `: ${bound}`;
   return bound.slice(bound.indexOf(':'));
 }
-import { EscapeGraphDrawing } from './EscapeGraphDrawing';
+import { EscapeGraphDialog, EscapeGraphDrawing } from './EscapeGraphDrawing';
 import type { Selection } from './types';
 
 interface Props {
@@ -151,9 +151,11 @@ function TagForm({ band, onAddTag }: { band: Pick<RegimeBand, 'from' | 'to'>; on
 
 export function SidePanel({ diagram, projection, selection, regimes, unlabelled = [], escapeGraphs, canTag, onAddTag, onClose }: Props) {
   const headRef = useRef<HTMLHeadingElement>(null);
+  const [fullGraph, setFullGraph] = useState<EscapeGraph | null>(null);
   useEffect(() => { if (selection) headRef.current?.focus(); }, [selection]);
   const close = <button type="button" className="dg-close" onClick={onClose} aria-label="Close details">Close</button>;
-  const onKey = (e: React.KeyboardEvent) => { if (e.key === 'Escape') { e.stopPropagation(); onClose(); } };
+  // Escape inside the full-size dialog closes the dialog only (the browser does that), not the panel.
+  const onKey = (e: React.KeyboardEvent) => { if (e.key === 'Escape' && !fullGraph) { e.stopPropagation(); onClose(); } };
 
   let body: React.ReactNode;
   if (!selection) {
@@ -235,10 +237,20 @@ export function SidePanel({ diagram, projection, selection, regimes, unlabelled 
         </dl>
         <BandReason band={band} names={diagram.variables} parameter={diagram.parameter} />
         <h4>Escape graph{graph ? ` at ${diagram.parameter} = ${formatValue(graph.p)}` : ''}</h4>
-        {graph ? <EscapeGraphDrawing graph={graph} names={diagram.variables} /> : <p className="dg-muted">No escape graph was stored for this band.</p>}
+        {graph ? (
+          <>
+            <EscapeGraphDrawing graph={graph} names={diagram.variables} />
+            <button type="button" className="dg-open-full" onClick={() => setFullGraph(graph)} data-testid="escape-graph-open">Open full size</button>
+          </>
+        ) : <p className="dg-muted">No escape graph was stored for this band.</p>}
         {canTag ? <TagForm key={selection.index} band={band} onAddTag={onAddTag} /> : null}
       </>
     ) : null;
   }
-  return <aside className="dg-side" aria-label="Details of the selection" data-testid="side-panel" onKeyDown={onKey}>{body}</aside>;
+  return (
+    <aside className="dg-side" aria-label="Details of the selection" data-testid="side-panel" onKeyDown={onKey}>
+      {body}
+      {fullGraph ? <EscapeGraphDialog graph={fullGraph} names={diagram.variables} parameter={diagram.parameter} onClose={() => setFullGraph(null)} /> : null}
+    </aside>
+  );
 }

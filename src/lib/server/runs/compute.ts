@@ -6,6 +6,7 @@
 import { compileModelJson } from '../../model/index.ts';
 import { traceDiagram } from '../../atlas/index.ts';
 import { labelRegimes } from '../../regimes/index.ts';
+import { criticalCoupling, OnsetInputError, type CriticalCouplingResult } from '../../onset/index.ts';
 import type { Diagram } from '../../atlas/types.ts';
 import type { RunSettings } from './schemas.ts';
 import { thinDiagram } from '../results/thin.ts';
@@ -30,8 +31,9 @@ export interface ComputeOutput {
   readonly cancelled: boolean;
 }
 
-/** Share of the progress bar given to tracing; the rest is regime labelling. */
+/** Share of the progress bar given to tracing; then regime labelling, then the critical coupling per node. */
 const TRACE_SHARE = 0.8;
+const ONSET_AT = 0.95;
 
 export function computeTrace(documentText: string, settings: RunSettings, hooks: ComputeHooks): ComputeOutput {
   const started = performance.now();
@@ -41,11 +43,24 @@ export function computeTrace(documentText: string, settings: RunSettings, hooks:
     onProgress: (f: number, phrase: string) => hooks.onProgress(TRACE_SHARE * Math.min(1, Math.max(0, f)), phrase),
     isCancelled: () => hooks.isCancelled(),
   });
-  let regimes: unknown = { regimes: [], escapeGraphs: [], diagnostics: [] };
+  let regimes: object = { regimes: [], escapeGraphs: [], diagnostics: [] };
   if (!hooks.isCancelled()) {
     hooks.onProgress(TRACE_SHARE, 'labelling coupling regimes');
     regimes = labelRegimes(system, diagram);
   }
+  // Critical coupling per node (docs/onset.md): n fold continuations, stored beside the bands for the
+  // run page's table and network colouring. Only for networks swept over their coupling.
+  let onset: CriticalCouplingResult | null = null;
+  if (!hooks.isCancelled() && system.network?.sweepIsCoupling) {
+    hooks.onProgress(ONSET_AT, 'critical coupling per node');
+    try {
+      const num = (v: unknown) => (typeof v === 'number' && Number.isFinite(v) ? v : undefined);
+      onset = criticalCoupling(system, { from: num(diagram.settings?.from), to: num(diagram.settings?.to) }, { isCancelled: () => hooks.isCancelled() });
+    } catch (e) {
+      if (!(e instanceof OnsetInputError)) throw e;
+    }
+  }
+  if (onset) regimes = { ...regimes, onset };
   const pointCount = diagram.branches.reduce((n, b) => n + b.points.length, 0);
   hooks.onProgress(1, 'storing the result');
   const diagramJson = JSON.stringify(diagram);
