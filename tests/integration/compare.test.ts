@@ -88,7 +88,7 @@ describe('GET /api/compare', () => {
   const bad: { title: string; query: () => string; field: string; message: RegExp }[] = [
     { title: 'no runs', query: () => '', field: 'runs', message: /runs: choose two to four/ },
     { title: 'one run', query: () => `runs=${runA1}`, field: 'runs', message: /at least two different runs/ },
-    { title: 'the same run twice', query: () => `runs=${runA1},${runA1}`, field: 'runs', message: /at least two different runs \(got 1\)/ },
+    { title: 'the same run twice', query: () => `runs=${runA1},${runA1}`, field: 'runs', message: /at least two different runs to compare \(got 1\)/ },
     { title: 'five runs', query: () => `runs=1,2,3,4,5`, field: 'runs', message: /at most 4 runs/ },
     { title: 'a word for an id', query: () => `runs=${runA1},two`, field: 'runs', message: /run ids separated by commas/ },
     { title: 'a budget below 100', query: () => `runs=${runA1},${runA2}&points=5`, field: 'points', message: /points: at least 100/ },

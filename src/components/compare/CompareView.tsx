@@ -63,12 +63,13 @@ function Panel({ items, indices, projection, transform, onZoom, width, height, o
 }) {
   const ref = useRef<SVGSVGElement>(null);
   const plotW = Math.max(80, width - M.left - M.right), plotH = height - M.top - M.bottom;
+  // One vertical range for every panel (the run page's 6 % margins), so stacked panels read alike.
   const yExt = useMemo(() => {
     let lo = Infinity, hi = -Infinity;
-    for (const i of indices) { const e = diagramExtent(items[i].diagram, projection).y; lo = Math.min(lo, e[0]); hi = Math.max(hi, e[1]); }
+    for (const it of items) { const e = diagramExtent(it.diagram, projection).y; lo = Math.min(lo, e[0]); hi = Math.max(hi, e[1]); }
     const s = (hi - lo) || 1;
     return [lo - 0.06 * s, hi + 0.06 * s] as [number, number];
-  }, [items, indices, projection]);
+  }, [items, projection]);
   const base = useMemo(() => scaleLinear().domain(pExtent).range([0, plotW]), [pExtent, plotW]);
   const xs = transform.rescaleX(base);
   const ys = scaleLinear().domain(yExt).range([plotH, 0]);

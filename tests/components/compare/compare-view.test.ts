@@ -56,6 +56,20 @@ describe('CompareView', () => {
     expect(four).toContain('height="340" class="dg-compare-panel"');
   });
 
+  it('gives every stacked panel the same vertical range, so one state sits at one height in each', () => {
+    const threeA = { ...three.diagram, branches: three.diagram.branches.map((b) => ({ ...b, points: b.points.map((pt) => ({ ...pt, x: pt.x.map((v) => v * 2) })) })) };
+    const html = render([
+      { label: 'A', shortLabel: 'a', diagram: three.diagram },
+      { label: 'B', shortLabel: 'b', diagram: threeA },
+    ]);
+    const panels = html.split('class="dg-compare-panel"').slice(1);
+    expect(panels).toHaveLength(2);
+    // The y axis is the second axis group; its tick labels.
+    const yTicks = (svg: string) => [...svg.split('class="dg-axis"')[2].matchAll(/<text[^>]*text-anchor="end">([^<]+)<\/text>/g)].map((m) => m[1]);
+    expect(yTicks(panels[0]).length).toBeGreaterThan(2);
+    expect(yTicks(panels[0])).toEqual(yTicks(panels[1]));
+  });
+
   it('strokes overlaid branches in the overlay identities, never in the stable or unstable colour', () => {
     const html = render(twoLakeItems, 'overlay');
     const strokes = [...html.matchAll(/<path d="[^"]*" fill="none" data-diagram="(\d)"[^>]*stroke="([^"]+)"/g)];
