@@ -151,8 +151,17 @@ function rowDetail(r: AlignedRow, shorts: readonly string[], names: readonly str
   return r.states.map((x, i) => `${shorts[i]}: ${x ? `${stateText(x, names)}${i > 0 && r.distances?.[i] != null ? ` (scaled distance ${formatValue(r.distances[i]!, 2)})` : ''}` : 'no counterpart'}`).join('\n');
 }
 
+const APART_TITLE = 'How far apart the matched points sit: the largest scaled distance in parameter and state from the row\'s first point (0 = the same place; 1 = the whole range; points more than 0.35 apart are never matched)';
+
+/** The row's largest scaled distance, two decimals; a dash for a point without counterparts. */
+function apart(r: AlignedRow): string {
+  const d = (r.distances ?? []).filter((v): v is number => v != null);
+  return d.length < 2 ? '—' : Math.max(...d).toFixed(2);
+}
+
 function AlignedTable({ caption, rows, labels, shorts, names, testId }: { caption: string; rows: AlignedRow[]; labels: string[]; shorts: string[]; names: readonly string[]; testId: string }) {
   if (!rows.length) return null;
+  const withApart = rows.some((r) => r.distances);
   return (
     <table data-testid={testId}>
       <caption>{caption}</caption>
@@ -160,6 +169,7 @@ function AlignedTable({ caption, rows, labels, shorts, names, testId }: { captio
         <th scope="col">Matched</th>
         {labels.map((l, i) => <th key={i} scope="col" data-full-name={l}><abbr title={l}>{shorts[i]}</abbr></th>)}
         {labels.slice(1).map((l, i) => <th key={`d${i}`} scope="col"><abbr title={`${l} minus ${labels[0]}`}>Δ {shorts[i + 1]} − {shorts[0]}</abbr></th>)}
+        {withApart ? <th scope="col"><abbr title={APART_TITLE}>Apart</abbr></th> : null}
       </tr></thead>
       <tbody>
         {rows.map((r, k) => (
@@ -167,6 +177,7 @@ function AlignedTable({ caption, rows, labels, shorts, names, testId }: { captio
             <th scope="row" title={rowDetail(r, shorts, names)}>{r.label}</th>
             {r.values.map((v, i) => <td key={i} className="num">{v == null ? <em>none</em> : formatValue(v, 8)}</td>)}
             {r.deltas.slice(1).map((d, i) => <td key={`d${i}`} className="num">{d == null ? '—' : d === 0 ? '0' : (d > 0 ? '+' : '') + formatValue(d, 4)}</td>)}
+            {withApart ? <td className="num" data-apart="">{apart(r)}</td> : null}
           </tr>
         ))}
       </tbody>

@@ -88,6 +88,27 @@ describe('CompareView', () => {
   });
 });
 
+describe('CompareView, how far apart matched points are', () => {
+  it('shows each special-point row\'s largest scaled distance in an "Apart" column, a dash for a lone point, none for band edges', () => {
+    const html = render(twoLakeItems);
+    const rows = alignSpecialPoints(twoLakeItems.map((i) => i.diagram));
+    const cells = [...html.matchAll(/<td class="num" data-apart="">([^<]+)<\/td>/g)].map((m) => m[1]);
+    expect(cells).toEqual(rows.map((r) => {
+      const d = r.distances!.filter((v): v is number => v != null);
+      return d.length < 2 ? '—' : Math.max(...d).toFixed(2);
+    }));
+    expect(html).toContain('<abbr title="How far apart the matched points sit');
+    const withBands = render(twoLakeItems.map((it, k) => ({ ...it, regimes: [
+      { from: 0, to: 0.1 + k * 0.01, regime: 'weak', bounds: [], reason: '' },
+      { from: 0.1 + k * 0.01, to: 1, regime: 'strong', bounds: [], reason: '' },
+    ] as RegimeBand[] })));
+    const at = withBands.indexOf('data-testid="compare-band-table"');
+    expect(at).toBeGreaterThan(0);
+    expect(withBands.slice(at)).toContain('weak → strong');
+    expect(withBands.slice(at)).not.toContain('data-apart');
+  });
+});
+
 describe('CompareLoader', () => {
   const ok = (body: unknown) => new Response(JSON.stringify(body), { status: 200, headers: { 'Content-Type': 'application/json' } });
 
