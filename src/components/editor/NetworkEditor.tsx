@@ -60,8 +60,9 @@ export function NetworkEditor({ state, setState, issues, announce }: Props) {
               const mine = issuesAt(issues, path).concat(issuesAt(issues, `nodes[${i}]`));
               return (
                 <li key={i}>
-                  <label className="ed-sr" htmlFor={fieldDomId(path)}>
-                    Node {i + 1} id
+                  {/* Visible, so "Node 2 id" in a message is a label the modeler can see. */}
+                  <label className="ed-node-label" htmlFor={fieldDomId(path)}>
+                    Node {i + 1}<span className="ed-sr"> id</span>
                   </label>
                   <input
                     id={fieldDomId(path)}
@@ -99,6 +100,7 @@ export function NetworkEditor({ state, setState, issues, announce }: Props) {
       <table className="ed-table" aria-label="Links">
         <thead>
           <tr>
+            <th scope="col"><span className="ed-sr">Link</span></th>
             <th scope="col">From</th>
             <th scope="col">To</th>
             <th scope="col">Weight</th>
@@ -109,13 +111,14 @@ export function NetworkEditor({ state, setState, issues, announce }: Props) {
         <tbody>
           {state.links.length === 0 ? (
             <tr>
-              <td colSpan={5} className="ed-hint">No links yet: add one here, in the matrix below, or upload a CSV.</td>
+              <td colSpan={6} className="ed-hint">No links yet: add one here, in the matrix below, or upload a CSV.</td>
             </tr>
           ) : null}
           {state.links.map((l, k) => {
             const rowIssues = issuesAt(issues, `links[${k}]`).concat(issuesAt(issues, `links[${k}].from`), issuesAt(issues, `links[${k}].to`));
             return (
               <tr key={k} className={rowIssues.length ? 'ed-row-invalid' : undefined}>
+                <th scope="row" className="ed-link-label">Link {k + 1}</th>
                 <td>
                   <select aria-label={`Link ${k + 1} from`} className="ed-input" value={l.from} onChange={(e) => updateLink(k, { from: e.target.value })} id={fieldDomId(`links[${k}].from`)}>
                     {!ids.includes(l.from) ? <option value={l.from}>{l.from || '(none)'}</option> : null}

@@ -1,5 +1,5 @@
 import { useEffect, useState } from 'react';
-import { describeDiffEntry, diffJson, type LabelContext } from '../../lib/editor';
+import { describeDiffEntry, diffModelDocuments, type LabelContext } from '../../lib/editor';
 import { api, type VersionSummary } from './api-client';
 
 /**
@@ -37,7 +37,7 @@ export function VersionHistory({ modelId, refreshKey, onLoad }: { modelId: strin
       const parse = (d: unknown) => (typeof d === 'string' ? JSON.parse(d) : d);
       const before = parse(ra.data.version.document) as LabelContext;
       const after = parse(rb.data.version.document) as LabelContext;
-      setDiff(diffJson(before, after).map((e) => describeDiffEntry(e, before, after)));
+      setDiff(diffModelDocuments(before, after).map((e) => describeDiffEntry(e, before, after)));
     });
     return () => { live = false; };
   }, [modelId, pair?.a, pair?.b]);

@@ -101,8 +101,18 @@ export function parseAdjacencyCsv(text: string): CsvParse {
       }
     }
   }
-  for (const id of column.keys()) {
-    if (!seen.has(id)) issues.push({ row: rows.length, message: `node "${id}" is in the header but has no row` });
+  // A node without a row is pointed at in the header, where its id is: the last row of the file is
+  // some other node's. When exactly one row names an id the header lacks and exactly one header id
+  // has no row, that row is most likely the missing one misspelt, and the message says so.
+  const rowless = [...column.keys()].filter((id) => !seen.has(id));
+  const strays = issues.filter((i) => i.column === 1 && i.message.endsWith('is not in the header row'));
+  if (rowless.length === 1 && strays.length === 1) {
+    strays[0].message += ` (is it "${rowless[0]}", which has no row?)`;
   }
+  for (const id of rowless) {
+    issues.push({ row: 1, column: column.get(id)! + 2, message: `node "${id}" is in the header but has no row` });
+  }
+  // In the order a modeler reads the file: by row, then by column.
+  issues.sort((a, b) => a.row - b.row || (a.column ?? 0) - (b.column ?? 0));
   return issues.length > 0 ? { ok: false, issues } : { ok: true, nodeIds: ids, matrix };
 }

@@ -18,6 +18,8 @@ const FIXED: Record<string, string> = {
   changeNote: 'Change note',
   '(document)': 'Model',
   '(body)': 'Model',
+  file: 'File',
+  'content-type': 'File type',
   format: 'Format',
   element: 'Element',
   'element.variable': 'State variable',
@@ -49,7 +51,8 @@ const LINK_FIELDS: Record<string, string> = { from: 'from', to: 'to', weight: 'w
  * by what they connect instead of their row number: "Node alder", "Link alder → birch weight".
  */
 export function fieldLabel(path: string, context: LabelContext = {}, options: { byName?: boolean } = {}): string {
-  const p = path.replace(/^document\./, '').replace(/\.(\d+)(?=\.|\[|$)/g, '[$1]');
+  // "document." is how the service prefixes a document inside a body, "file." an uploaded one.
+  const p = path.replace(/^(?:document|file)\./, '').replace(/\.(\d+)(?=\.|\[|$)/g, '[$1]');
   if (FIXED[p]) return FIXED[p];
   let m = /^element\.parameters\[(\d+)\]$/.exec(p);
   if (m) return `Parameter ${Number(m[1]) + 1} name`;
@@ -90,7 +93,8 @@ export function fieldLabel(path: string, context: LabelContext = {}, options: { 
 export function plainMessage(message: string, path?: string): string {
   let m = message;
   if (path) {
-    const variants = new Set([path, path.replace(/\[(\d+)\]/g, '.$1'), `document.${path.replace(/\[(\d+)\]/g, '.$1')}`]);
+    const dotted = path.replace(/\[(\d+)\]/g, '.$1');
+    const variants = new Set([path, dotted, `document.${dotted}`, `file.${dotted}`, `file.${path}`]);
     for (let again = true; again; ) {
       again = false;
       for (const v of variants) {
@@ -124,7 +128,32 @@ const show = (v: unknown): string => (typeof v === 'string' ? JSON.stringify(v) 
  */
 export function describeDiffEntry(e: DiffEntry, before: LabelContext, after: LabelContext): string {
   const label = fieldLabel(e.path, e.kind === 'removed' ? before : after, { byName: true });
+  if (/^links\[\d+\]\.twoWay$/.test(e.path)) {
+    // "two-way: added true" says less than the change itself.
+    const link = fieldLabel(e.path.replace(/\.twoWay$/, ''), after, { byName: true });
+    return `${link}: ${e.kind !== 'removed' && e.after === true ? 'now two-way' : 'now one-way'}`;
+  }
   if (e.kind === 'changed') return `${label}: ${show(e.before)} → ${show(e.after)}`;
+  // A whole node or link: its label already says which, so only what it carries is added.
+  const whole = /^(nodes|links)\[\d+\]$/.exec(e.path);
+  if (whole) {
+    const item = (e.kind === 'added' ? e.after : e.before) as Record<string, unknown> | undefined;
+    const what = whole[1] === 'links' ? linkDetails(item) : nodeDetails(item);
+    return e.kind === 'added' ? `${label}: added${what ? `, ${what}` : ''}` : `${label}: removed${what ? ` (was ${what})` : ''}`;
+  }
   if (e.kind === 'added') return `${label}: added ${show(e.after)}`;
   return `${label}: removed (was ${show(e.before)})`;
+}
+
+/** "weight 0.3, two-way" for a link added or removed in the history. */
+function linkDetails(l: Record<string, unknown> | undefined): string {
+  if (!l || typeof l !== 'object') return '';
+  return [l.weight !== undefined ? `weight ${show(l.weight)}` : '', l.twoWay === true ? 'two-way' : ''].filter(Boolean).join(', ');
+}
+
+/** "b = 0.55" for a node's own parameter values. */
+function nodeDetails(n: Record<string, unknown> | undefined): string {
+  const p = n && typeof n === 'object' ? n.parameters : undefined;
+  if (!p || typeof p !== 'object') return '';
+  return Object.entries(p as Record<string, unknown>).map(([k, v]) => `${k} = ${show(v)}`).join(', ');
 }

@@ -27,7 +27,7 @@ describe('parseAdjacencyCsv', () => {
     if (!r.ok) {
       const text = r.issues.map(describeCsvIssue);
       expect(text).toContain('row 2: has 3 cells but the header has 4');
-      expect(text).toContain('row 3, column A: node "zz" is not in the header row');
+      expect(text).toContain('row 3, column A: node "zz" is not in the header row (is it "c", which has no row?)');
       // Row 2 is a's row, only with too few cells: a has a row, c has none.
       expect(text.some((t) => t.includes('node "a" is in the header but has no row'))).toBe(false);
       expect(text.some((t) => t.includes('node "c" is in the header but has no row'))).toBe(true);
@@ -78,5 +78,35 @@ describe('parseAdjacencyCsv', () => {
     expect(!r.ok && describeCsvIssue(r.issues[0])).toBe('row 2: has 2 cells but the header has 3');
     const s = parseAdjacencyCsv(';a;b\na;0;1;2\nb;0;0\n');
     expect(!s.ok && describeCsvIssue(s.issues[0])).toBe('row 2: has 4 cells but the header has 3');
+  });
+});
+
+describe('parseAdjacencyCsv: the node that lacks a row', () => {
+  it('points at the header cell of the node without a row, not at the last row of the file', () => {
+    const r = parseAdjacencyCsv(',alder,birch,cedar\nalder,0,1,0\nbirch,0,0,1\n');
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.issues.map(describeCsvIssue)).toEqual(['row 1, column D: node "cedar" is in the header but has no row']);
+  });
+  it('a misspelt row id is named as the likely missing node', () => {
+    const r = parseAdjacencyCsv(',alder,birch\nalder,0,1\nbrich,0,0\n');
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.issues.map(describeCsvIssue)).toEqual([
+        'row 1, column C: node "birch" is in the header but has no row',
+        'row 3, column A: node "brich" is not in the header row (is it "birch", which has no row?)',
+      ]);
+    }
+  });
+  it('with two rowless nodes and one stray row no guess is made', () => {
+    const r = parseAdjacencyCsv(',a,b,c\na,0,0,0\nzz,0,0,0\n');
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      const text = r.issues.map(describeCsvIssue);
+      expect(text).toEqual([
+        'row 1, column C: node "b" is in the header but has no row',
+        'row 1, column D: node "c" is in the header but has no row',
+        'row 3, column A: node "zz" is not in the header row',
+      ]);
+    }
   });
 });

@@ -20,6 +20,9 @@ describe('fieldLabel(path, context)', () => {
     ['settings.to', 'Sweep to'],
     ['start[0]', 'Starting guess 1'],
     ['(document)', 'Model'],
+    ['file', 'File'],
+    ['file.name', 'Name'],
+    ['file.links.0.to', 'Link 1 to'],
   ])('fieldLabel(%j) is %j, the words on the screen', (path, label) => {
     expect(fieldLabel(path, doc)).toBe(label);
   });
@@ -37,6 +40,7 @@ describe('plainMessage(message, path)', () => {
   it('drops the doubled field prefix the API puts in front of its message', () => {
     expect(plainMessage('settings.to: settings.to: must differ from sweep.from', 'settings.to')).toBe('must differ from Sweep from');
     expect(plainMessage('document.nodes.0.id: must not be empty', 'nodes[0].id')).toBe('must not be empty');
+    expect(plainMessage('file.name: contains a lone UTF-16 surrogate', 'file.name')).toBe('contains a lone UTF-16 surrogate');
   });
   it('turns internal paths inside the text into labels', () => {
     expect(plainMessage("duplicate node id 'a' (also nodes[0])")).toBe("duplicate node id 'a' (also Node 1)");
@@ -56,6 +60,9 @@ describe('describeIssue(issue) and describeDiffEntry(entry)', () => {
     expect(describeDiffEntry({ path: 'links[0].weight', kind: 'changed', before: 0.25, after: 0.2 }, doc, doc)).toBe('Link alder → birch weight: 0.25 → 0.2');
     expect(describeDiffEntry({ path: 'nodes[1].parameters', kind: 'added', after: { b: 0.55 } }, doc, doc)).toBe('Node birch parameters: added {"b":0.55}');
     const before = { nodes: [...doc.nodes, { id: 'cedar' }] };
-    expect(describeDiffEntry({ path: 'nodes[2]', kind: 'removed', before: { id: 'cedar' } }, before, doc)).toBe('Node cedar: removed (was {"id":"cedar"})');
+    expect(describeDiffEntry({ path: 'nodes[2]', kind: 'removed', before: { id: 'cedar' } }, before, doc)).toBe('Node cedar: removed');
+    expect(describeDiffEntry({ path: 'nodes[2]', kind: 'removed', before: { id: 'cedar', parameters: { b: 0.55 } } }, before, doc)).toBe('Node cedar: removed (was b = 0.55)');
+    const withCedar = { links: [...doc.links, { from: 'alder', to: 'cedar' }] };
+    expect(describeDiffEntry({ path: 'links[2]', kind: 'added', after: { from: 'alder', to: 'cedar', weight: 0.3, twoWay: true } }, doc, withCedar)).toBe('Link alder → cedar: added, weight 0.3, two-way');
   });
 });
