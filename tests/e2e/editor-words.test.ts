@@ -94,6 +94,8 @@ describe('the editor speaks the modeler\'s words', () => {
     await expect.poll(() => summary.textContent(), { timeout: 10000 }).toContain('Node 2 id');
     const text = (await summary.textContent()) ?? '';
     expect(text).toContain('Node 1');
+    // The words of the message are on the screen: each node row and link row carries its number.
+    expect(await page.locator('.ed-node-label').allTextContents()).toEqual(['Node 1 id', 'Node 2 id']);
     expect(text).not.toMatch(/nodes\[|nodes\.\d|element\.|links\[/);
     await shootBothThemes(page, 'words-messages');
     await page.getByLabel('Node 2 id').fill('birch');
@@ -110,6 +112,7 @@ describe('the editor speaks the modeler\'s words', () => {
     });
     const positive = await look('alder->birch');
     const negative = await look('birch->alder');
+    expect(await page.locator('th.ed-link-label').allTextContents()).toEqual(['Link 1', 'Link 2']);
     expect(negative.classes).toContain('ed-link-negative');
     expect(positive.classes).not.toContain('ed-link-negative');
     expect(negative.width).toBeGreaterThan(positive.width);
@@ -129,10 +132,13 @@ describe('the editor speaks the modeler\'s words', () => {
     await csv.setInputFiles({ name: 'comma.csv', mimeType: 'text/csv', buffer: Buffer.from(',alder,birch,cedar\nalder,0,0,25,0\nbirch,0,0,0\n') });
     const problems = page.locator('#ed-csv-problems');
     await expect.poll(() => problems.textContent()).toContain('decimal commas (0,5)');
-    expect(await problems.textContent()).toContain('node "cedar" is in the header but has no row');
+    expect(await problems.textContent()).toContain('row 1, column D: node "cedar" is in the header but has no row');
     expect(await problems.textContent()).not.toContain('node "alder" is in the header but has no row');
     await csv.setInputFiles({ name: 'semi.csv', mimeType: 'text/csv', buffer: Buffer.from(';alder;birch\nalder;0;0,25\nbirch;-1;0\n') });
     await expect.poll(() => problems.textContent()).toContain('write it with a decimal point: 0.25');
+    // A misspelt row id is named as the node that lacks a row.
+    await csv.setInputFiles({ name: 'typo.csv', mimeType: 'text/csv', buffer: Buffer.from(',alder,birch\nalder,0,0.25\nbrich,0,0\n') });
+    await expect.poll(() => problems.textContent()).toContain('node "brich" is not in the header row (is it "birch", which has no row?)');
     await shootBothThemes(page, 'words-csv');
     // A CSV that loads is one undo step too.
     await csv.setInputFiles({ name: 'good.csv', mimeType: 'text/csv', buffer: Buffer.from(',alder,birch\nalder,0,0.25\nbirch,0,0\n') });
@@ -185,10 +191,61 @@ describe('the editor speaks the modeler\'s words', () => {
     const document = ((await latest.json()) as { version: { document: Record<string, unknown> } }).version.document;
     const file = { ...document, name: modelName, links: [{ from: 'alder', to: 'birch', weight: 0.2, twoWay: true }] };
     await page.getByLabel('Import from a file (model document, JSON)').setInputFiles({ name: 'twin.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(file)) });
-    await page.waitForURL(/\/models\/\d+$/, { timeout: 15000 });
+    await page.waitForURL(/\/models\/\d+\?renamedFrom=/, { timeout: 15000 });
     expect(await page.getByTestId('model-name').textContent()).toBe(`${modelName} (2)`);
+    expect(await page.getByTestId('renamed-notice').textContent()).toContain(`the workspace already has a model named “${modelName}”`);
     expect(await page.getByTestId('link-count').textContent()).toBe('2 directed links (1 two-way pair counted both ways)');
     await shootBothThemes(page, 'words-import');
+
+    // A refused file lists every problem by its screen label.
+    await page.goto(`${BASE_URL}/models`);
+    await hydrated(page);
+    const broken = { ...document, name: `Broken ${stamp}`, nodes: [{ id: 'alder' }, { id: 'alder' }], links: [{ from: 'alder', to: 'cedar', weight: 1 }] };
+    await page.getByLabel('Import from a file (model document, JSON)').setInputFiles({ name: 'broken.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(broken)) });
+    const refused = page.getByTestId('import-error');
+    await expect.poll(() => refused.textContent()).toContain("Node 2 id: duplicate node id 'alder' (also Node 1)");
+    expect(await refused.textContent()).toContain("Link 1 to: unknown node 'cedar'");
+    expect(await refused.textContent()).not.toMatch(/nodes\[|links\[|\(and 1 more problem\)/);
+    await shootBothThemes(page, 'words-import-refused');
     await context.close();
   }, 60_000);
+
+  it('a new model with a taken name is told before saving, saved as "name (3)", and can be renamed from the notice', async () => {
+    const { context, page } = await asModeler();
+    await page.goto(`${BASE_URL}/models/new`);
+    await hydrated(page);
+    await page.getByLabel('Name', { exact: true }).fill(modelName.toUpperCase());
+    const taken = page.getByTestId('name-taken');
+    await expect.poll(() => taken.textContent(), { timeout: 10000 }).toContain(`it will be saved as “${modelName.toUpperCase()} (3)”`);
+    expect(await taken.textContent()).toContain(`already has a model named “${modelName}”`);
+    await shootBothThemes(page, 'words-name-taken');
+    await page.getByLabel('Name', { exact: true }).fill(`${modelName} elsewhere`);
+    await expect.poll(() => taken.count(), { timeout: 10000 }).toBe(0);
+    await page.getByLabel('Name', { exact: true }).fill(modelName);
+    await expect.poll(() => taken.count(), { timeout: 10000 }).toBe(1);
+
+    await page.getByLabel('Rate expression').fill('a - x');
+    await page.getByTestId('rate-unknowns').getByRole('button', { name: 'Add parameter a' }).click();
+    await page.getByRole('button', { name: 'Add node' }).click();
+    await page.getByTestId('save-model').click();
+    await page.waitForURL(/\/models\/\d+\?renamedFrom=/, { timeout: 15000 });
+    expect(await page.getByTestId('model-name').textContent()).toBe(`${modelName} (3)`);
+    const notice = page.getByTestId('renamed-notice');
+    expect(await notice.textContent()).toContain(`Saved as “${modelName} (3)”`);
+    expect(await page.getByTestId('link-count').textContent()).toBe('0 directed links');
+    expect(await page.locator('#summary-h + dl').textContent()).toContain('1 node (n1)');
+
+    // Renaming onto another model's name is refused in words; a free name is taken.
+    await notice.getByLabel('New name').fill(modelName);
+    await notice.getByRole('button', { name: 'Rename' }).click();
+    await page.waitForLoadState('load');
+    expect(await page.locator('#rename-error').textContent()).toContain(`Name: the workspace already has a model named “${modelName}”`.replace(/[“”]/g, '"'));
+    await shootBothThemes(page, 'words-rename-refused');
+    await page.getByTestId('renamed-notice').getByLabel('New name').fill(`${modelName} single node`);
+    await page.getByTestId('renamed-notice').getByRole('button', { name: 'Rename' }).click();
+    await page.waitForURL(/renamed=1/, { timeout: 15000 });
+    expect(await page.getByTestId('model-name').textContent()).toBe(`${modelName} single node`);
+    expect(await page.getByTestId('renamed-done').textContent()).toBe(`Renamed to “${modelName} single node”.`);
+    await context.close();
+  }, 90_000);
 });

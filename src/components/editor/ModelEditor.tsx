@@ -1,6 +1,6 @@
 import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
 import {
-  changeKind, documentToState, emptyEditorState, fieldLabel, recordChange, redo, startHistory, undo, plainMessage, stateToDocument, unknownSymbols, type EditorState, type FieldIssue, type LabelContext, type NetworkDocument,
+  changeKind, documentToState, emptyEditorState, fieldLabel, modelNameKey, nextFreeName, recordChange, redo, startHistory, undo, plainMessage, stateToDocument, unknownSymbols, type EditorState, type FieldIssue, type LabelContext, type NetworkDocument,
 } from '../../lib/editor';
 import type { Diagram, Diagnostic } from '../../lib/atlas/types';
 import { api } from './api-client';
@@ -80,6 +80,31 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
     }
   };
   const announce = useCallback((m: string) => setAnnouncement(m), []);
+
+  // A new model whose name the workspace has: say so before saving, and what it will be saved as.
+  const [nameTaken, setNameTaken] = useState<{ existing: string; savedAs: string } | null>(null);
+  useEffect(() => {
+    const name = state.name.trim();
+    if (modelId || name === '') {
+      setNameTaken(null);
+      return;
+    }
+    const ctrl = new AbortController();
+    const timer = window.setTimeout(async () => {
+      try {
+        const names = await api.similarNames(name, ctrl.signal);
+        if (ctrl.signal.aborted || names === null) return;
+        const existing = names.find((n) => modelNameKey(n) === modelNameKey(name));
+        setNameTaken(existing === undefined ? null : { existing, savedAs: nextFreeName(name, names) });
+      } catch {
+        // Aborted by the next keystroke.
+      }
+    }, DEBOUNCE_MS);
+    return () => {
+      ctrl.abort();
+      window.clearTimeout(timer);
+    };
+  }, [state.name, modelId]);
 
   const conversion = useMemo(() => stateToDocument(state), [state]);
   const localIssues = conversion.ok ? [] : conversion.issues;
@@ -196,11 +221,13 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
     }
     setDirty(false);
     if (!modelId) {
-      const id = (r.data as { model: { id: number | string } }).model.id;
-      setSaved('Saved. Opening the model…');
+      const created = r.data as { model: { id: number | string; name?: string }; renamedFrom?: string };
+      const id = created.model.id;
+      setSaved(created.renamedFrom ? `Saved as "${created.model.name}". Opening the model…` : 'Saved. Opening the model…');
       announce('Model saved.');
       leaving.current = true;
-      window.location.assign(`/models/${encodeURIComponent(String(id))}`);
+      const renamed = created.renamedFrom ? `?renamedFrom=${encodeURIComponent(created.renamedFrom)}` : '';
+      window.location.assign(`/models/${encodeURIComponent(String(id))}${renamed}`);
       return;
     }
     const n = (r.data as { version?: { number: number } }).version?.number ?? version + 1;
@@ -236,7 +263,19 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
 
       <section className="ed-section" aria-labelledby="ed-basics-h">
         <h2 id="ed-basics-h">Model</h2>
-        <TextField label="Name" path="name" value={state.name} onChange={(v) => setState((s) => ({ ...s, name: v }))} issues={issues} required />
+        <TextField
+          label="Name"
+          path="name"
+          value={state.name}
+          onChange={(v) => setState((s) => ({ ...s, name: v }))}
+          issues={issues}
+          required
+          after={nameTaken ? (
+            <p className="ed-notice" data-testid="name-taken" role="status">
+              The workspace already has a model named “{nameTaken.existing}”. Rename this one, or it will be saved as “{nameTaken.savedAs}”.
+            </p>
+          ) : null}
+        />
         <TextField label="Description" path="description" value={state.description} onChange={(v) => setState((s) => ({ ...s, description: v }))} issues={issues} multiline hint="What the model represents and where its numbers come from." />
       </section>
 

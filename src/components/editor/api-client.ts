@@ -2,7 +2,7 @@
  * Every request the editor island makes, in one place, so the API's JSON shape is known in one file.
  * Errors come back as { ok: false, message, issues } in words a modeler reads, never as exceptions.
  */
-import { issuesFromErrorBody, normalizeIssuePath, plainMessage, type FieldIssue, type NetworkDocument } from '../../lib/editor';
+import { issuesFromErrorBody, nameBase, normalizeIssuePath, plainMessage, type FieldIssue, type NetworkDocument } from '../../lib/editor';
 import type { Diagram, Diagnostic } from '../../lib/atlas/types';
 
 export type ApiResult<T> = { ok: true; data: T } | { ok: false; status: number; message: string; issues: FieldIssue[] };
@@ -60,7 +60,7 @@ export const api = {
   validate: (document: NetworkDocument, signal?: AbortSignal) => request<ValidateResponse>('POST', '/api/validate', { document }, signal),
   preview: (document: NetworkDocument, signal?: AbortSignal) => request<PreviewResponse>('POST', '/api/preview', { document }, signal),
   createModel: (document: NetworkDocument, description: string, changeNote: string) =>
-    request<{ model: { id: number | string }; version?: { number: number } }>('POST', '/api/models', {
+    request<{ model: { id: number | string; name: string }; version?: { number: number }; renamedFrom?: string }>('POST', '/api/models', {
       name: document.name,
       description,
       document,
@@ -74,6 +74,12 @@ export const api = {
     }),
   updateDescription: (modelId: string, description: string) =>
     request<unknown>('PATCH', `/api/models/${encodeURIComponent(modelId)}`, { description }),
+  /** Names of the workspace's models (archived ones too) that a new model named `name` could clash with. */
+  similarNames: async (name: string, signal?: AbortSignal): Promise<string[] | null> => {
+    const q = new URLSearchParams({ q: nameBase(name).slice(0, 200), archived: 'include', pageSize: '100', sort: 'name' });
+    const r = await request<{ items: { name: string }[] }>('GET', `/api/models?${q}`, undefined, signal);
+    return r.ok ? r.data.items.map((m) => m.name) : null;
+  },
   listVersions: (modelId: string) => request<{ versions: VersionSummary[] }>('GET', `/api/models/${encodeURIComponent(modelId)}/versions`),
   getVersion: (modelId: string, number: number) =>
     request<{ version: VersionSummary & { document: unknown } }>('GET', `/api/models/${encodeURIComponent(modelId)}/versions/${number}`),

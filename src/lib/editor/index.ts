@@ -10,3 +10,5 @@ export * from './field-labels';
 export * from './expression-symbols';
 export * from './directed-links';
 export * from './undo-history';
+export * from './unique-name';
+export * from './model-diff';

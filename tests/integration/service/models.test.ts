@@ -137,6 +137,39 @@ describe('import and export', () => {
     expect(names).toEqual(['Twin lakes import', 'Twin lakes import (2)', 'Twin lakes import (3)']);
   });
 
+  it('POST /api/models with a name the workspace has (any case, archived too) makes "name (2)" and says so', async () => {
+    const fresh = await workspaceWithRoles('Service twin names');
+    const create = (name: string) => fresh.modeler.post(ws('/api/models', fresh.workspaceId), { name, document: twoLakes() });
+    const first = await create('Fenn ponds');
+    expect(first.status).toBe(201);
+    expect(first.body.renamedFrom).toBeUndefined();
+    await fresh.modeler.post(ws(`/api/models/${first.body.model.id}/archive`, fresh.workspaceId), { archived: true });
+    const second = await create('fenn PONDS');
+    expect(second.status).toBe(201);
+    expect(second.body.model.name).toBe('fenn PONDS (2)');
+    expect(second.body.renamedFrom).toBe('fenn PONDS');
+    // Asking for a taken "(2)" counts on from its base.
+    const third = await create('Fenn ponds (2)');
+    expect(third.body.model.name).toBe('Fenn ponds (3)');
+    const names = (await db('models').where({ workspace_id: fresh.workspaceId }).orderBy('id').select('name')).map((r) => r.name);
+    expect(names).toEqual(['Fenn ponds', 'fenn PONDS (2)', 'Fenn ponds (3)']);
+  });
+
+  it('PATCH /api/models/[id] onto another model\'s name answers 409 naming the field and renames nothing', async () => {
+    const fresh = await workspaceWithRoles('Service rename twin');
+    const a = await createModel(fresh.modeler, fresh.workspaceId, twoLakes(), 'Reed marsh');
+    const b = await createModel(fresh.modeler, fresh.workspaceId, twoLakes(), 'Sedge marsh');
+    const res = await fresh.modeler.request('PATCH', ws(`/api/models/${b.modelId}`, fresh.workspaceId), { json: { name: 'reed marsh' } });
+    expect(res.status).toBe(409);
+    expect(res.body.error.field).toBe('name');
+    expect(res.body.error.message).toContain('already has a model named "reed marsh"');
+    expect((await db('models').where({ id: b.modelId }).first()).name).toBe('Sedge marsh');
+    // Its own name in another case is not a clash.
+    const own = await fresh.modeler.request('PATCH', ws(`/api/models/${a.modelId}`, fresh.workspaceId), { json: { name: 'Reed Marsh' } });
+    expect(own.status).toBe(200);
+    expect(own.body.model.name).toBe('Reed Marsh');
+  });
+
   it('POST /api/models/[id]/import-csv turns an adjacency matrix into the links of a new version', async () => {
     const { modelId } = await createModel(w.modeler, w.workspaceId);
     const csv = ',upper,lower\nupper,0,0.5\nlower,0.25,0\n';

@@ -6,9 +6,10 @@ import type { Knex } from 'knex';
 import { db } from '../db.ts';
 import { recordAudit } from './audit.ts';
 import { type CheckedDocument } from './document.ts';
-import { conflict, notFound } from './service-error.ts';
+import { conflict, HttpError, notFound } from './service-error.ts';
 import type { ListModelsQuery } from './schemas.ts';
 import { diffDocuments, type DiffEntry } from './document-diff.ts';
+import { modelNameKey, nameBase, nextFreeName } from '../../editor/unique-name.ts';
 
 export interface ModelSummary {
   id: number;
@@ -184,25 +185,29 @@ export async function createModel(workspaceId: string, actorId: string, input: C
 
 /**
  * `name` if no model of the workspace (archived ones included) has it, else the first free
- * "name (2)", "name (3)", … — so an import never makes a second model of the same name silently.
+ * "name (2)", "name (3)", … (nextFreeName) — so an import or a new model never silently makes a
+ * second model of the same name.
  */
 export async function uniqueModelName(workspaceId: string, name: string, k: Knex = db): Promise<string> {
-  const base = name.replace(/ \((\d+)\)$/, '');
-  const rows = await k('models').where({ workspace_id: workspaceId }).andWhere((q) => q.where('name', base).orWhere('name', 'like', `${base.replace(/[\\%_]/g, '\\$&')} (%)`)).select('name');
-  // The column's collation compares case-insensitively; so does this, or "Lakes" would twin "lakes".
-  const taken = new Set(rows.map((r: Row) => String(r.name).toLowerCase()));
-  if (!taken.has(name.toLowerCase())) return name;
-  for (let n = 2; ; n++) {
-    const suffix = ` (${n})`;
-    const candidate = `${base.slice(0, 200 - suffix.length)}${suffix}`;
-    if (!taken.has(candidate.toLowerCase())) return candidate;
-  }
+  const base = nameBase(name);
+  const rows = await k('models').where({ workspace_id: workspaceId })
+    .andWhere((q) => q.where('name', name).orWhere('name', base).orWhere('name', 'like', `${base.replace(/[\\%_]/g, '\\$&')} (%)`))
+    .select('name');
+  return nextFreeName(name, rows.map((r: Row) => String(r.name)));
 }
 
 export async function updateModelMeta(workspaceId: string, actorId: string, modelId: number, patch: { name?: string; description?: string; tags?: string[] }): Promise<ModelSummary> {
   return db.transaction(async (trx) => {
     const row = await trx('models').where({ id: modelId, workspace_id: workspaceId }).forUpdate().first();
     if (!row) throw notFound('model');
+    if (patch.name !== undefined && modelNameKey(patch.name) !== modelNameKey(String(row.name))) {
+      // A rename onto another model's name would make two models no one can tell apart.
+      const others = await trx('models').where({ workspace_id: workspaceId }).andWhere('name', patch.name).whereNot({ id: modelId }).select('name');
+      if (others.some((o: Row) => modelNameKey(String(o.name)) === modelNameKey(patch.name!))) {
+        const message = `the workspace already has a model named "${patch.name}"; choose another name`;
+        throw new HttpError(409, 'name_taken', `name: ${message}`, { field: 'name', issues: [{ field: 'name', message }] });
+      }
+    }
     const update: Row = { updated_at: trx.raw('CURRENT_TIMESTAMP(3)') };
     if (patch.name !== undefined) update.name = patch.name;
     if (patch.description !== undefined) update.description = patch.description;
