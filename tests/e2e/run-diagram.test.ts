@@ -186,15 +186,34 @@ describe('a seeded demo run page, as the demo modeler', () => {
     await form.getByRole('button', { name: 'Add tag' }).click();
     await expect.poll(() => form.getByRole('status').textContent().catch(() => '')).toBe('Tag added.');
     await expect.poll(() => page.getByTestId('tag-layer-item').count()).toBe(layerBefore + 1);
-    expect(await page.locator('[data-testid=tag-layer-item] text').allTextContents()).toContain(tagName);
+    expect(await page.getByTestId('tag-label').allTextContents()).toContain(tagName);
     // The new tag shares its start with a seeded tag: the two names must not be printed over each other.
-    const labels = await page.locator('[data-testid=tag-layer-item] text').evaluateAll((els) => els.map((el) => {
+    const labels = await page.getByTestId('tag-label').evaluateAll((els) => els.map((el) => {
       const r = el.getBoundingClientRect();
       return { x0: r.left, x1: r.right, y0: r.top, y1: r.bottom };
     }));
     for (const [i, a] of labels.entries()) {
       for (const b of labels.slice(i + 1)) expect(a.x1 <= b.x0 || b.x1 <= a.x0 || a.y1 <= b.y0 || b.y1 <= a.y0).toBe(true);
     }
+    // No branch under a tag name: the canvas the branches are drawn on is transparent under every
+    // name's box (read back from the canvas pixels, independent of the placement code).
+    const inked = await page.evaluate(() => {
+      const canvas = document.querySelector('[data-testid=diagram-canvas]') as HTMLCanvasElement;
+      const c = canvas.getBoundingClientRect();
+      const ratio = canvas.width / c.width;
+      const ctx = canvas.getContext('2d')!;
+      return [...document.querySelectorAll('[data-testid=tag-label]')].map((el) => {
+        const r = el.getBoundingClientRect();
+        const x = Math.max(0, Math.floor((r.left - c.left) * ratio)), y = Math.max(0, Math.floor((r.top - c.top) * ratio));
+        const w = Math.max(1, Math.floor(r.width * ratio)), h = Math.max(1, Math.floor(r.height * ratio));
+        const data = ctx.getImageData(x, y, w, h).data;
+        let count = 0;
+        for (let k = 3; k < data.length; k += 4) if (data[k] > 0) count++;
+        return { name: el.textContent, inked: count };
+      });
+    });
+    expect(inked.length).toBeGreaterThan(0);
+    expect(inked).toEqual(inked.map((l) => ({ name: l.name, inked: 0 })));
     await page.getByTestId('run-diagram').scrollIntoViewIfNeeded();
     // The panel scrolls on its own; show its head (band, reason, escape graph) in the screenshot.
     await page.getByTestId('side-panel').evaluate((el) => { el.scrollTop = 0; });
@@ -210,7 +229,7 @@ describe('a seeded demo run page, as the demo modeler', () => {
 
     await openRun(page);
     expect(await page.getByTestId('tag-layer-item').count()).toBe(layerBefore + 1);
-    expect(await page.locator('[data-testid=tag-layer-item] text').allTextContents()).toContain(tagName);
+    expect(await page.getByTestId('tag-label').allTextContents()).toContain(tagName);
   }, 60_000);
 
   it('the escape graph opens full size: every state and saddle drawn, clickable with their values, Escape closes it', async () => {

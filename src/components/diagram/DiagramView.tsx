@@ -12,9 +12,10 @@ import type { PlotPalette } from '../../lib/plot/palette';
 import { availableProjections, project, projectionFromKey, projectionKey, projectionLabel, type Projection } from '../../lib/plot/projection';
 import { INDICATIVE_NOTE } from '../../lib/plot/provenance';
 import { splitRuns, type BranchRun } from '../../lib/plot/runs';
-import { labelWidth, stackRows } from '../../lib/plot/stack-rows';
+import { labelWidth } from '../../lib/plot/stack-rows';
 import { decimateByPixel } from '../../lib/plot/thin';
 import { clusterGlyphs, fanOut } from '../../lib/plot/glyph-clusters';
+import { placeLabels } from '../../lib/plot/label-place';
 import { formatValue, integerTicks, linearAxis } from '../../lib/plot/ticks';
 import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
 import { locatedBandEdges, unlabelledInRun } from '../../lib/regimes/band-edge';
@@ -66,6 +67,8 @@ export function DiagramView(props: DiagramViewProps) {
   const [focusId, setFocusId] = useState<string | null>(null);
   const [palette, setPalette] = useState<PlotPalette | null>(null);
   const [drawnCount, setDrawnCount] = useState(0);
+  // Bumped after every canvas draw, so that what is placed against the drawn lines (tag names) follows.
+  const [, setDrawVersion] = useState(0);
 
   useEffect(() => setTags(props.tags ?? []), [props.tags]);
 
@@ -194,6 +197,7 @@ export function DiagramView(props: DiagramViewProps) {
     });
     drawnRef.current = out;
     setDrawnCount(out.n);
+    setDrawVersion((v) => v + 1);
     const at = pointerRef.current;
     if (at) setHover(nearest(at[0], at[1]));
   }, [projected, xs, ys, plotW, plotH, palette]);
@@ -299,10 +303,17 @@ export function DiagramView(props: DiagramViewProps) {
   const hovered = hover ? diagram.branches[hover.branch]?.points[hover.index] : null;
   const hoverY = hovered ? project(hovered.x, projection) : 0;
   const yLabel = projectionLabel(projection, diagram.variables);
-  const tagRows = stackRows(tags.map((t) => {
+  // Tag names: the lowest line above the bars that no drawn branch and no other name crosses
+  // (label-place.ts, against the lines of the last drawn frame; drawVersion re-renders after each draw).
+  const tagBox = (i: number, row: number) => {
+    const t = tags[i];
     const x0 = Math.max(-2, xs(t.from)), x1 = Math.min(plotW + 2, xs(t.to));
-    return x1 <= x0 ? { start: 0, end: 0 } : { start: x0, end: Math.max(x1, x0 + 8 + labelWidth(t.name, 10.5)) };
-  }));
+    if (x1 <= x0) return { x0: -1e9, x1: -1e9, y0: -1e9, y1: -1e9 };
+    const y = plotH - 10 - row * 13;
+    // labelWidth estimates upright text; the italic names run a little wider: 8 % more.
+    return { x0: x0 + 2, x1: x0 + 6 + 1.08 * labelWidth(t.name, 10.5), y0: y - 10, y1: y + 3 };
+  };
+  const tagRows = showTags ? placeLabels(tags.length, tagBox, drawnRef.current, Math.max(1, Math.floor((plotH - 20) / 13)), STABLE_WIDTH / 2 + 1.5) : [];
   const clipId = useMemo(() => `dg-clip-${Math.random().toString(36).slice(2, 9)}`, []);
 
   return (
@@ -375,15 +386,12 @@ export function DiagramView(props: DiagramViewProps) {
                 {showTags && tags.map((t, i) => {
                   const x0 = Math.max(-2, xs(t.from)), x1 = Math.min(plotW + 2, xs(t.to));
                   if (x1 <= x0) return null;
-                  // Overlapping tags (or names running past their range) get their labels on stacked lines.
-                  const row = tagRows[i];
                   return (
                     <g key={i} className="dg-tag" data-testid="tag-layer-item">
                       <rect x={x0} width={x1 - x0} y={0} height={plotH} fill={t.colour} fillOpacity={0.08} />
                       <rect x={x0} width={x1 - x0} y={plotH - 6} height={6} fill={t.colour} />
                       <line x1={x0} x2={x0} y1={0} y2={plotH} stroke={t.colour} strokeDasharray="2 3" />
                       <line x1={x1} x2={x1} y1={0} y2={plotH} stroke={t.colour} strokeDasharray="2 3" />
-                      <text x={x0 + 4} y={plotH - 10 - row * 13} className="dg-tag-label">{t.name}</text>
                     </g>
                   );
                 })}
@@ -398,6 +406,17 @@ export function DiagramView(props: DiagramViewProps) {
             onMouseMove={onMove} onMouseLeave={() => { pointerRef.current = null; setHover(null); }} onClick={onClick}>
             <g transform={`translate(${M.left},${M.top})`}>
               <rect width={plotW} height={plotH} fill="transparent" />
+              {/* Tag names above the branches (with a halo in case no free line was left), not clickable. */}
+              {showTags ? (
+                <g className="dg-tag-names" pointerEvents="none" clipPath={`url(#${clipId}-t)`}>
+                  {tags.map((t, i) => {
+                    const b = tagBox(i, tagRows[i] ?? 0);
+                    if (b.x0 < -1e8) return null;
+                    return <text key={i} x={b.x0 + 2} y={b.y1 - 3} className="dg-tag-label" data-testid="tag-label">{t.name}</text>;
+                  })}
+                </g>
+              ) : null}
+              <defs><clipPath id={`${clipId}-t`}><rect x={0} y={0} width={plotW} height={plotH} /></clipPath></defs>
               {/* Band ribbon above the plot: the regime labels, focusable. */}
               {regimes.map((b, i) => {
                 const x0 = Math.max(0, xs(b.from)), x1 = Math.min(plotW, xs(b.to));
