@@ -90,7 +90,7 @@ export async function seed(knex: Knex): Promise<void> {
   for (const variant of DEMO_VARIANTS) {
     const checked = checkDocument(variant.document);
     const settings = {};
-    const cacheKey = resultCacheKey(checked.hash, settings, ENGINE_VERSION);
+    const cacheKey = resultCacheKey('trace', checked.hash, settings, ENGINE_VERSION);
     let result: { id: number; regimes: string; compute_ms: number } | null =
       (await knex('results').where({ cache_key: cacheKey }).first('id', 'regimes', 'compute_ms')) ?? null;
     if (!result) {

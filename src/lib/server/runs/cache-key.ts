@@ -13,9 +13,10 @@ export function canonicalJson(value: unknown): string {
 }
 
 /**
- * The identity of a computation: a stored result is reused by any run with the same model version
- * hash, the same settings (canonical JSON) and the same engine version.
+ * The identity of a computation: a stored result is reused by any run of the same kind ('trace' today;
+ * an escape study of the same version and settings is another computation), with the same model
+ * version hash, the same settings (canonical JSON) and the same engine version.
  */
-export function resultCacheKey(versionHash: string, settings: unknown, engineVersion: string): string {
-  return createHash('sha256').update(`${versionHash}\n${canonicalJson(settings)}\n${engineVersion}`).digest('hex');
+export function resultCacheKey(kind: string, versionHash: string, settings: unknown, engineVersion: string): string {
+  return createHash('sha256').update(`${kind}\n${versionHash}\n${canonicalJson(settings)}\n${engineVersion}`).digest('hex');
 }

@@ -127,7 +127,7 @@ export interface StartRunInput {
 export async function startRun(workspaceId: string, actorId: string | null, input: StartRunInput): Promise<RunInfo> {
   const version = await requireVersion(workspaceId, input.modelId, input.version ?? 'latest');
   const settings = normalizeSettings(version.document, input.settings);
-  const cacheKey = resultCacheKey(version.hash, settings, ENGINE_VERSION);
+  const cacheKey = resultCacheKey(input.kind ?? 'trace', version.hash, settings, ENGINE_VERSION);
   const runId = await db.transaction(async (trx) => {
     const model = await trx('models').where({ id: input.modelId, workspace_id: workspaceId }).first();
     if (!model) throw notFound('model');
