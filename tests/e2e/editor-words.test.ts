@@ -88,6 +88,14 @@ describe('the editor speaks the modeler\'s words', () => {
 
     await page.getByRole('button', { name: 'Add node' }).click();
     await page.getByRole('button', { name: 'Add node' }).click();
+    // Adding a node is one undo step; the keys work with the focus on the page itself too.
+    const nodeCount = () => page.locator('.ed-node-list li').count();
+    expect(await nodeCount()).toBe(2);
+    await page.locator('h1').click();
+    await page.keyboard.press('Control+z');
+    expect(await nodeCount()).toBe(1);
+    await page.keyboard.press('Control+Shift+z');
+    expect(await nodeCount()).toBe(2);
     await page.getByLabel('Node 1 id').fill('alder');
     await page.getByLabel('Node 2 id').fill('alder');
     const summary = page.getByTestId('issue-summary');

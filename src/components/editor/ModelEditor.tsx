@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import {
   changeKind, documentToState, emptyEditorState, fieldLabel, modelNameKey, nextFreeName, recordChange, redo, startHistory, undo, plainMessage, stateToDocument, unknownSymbols, type EditorState, type FieldIssue, type LabelContext, type NetworkDocument,
 } from '../../lib/editor';
@@ -70,15 +70,25 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
     setDirty(true);
     setSaved('');
   }, []);
-  const onKeyDown = (e: KeyboardEvent) => {
-    if (!(e.ctrlKey || e.metaKey) || e.altKey) return;
-    const key = e.key.toLowerCase();
-    if (key === 'z' || key === 'y') {
+  // Ctrl+Z / Ctrl+Shift+Z (Ctrl+Y) anywhere on the page except in a field outside the editor (the
+  // header's search), so they also work after a click on the page itself or on a drawing.
+  const formRef = useRef<HTMLFormElement | null>(null);
+  useEffect(() => {
+    const onKey = (e: globalThis.KeyboardEvent) => {
+      if (!(e.ctrlKey || e.metaKey) || e.altKey) return;
+      const key = e.key.toLowerCase();
+      if (key !== 'z' && key !== 'y') return;
+      const target = e.target instanceof Element ? e.target : null;
+      const inForm = target !== null && formRef.current?.contains(target);
+      const editable = target !== null && target.closest('input, textarea, select, [contenteditable=""], [contenteditable="true"]') !== null;
+      if (!inForm && editable) return;
       // Our history, not the text field's own: the form state is what gets saved.
       e.preventDefault();
       step(key === 'y' || e.shiftKey ? 'redo' : 'undo');
-    }
-  };
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [step]);
   const announce = useCallback((m: string) => setAnnouncement(m), []);
 
   // A new model whose name the workspace has: say so before saving, and what it will be saved as.
@@ -253,7 +263,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   const sweepChoices = [...new Set([state.coupling.parameter, ...state.parameters.map((p) => p.name)].filter(Boolean))];
 
   return (
-    <form className="ed-root" onSubmit={(e) => { e.preventDefault(); void save(); }} onKeyDown={onKeyDown} noValidate aria-label="Model editor">
+    <form className="ed-root" onSubmit={(e) => { e.preventDefault(); void save(); }} ref={formRef} noValidate aria-label="Model editor">
       <div className="ed-sr" role="status" aria-live="polite">{announcement}</div>
       <div className="ed-row ed-undo" role="toolbar" aria-label="Undo and redo">
         <button type="button" className="ed-btn ed-btn-quiet" onClick={() => step('undo')} disabled={history.past.length === 0} aria-keyshortcuts="Control+Z" title="Undo (Ctrl+Z)">Undo</button>
