@@ -8,7 +8,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, shootBothThemes, signIn } from './browser.ts';
+import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, shootBothThemes, signIn, specialMarkCount } from './browser.ts';
 
 
 let browser: Browser;
@@ -143,7 +143,7 @@ describe('the model editor and the run view, as the demo modeler', () => {
     const body = (await api.json()) as { result: { diagram: { branches: unknown[]; bifurcations: { id: string }[] } } };
     const section = page.getByTestId('run-diagram');
     expect(Number(await section.getAttribute('data-branches'))).toBe(body.result.diagram.branches.length);
-    expect(await page.locator('[data-testid="diagram-view"] [data-special-id]').count()).toBe(body.result.diagram.bifurcations.length);
+    expect(await specialMarkCount(page)).toBe(body.result.diagram.bifurcations.length);
     expect(await page.locator('[data-testid="branch-table"] tbody tr').count()).toBe(body.result.diagram.branches.length);
     await shootBothThemes(page, 'run-view');
     await context.close();
@@ -227,6 +227,8 @@ describe('the same model as the demo reviewer', () => {
     expect(ids.length).toBe(2);
     await page.goto(`${BASE_URL}/compare?runs=${ids.join(',')}`);
     await hydrated(page);
+    // The compare page fetches its diagrams after load (CompareLoader).
+    await page.getByTestId('compare-view').waitFor({ timeout: 60_000 });
     expect(await page.getByTestId('compare-view').count()).toBe(1);
     expect(await page.getByTestId('compare-special-table').count()).toBe(1);
     await shootBothThemes(page, 'compare');
