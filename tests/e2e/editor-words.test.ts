@@ -256,4 +256,30 @@ describe('the editor speaks the modeler\'s words', () => {
     expect(await page.getByTestId('renamed-done').textContent()).toBe(`Renamed to “${modelName} single node”.`);
     await context.close();
   }, 90_000);
+  it('the Name field renames the model; onto another model\'s name it is refused in words and nothing is saved', async () => {
+    const { context, page } = await asModeler();
+    await page.goto(`${BASE_URL}${modelPath}/edit`);
+    await hydrated(page);
+    const name = page.getByLabel('Name', { exact: true });
+    expect(await name.inputValue()).toBe(modelName);
+    await name.fill(`${modelName} (2)`);
+    const taken = page.getByTestId('name-taken');
+    await expect.poll(() => taken.textContent(), { timeout: 10000 }).toContain(`already has a model named “${modelName} (2)”. Choose another name`);
+    await page.getByLabel('Change note').fill('Rename');
+    await page.getByTestId('save-model').click();
+    await expect.poll(() => page.getByTestId('save-error').textContent(), { timeout: 10000 }).toContain('Not saved: the new name could not be stored');
+    expect(await page.locator('#field-name-errors').textContent()).toContain(`the workspace already has a model named "${modelName} (2)"`);
+    await shootBothThemes(page, 'words-rename-in-editor');
+    const versionsBefore = await (await page.request.get(`${BASE_URL}/api/models/${modelPath.split('/').pop()}/versions`)).json();
+
+    await name.fill(`${modelName} carr`);
+    await expect.poll(() => taken.count(), { timeout: 10000 }).toBe(0);
+    await page.getByTestId('save-model').click();
+    await expect.poll(() => page.locator('.ed-save .ed-ok').textContent(), { timeout: 10000 }).toContain(`Saved as version ${versionsBefore.versions.length + 1}`);
+    expect(await page.getByTestId('edit-heading-name').textContent()).toBe(`${modelName} carr`);
+    expect(await page.title()).toContain(`Edit ${modelName} carr`);
+    await page.goto(`${BASE_URL}${modelPath}`);
+    expect(await page.getByTestId('model-name').textContent()).toBe(`${modelName} carr`);
+    await context.close();
+  }, 90_000);
 });

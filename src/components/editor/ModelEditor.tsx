@@ -26,6 +26,8 @@ export interface ModelEditorProps {
   /** The model's description (kept on the model, not in the document). */
   initialDescription?: string;
   latestVersion?: number;
+  /** The model's name, which the Name field edits (its versions' documents may carry an older one). */
+  modelName?: string;
 }
 
 type PreviewState =
@@ -35,9 +37,9 @@ type PreviewState =
   | { kind: 'error'; message: string };
 
 /** The model editor island: every field of a network document, live checks, preview and saving. */
-export default function ModelEditor({ modelId, initialDocument, initialDescription, latestVersion }: ModelEditorProps) {
+export default function ModelEditor({ modelId, initialDocument, initialDescription, latestVersion, modelName }: ModelEditorProps) {
   // Every edit goes through the undo history; the form shows its present state.
-  const [history, setHistory] = useState(() => startHistory<EditorState>(initialDocument ? documentToState(initialDocument, initialDescription ?? '') : starterState()));
+  const [history, setHistory] = useState(() => startHistory<EditorState>(initialDocument ? { ...documentToState(initialDocument, initialDescription ?? ''), ...(modelName ? { name: modelName } : {}) } : starterState()));
   const state = history.present;
   /** Replaces the form as one undoable step (loading a version). */
   const setStateRaw = useCallback((f: (s: EditorState) => EditorState) => setHistory((h) => recordChange(h, f(h.present), null, Date.now())), []);
@@ -53,6 +55,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   const [announcement, setAnnouncement] = useState('');
   const [version, setVersion] = useState(latestVersion ?? 0);
   const savedDescription = useRef((initialDescription ?? '').trim());
+  const savedName = useRef((modelName ?? initialDocument?.name ?? '').trim());
   /** Set just before navigating away after a successful save, so the unsaved-changes guard stays quiet. */
   const leaving = useRef(false);
 
@@ -91,11 +94,12 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
   }, [step]);
   const announce = useCallback((m: string) => setAnnouncement(m), []);
 
-  // A new model whose name the workspace has: say so before saving, and what it will be saved as.
+  // A name the workspace has: say so before saving. A new model would be saved as "name (2)"; an
+  // existing one cannot be renamed onto another model's name.
   const [nameTaken, setNameTaken] = useState<{ existing: string; savedAs: string } | null>(null);
   useEffect(() => {
     const name = state.name.trim();
-    if (modelId || name === '') {
+    if (name === '' || (modelId && modelNameKey(name) === modelNameKey(savedName.current))) {
       setNameTaken(null);
       return;
     }
@@ -210,14 +214,25 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
     }
     setSaving(true);
     setSaveError(null);
-    if (modelId && state.description.trim() !== savedDescription.current) {
-      const d = await api.updateDescription(modelId, state.description.trim());
+    const name = state.name.trim();
+    const renamed = Boolean(modelId) && name !== savedName.current;
+    if (modelId && (renamed || state.description.trim() !== savedDescription.current)) {
+      const d = await api.updateMeta(modelId, { ...(renamed ? { name } : {}), description: state.description.trim() });
       if (!d.ok) {
         setSaving(false);
-        setSaveError({ message: `Not saved: the description could not be stored (${d.message}). Your edits are kept.`, issues: d.issues });
+        const what = d.issues.some((i) => i.path === 'name') ? 'the new name' : 'the description';
+        setSaveError({ message: `Not saved: ${what} could not be stored (${d.message}). Your edits are kept.`, issues: d.issues });
+        announce(`Not saved: ${d.message}`);
         return;
       }
       savedDescription.current = state.description.trim();
+      if (renamed) {
+        savedName.current = name;
+        // The heading and the tab title are server-rendered outside the island.
+        const heading = document.querySelector('[data-testid="edit-heading-name"]');
+        if (heading) heading.textContent = name;
+        document.title = document.title.replace(/^Edit .*?( · |$)/, `Edit ${name}$1`);
+      }
     }
     const r = modelId
       ? await api.saveVersion(modelId, conversion.document, changeNote.trim(), version || undefined)
@@ -282,7 +297,9 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
           required
           after={nameTaken ? (
             <p className="ed-notice" data-testid="name-taken" role="status">
-              The workspace already has a model named “{nameTaken.existing}”. Rename this one, or it will be saved as “{nameTaken.savedAs}”.
+              {modelId
+                ? <>The workspace already has a model named “{nameTaken.existing}”. Choose another name: two models of one name could not be told apart.</>
+                : <>The workspace already has a model named “{nameTaken.existing}”. Rename this one, or it will be saved as “{nameTaken.savedAs}”.</>}
             </p>
           ) : null}
         />

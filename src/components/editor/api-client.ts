@@ -40,8 +40,11 @@ export async function request<T>(method: string, url: string, body?: unknown, si
     data = null;
   }
   if (res.ok) return { ok: true, data: data as T };
-  const serverMessage = (data as { error?: { message?: string } } | null)?.error?.message;
-  const message = res.status === 400 || res.status === 422 ? (serverMessage ? plainMessage(serverMessage) : 'The model has problems.') : (STATUS_WORDS[res.status] ?? serverMessage ?? `The server answered ${res.status}.`);
+  const error = (data as { error?: { message?: string; code?: string; field?: string } } | null)?.error;
+  const serverMessage = error?.message;
+  // A 409 is a newer version meanwhile, except a name another model has, which the server words.
+  const worded = res.status === 400 || res.status === 422 || error?.code === 'name_taken';
+  const message = worded ? (serverMessage ? plainMessage(serverMessage, error?.field) : 'The model has problems.') : (STATUS_WORDS[res.status] ?? serverMessage ?? `The server answered ${res.status}.`);
   return { ok: false, status: res.status, message, issues: issuesFromErrorBody(data) };
 }
 
@@ -72,8 +75,9 @@ export const api = {
       changeNote,
       ...(baseVersion ? { baseVersion } : {}),
     }),
-  updateDescription: (modelId: string, description: string) =>
-    request<unknown>('PATCH', `/api/models/${encodeURIComponent(modelId)}`, { description }),
+  /** The model's own name and description (not part of a version); a name another model has is a 409. */
+  updateMeta: (modelId: string, meta: { name?: string; description?: string }) =>
+    request<unknown>('PATCH', `/api/models/${encodeURIComponent(modelId)}`, meta),
   /** Names of the workspace's models (archived ones too) that a new model named `name` could clash with. */
   similarNames: async (name: string, signal?: AbortSignal): Promise<string[] | null> => {
     const q = new URLSearchParams({ q: nameBase(name).slice(0, 200), archived: 'include', pageSize: '100', sort: 'name' });
