@@ -5,7 +5,7 @@
  * another workspace and runs without a result are problems in words, never entries.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { closeDbAfterAll, workspaceWithRoles, type WorkspaceFixture } from '../helpers.ts';
+import { Client, closeDbAfterAll, workspaceWithRoles, type WorkspaceFixture } from '../helpers.ts';
 import { startRun } from '../../../src/lib/server/runs/repository.ts';
 import { gatherReport, listReportChoices, reportRunIds, REPORT_MAX_RUNS } from '../../../src/lib/server/reports/report-data.ts';
 import { createModel, runRow, spawnWorker, twoLakes, until, ws, type SpawnedWorker } from './fixtures.ts';
@@ -122,5 +122,32 @@ describe('gatherReport(workspaceId, runIds)', () => {
       `Run ${otherRunId}: no such run in this workspace`,
       `Run ${queuedId}: run ${queuedId} has no result (it is queued)`,
     ]);
+  });
+});
+
+describe('GET /report', () => {
+  it('renders the run of the caller\'s workspace with node-named states, the typeset model and its open comment', async () => {
+    const res = await w.reviewer.get(ws(`/report?runs=${runId}`, w.workspaceId));
+    expect(res.status).toBe(200);
+    expect(res.text).toContain(`Figure 1. Reported lakes, version 1 (run ${runId})`);
+    expect(res.text).toContain('data-testid="report-state-entry"><span class="text-ink-soft">upper</span>');
+    expect(res.text).toContain('Is the first band edge robust?');
+    expect(res.text).not.toContain('Typo in the caption.');
+    // KaTeX renders on the server: MathML with the TeX source as its annotation.
+    expect(res.text).toContain('<annotation encoding="application/x-tex">\\frac{\\mathrm{d}{P}_{i}}{\\mathrm{d}t} = f\\left({P}_{i}\\right) + \\beta \\sum_{j \\to i}');
+    // The picker lists this workspace's finished run as a ticked checkbox, and no other workspace's.
+    expect(res.text).toMatch(new RegExp(`<input type="checkbox" name="runs" value="${runId}"[^>]*checked`));
+    expect(res.text).not.toContain(`value="${otherRunId}"`);
+  });
+
+  it('answers another workspace\'s run as a problem without showing it, and sends a signed-out visitor to sign in', async () => {
+    const res = await w.owner.get(ws(`/report?runs=${otherRunId}`, w.workspaceId));
+    expect(res.status).toBe(200);
+    expect(res.text).toContain(`Run ${otherRunId}: no such run in this workspace`);
+    expect(res.text).not.toContain('Not yours');
+    expect(res.text).not.toContain('data-testid="report-section"');
+    const anonymous = await new Client().get(`/report?runs=${runId}`);
+    expect(anonymous.status).toBe(303);
+    expect(anonymous.headers.get('location')).toMatch(/^\/sign-in\?next=/);
   });
 });
