@@ -71,6 +71,15 @@ describe('the editor speaks the modeler\'s words', () => {
     expect(await parameterNames(page)).toEqual(['r', 'a']);
     await page.keyboard.press('Control+Shift+z');
     expect(await parameterNames(page)).toEqual(['r', 'a', 'b']);
+
+    // The coupling term's unknown symbols are offered too, but never the variable or the coupling parameter.
+    await page.getByLabel('Coupling term', { exact: true }).fill('k * (source - target) + beta * x');
+    const termOffers = page.getByTestId('term-unknowns');
+    await expect.poll(() => termOffers.textContent()).toContain('Add parameter k');
+    expect(await termOffers.getByRole('button').allTextContents()).toEqual(['Add parameter k']);
+    await termOffers.getByRole('button', { name: 'Add parameter k' }).click();
+    expect(await parameterNames(page)).toEqual(['r', 'a', 'b', 'k']);
+    expect(await termOffers.count()).toBe(0);
     await context.close();
   }, 120_000);
 

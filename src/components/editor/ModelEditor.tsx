@@ -275,6 +275,20 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
     announce(`Parameter ${name} added with the value 0.`);
   };
   const termIssues = issuesAt(issues, 'coupling.term');
+  // The coupling term may use the element's parameters too (besides source and target); the state
+  // variable and the coupling parameter are not offered, as a parameter of that name would clash.
+  const termUnknowns = unknownSymbols(state.coupling.term, ['source', 'target', ...state.parameters.map((p) => p.name.trim())])
+    .filter((name) => name !== state.coupling.parameter.trim() && name !== state.variable.trim());
+  const offers = (names: string[], testId: string) => names.length > 0 ? (
+    <p className="ed-row ed-unknowns" data-testid={testId}>
+      <span className="ed-hint">Not yet parameters:</span>
+      {names.map((name) => (
+        <button key={name} type="button" className="ed-btn ed-btn-quiet" onClick={() => addParameter(name)}>
+          Add parameter <span className="ed-mono">{name}</span>
+        </button>
+      ))}
+    </p>
+  ) : null;
   const sweepChoices = [...new Set([state.coupling.parameter, ...state.parameters.map((p) => p.name)].filter(Boolean))];
 
   return (
@@ -323,16 +337,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
               after={
                 <>
                   <MarkedExpression id="ed-rate-marked" expression={state.rate} messages={rateIssues.map((i) => i.message)} />
-                  {rateUnknowns.length > 0 ? (
-                    <p className="ed-row ed-unknowns" data-testid="rate-unknowns">
-                      <span className="ed-hint">Not yet parameters:</span>
-                      {rateUnknowns.map((name) => (
-                        <button key={name} type="button" className="ed-btn ed-btn-quiet" onClick={() => addParameter(name)}>
-                          Add parameter <span className="ed-mono">{name}</span>
-                        </button>
-                      ))}
-                    </p>
-                  ) : null}
+                  {offers(rateUnknowns, 'rate-unknowns')}
                 </>
               }
             />
@@ -358,7 +363,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
             issues={issues}
             mono
             placeholder="source - target"
-            after={<MarkedExpression id="ed-term-marked" expression={state.coupling.term} messages={termIssues.map((i) => i.message)} />}
+            after={<><MarkedExpression id="ed-term-marked" expression={state.coupling.term} messages={termIssues.map((i) => i.message)} />{offers(termUnknowns, 'term-unknowns')}</>}
           />
         </div>
         <TexPreview expression={state.coupling.term} label="Typeset coupling term" />
