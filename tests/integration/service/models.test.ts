@@ -155,6 +155,16 @@ describe('import and export', () => {
     expect(names).toEqual(['Fenn ponds', 'fenn PONDS (2)', 'Fenn ponds (3)']);
   });
 
+  it('four imports of one file at once make four distinct names', async () => {
+    const fresh = await workspaceWithRoles('Service twin race');
+    const file = JSON.stringify(twoLakes({ name: 'Racing lakes' }));
+    const results = await Promise.all([1, 2, 3, 4].map(() =>
+      fresh.modeler.request('POST', ws('/api/models/import', fresh.workspaceId), { raw: file, headers: { 'content-type': 'application/json' } })));
+    expect(results.map((r) => r.status)).toEqual([201, 201, 201, 201]);
+    const names = (await db('models').where({ workspace_id: fresh.workspaceId }).select('name')).map((r) => r.name).sort();
+    expect(names).toEqual(['Racing lakes', 'Racing lakes (2)', 'Racing lakes (3)', 'Racing lakes (4)']);
+  });
+
   it('PATCH /api/models/[id] onto another model\'s name answers 409 naming the field and renames nothing', async () => {
     const fresh = await workspaceWithRoles('Service rename twin');
     const a = await createModel(fresh.modeler, fresh.workspaceId, twoLakes(), 'Reed marsh');

@@ -156,11 +156,18 @@ export interface CreateModelInput {
   checked: CheckedDocument;
 }
 
-export async function createModel(workspaceId: string, actorId: string, input: CreateModelInput): Promise<{ model: ModelSummary; version: VersionInfo }> {
+/**
+ * A new model with its first version. A name the workspace already has becomes the first free
+ * "name (2)" (uniqueModelName) and `renamedFrom` says what was asked for; the workspace row is locked
+ * while the name is chosen, so two imports of one file at once cannot both take "name (2)".
+ */
+export async function createModel(workspaceId: string, actorId: string, input: CreateModelInput): Promise<{ model: ModelSummary; version: VersionInfo; renamedFrom?: string }> {
   return db.transaction(async (trx) => {
+    await trx('workspaces').where({ id: workspaceId }).forUpdate().first();
+    const name = await uniqueModelName(workspaceId, input.name, trx);
     const [modelId] = await trx('models').insert({
       workspace_id: workspaceId,
-      name: input.name,
+      name,
       description: input.description,
       tags: JSON.stringify(input.tags),
       created_by: actorId,
@@ -176,10 +183,10 @@ export async function createModel(workspaceId: string, actorId: string, input: C
       change_note: input.changeNote,
       created_by: actorId,
     });
-    await recordAudit(trx, { workspaceId, actorId, action: 'model.create', targetType: 'model', targetId: modelId, details: { name: input.name, versionId, hash: input.checked.hash } });
+    await recordAudit(trx, { workspaceId, actorId, action: 'model.create', targetType: 'model', targetId: modelId, details: { name, versionId, hash: input.checked.hash, ...(name !== input.name ? { renamedFrom: input.name } : {}) } });
     const model = await requireModel(workspaceId, modelId, trx);
     const version = toVersion(await trx('model_versions').where({ id: versionId }).first());
-    return { model, version };
+    return { model, version, ...(name !== input.name ? { renamedFrom: input.name } : {}) };
   });
 }
 
@@ -201,7 +208,9 @@ export async function updateModelMeta(workspaceId: string, actorId: string, mode
     const row = await trx('models').where({ id: modelId, workspace_id: workspaceId }).forUpdate().first();
     if (!row) throw notFound('model');
     if (patch.name !== undefined && modelNameKey(patch.name) !== modelNameKey(String(row.name))) {
-      // A rename onto another model's name would make two models no one can tell apart.
+      // A rename onto another model's name would make two models no one can tell apart. The
+      // workspace lock (as in createModel) keeps a model created meanwhile from taking it too.
+      await trx('workspaces').where({ id: workspaceId }).forUpdate().first();
       const others = await trx('models').where({ workspace_id: workspaceId }).andWhere('name', patch.name).whereNot({ id: modelId }).select('name');
       if (others.some((o: Row) => modelNameKey(String(o.name)) === modelNameKey(patch.name!))) {
         const message = `the workspace already has a model named "${patch.name}"; choose another name`;

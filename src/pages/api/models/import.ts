@@ -1,7 +1,7 @@
 import { handler, json, parseValue } from '../../../lib/server/http.ts';
 import { requireRole } from '../../../lib/server/auth/guards.ts';
 import { checkDocumentText, MAX_DOCUMENT_BYTES } from '../../../lib/server/models/document.ts';
-import { createModel, uniqueModelName } from '../../../lib/server/models/repository.ts';
+import { createModel } from '../../../lib/server/models/repository.ts';
 import { modelMetaSchema } from '../../../lib/server/models/schemas.ts';
 import { readUpload } from '../../../lib/server/models/upload.ts';
 import { queryObject } from '../../../lib/server/models/route-params.ts';
@@ -27,14 +27,13 @@ export const POST = handler(async ({ locals, request, url }) => {
   const checked = checkDocumentText(upload.text);
   const docName = typeof checked.document.name === 'string' ? checked.document.name : undefined;
   const wanted = (fields.name ?? docName ?? upload.filename?.replace(/\.json$/i, '') ?? 'Imported model').trim().slice(0, 200) || 'Imported model';
-  // An import whose name is taken becomes "name (2)" (said in the answer), never a silent twin.
-  const name = await uniqueModelName(workspace.id, wanted);
+  // An import whose name is taken becomes "name (2)" (createModel; said in the answer), never a silent twin.
   const created = await createModel(workspace.id, user.id, {
-    name,
+    name: wanted,
     description: fields.description ?? '',
     tags: [],
     changeNote: fields.changeNote || `imported${upload.filename ? ` from ${upload.filename}` : ''}`,
     checked,
   });
-  return json({ ...created, ...(name !== wanted ? { renamedFrom: wanted } : {}) }, 201);
+  return json(created, 201);
 });

@@ -2,7 +2,7 @@ import { handler, json, parseJson, parseValue } from '../../../lib/server/http.t
 import { requireRole } from '../../../lib/server/auth/guards.ts';
 import { createModelSchema, listModelsQuerySchema } from '../../../lib/server/models/schemas.ts';
 import { checkDocument, MAX_DOCUMENT_BYTES } from '../../../lib/server/models/document.ts';
-import { createModel, listModels, uniqueModelName } from '../../../lib/server/models/repository.ts';
+import { createModel, listModels } from '../../../lib/server/models/repository.ts';
 import { queryObject } from '../../../lib/server/models/route-params.ts';
 
 /** Models of the active workspace: ?q= search in name and description, ?tag=, ?sort=name|created|updated, ?order=, ?page=, ?pageSize=, ?archived=exclude|include|only. */
@@ -21,7 +21,5 @@ export const POST = handler(async ({ locals, request }) => {
   const { user, workspace } = requireRole(locals, 'owner', 'modeler');
   const input = await parseJson(request, createModelSchema, { maxBytes: MAX_DOCUMENT_BYTES + 16 * 1024 });
   const checked = checkDocument(input.document);
-  const name = await uniqueModelName(workspace.id, input.name);
-  const created = await createModel(workspace.id, user.id, { ...input, name, checked });
-  return json({ ...created, ...(name !== input.name ? { renamedFrom: input.name } : {}) }, 201);
+  return json(await createModel(workspace.id, user.id, { ...input, checked }), 201);
 });
