@@ -87,6 +87,23 @@ describe('one centred page container on every page', () => {
   }, 90_000);
 });
 
+describe('the model page', () => {
+  it('the "Start a run" card is as wide as the cards above and below it', async () => {
+    const { context, page } = await signedIn('owner', 1280);
+    const all = await paths(page);
+    await page.goto(BASE_URL + all.model);
+    await hydrated(page);
+    const widths = await page.evaluate(() => {
+      const form = document.querySelector('form[aria-label="Start a run"]')!;
+      const card = (el: Element | null) => Math.round(el!.getBoundingClientRect().width);
+      const cards = [...document.querySelectorAll('[data-testid=page-main] section, [data-testid=page-main] .bm-card')].map((el) => card(el));
+      return { form: card(form), widest: Math.max(...cards) };
+    });
+    expect(widths.form).toBe(widths.widest);
+    await context.close();
+  }, 60_000);
+});
+
 describe('the header and the members table', () => {
   for (const width of [1280, 800]) {
     it(`at ${width} px the workspace selector shows the whole workspace name`, async () => {

@@ -38,7 +38,7 @@ export default function StartRun({ modelId, versions, defaultFrom, defaultTo, pa
   };
 
   return (
-    <form className="ed-root" onSubmit={(e) => { e.preventDefault(); void start(); }} aria-label="Start a run" noValidate>
+    <form className="ed-root ed-root-full" onSubmit={(e) => { e.preventDefault(); void start(); }} aria-label="Start a run" noValidate>
       <div className="ed-section">
         <h2>Start a run</h2>
         <div className="ed-three">
