@@ -307,23 +307,13 @@ interface EquilibriumSet {
  * again on the continued points.
  */
 function continueFromNeighbour(system: CompiledSystem, source: EquilibriumSet, p0: number, p: number, o: RegimeOptions): EquilibriumSet | null {
-  const n = system.dimension;
   const out: Equilibrium[] = [];
-  const jac = new Float64Array(n * n);
-  const fp = new Float64Array(n);
   for (const e of source.equilibria) {
     if (e.neutral !== 0 || e.unstable > 1) continue;
-    const x0 = Float64Array.from(e.x);
-    system.jacobian(x0, p0, jac);
-    system.parameterDerivative(x0, p0, fp);
-    const dx = solveLinear(jac, n, Array.from(fp, (v) => -v));
-    if (!dx) return null;
-    const guess = e.x.map((c, i) => c + (p - p0) * dx[i]);
-    const r = newtonAtFixedParameter(system, guess, p, o.newtonTolerance, o.newtonMaxIterations);
-    if (!r.converged || out.some((f) => sameState(f.x, r.x, o.duplicateTolerance))) return null;
-    const next = e.unstable === 0
-      ? certifiedStable(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch)
-      : analyseEquilibrium(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
+    const guess = tangentGuess(system, e, p0, p);
+    if (!guess) return null;
+    const next = refineContinued(system, e, guess, p, out, o);
+    if (!next) return null;
     if (next.unstable !== e.unstable || next.neutral !== 0 || (next.unstable === 1 && !next.unstableVector)) return null;
     out.push(next);
   }
@@ -347,7 +337,6 @@ function continueFromNeighbour(system: CompiledSystem, source: EquilibriumSet, p
  * at the cut, which the diagram shows.
  */
 function continueAcrossCut(system: CompiledSystem, diagram: Diagram, source: EquilibriumSet, p0: number, p: number, points: readonly SpecialPoint[], o: RegimeOptions): EquilibriumSet | null {
-  const n = system.dimension;
   // Saddle-nodes with k >= 2 (one-way links fold an upstream node at the same p for every state of the
   // nodes downstream) join only equilibria that the set leaves out.
   const relevant: SpecialPoint[] = [];
@@ -361,20 +350,10 @@ function continueAcrossCut(system: CompiledSystem, diagram: Diagram, source: Equ
   }
   const nearPoint = (x: readonly number[]) => relevant.some((sp) => maxNormDist(x, sp.x) <= 1e-2 * (1 + maxNormAbs(sp.x)));
   const out: Equilibrium[] = [];
-  const jac = new Float64Array(n * n);
-  const fp = new Float64Array(n);
   let changed = 0;
   for (const e of source.equilibria) {
     if (e.neutral !== 0 || e.unstable > 1) continue;
-    const x0 = Float64Array.from(e.x);
-    system.jacobian(x0, p0, jac);
-    system.parameterDerivative(x0, p0, fp);
-    const dx = solveLinear(jac, n, Array.from(fp, (v) => -v));
-    const guess = dx ? e.x.map((c, i) => c + (p - p0) * dx[i]) : e.x.slice();
-    const r = newtonAtFixedParameter(system, guess, p, o.newtonTolerance, o.newtonMaxIterations);
-    const next = !r.converged || out.some((f) => sameState(f.x, r.x, o.duplicateTolerance)) ? null
-      : e.unstable === 0 ? certifiedStable(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch)
-        : analyseEquilibrium(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
+    const next = refineContinued(system, e, tangentGuess(system, e, p0, p) ?? e.x.slice(), p, out, o);
     const ok = next !== null && next.unstable === e.unstable && next.neutral === 0 && (next.unstable !== 1 || next.unstableVector !== undefined)
       && maxNormDist(next.x, e.x) <= 1e-2 * (1 + maxNormAbs(e.x));
     if (ok) { out.push(next); continue; }
@@ -396,6 +375,28 @@ function continueAcrossCut(system: CompiledSystem, diagram: Diagram, source: Equ
   }
   if (changed !== expected) return null;
   return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p), verified: source.verified };
+}
+
+/** Tangent predictor x + (p - p0) dx/dp with dx/dp = -J_x^{-1} F_p at (x, p0); null when J_x is singular. */
+function tangentGuess(system: CompiledSystem, e: Equilibrium, p0: number, p: number): number[] | null {
+  const n = system.dimension;
+  const x0 = Float64Array.from(e.x);
+  const jac = system.jacobian(x0, p0, new Float64Array(n * n));
+  const fp = system.parameterDerivative(x0, p0, new Float64Array(n));
+  const dx = solveLinear(jac, n, Array.from(fp, (v) => -v));
+  return dx ? e.x.map((c, i) => c + (p - p0) * dx[i]) : null;
+}
+
+/**
+ * Newton's method at fixed p from `guess`, then the spectrum (a Gershgorin certificate first for a
+ * continued stable state); null when Newton fails or lands on an equilibrium already in `out`.
+ */
+function refineContinued(system: CompiledSystem, e: Equilibrium, guess: readonly number[], p: number, out: readonly Equilibrium[], o: RegimeOptions): Equilibrium | null {
+  const r = newtonAtFixedParameter(system, guess, p, o.newtonTolerance, o.newtonMaxIterations);
+  if (!r.converged || out.some((f) => sameState(f.x, r.x, o.duplicateTolerance))) return null;
+  return e.unstable === 0
+    ? certifiedStable(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch)
+    : analyseEquilibrium(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
 }
 
 const maxNormAbs = (x: readonly number[]) => { let m = 0; for (const v of x) m = Math.max(m, Math.abs(v)); return m; };
