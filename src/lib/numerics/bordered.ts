@@ -16,6 +16,9 @@ export class BorderedWorkspace {
   readonly fp: Float64Array;
   readonly a: Float64Array;
   readonly x: Float64Array;
+  /** Scratch vectors of length n + 1 for linear solves (Newton steps, tangents) that do not escape. */
+  readonly step: Float64Array;
+  readonly unit: Float64Array;
   constructor(n: number) {
     this.n = n;
     this.f = new Float64Array(n);
@@ -23,6 +26,9 @@ export class BorderedWorkspace {
     this.fp = new Float64Array(n);
     this.a = new Float64Array((n + 1) * (n + 1));
     this.x = new Float64Array(n);
+    this.step = new Float64Array(n + 1);
+    this.unit = new Float64Array(n + 1);
+    this.unit[n] = 1;
   }
 }
 
@@ -66,10 +72,9 @@ export interface TangentResult {
 export function tangentAt(system: CompiledSystem, y: Float64Array, v: ArrayLike<number>, ws: BorderedWorkspace, lu?: DenseLu): TangentResult {
   const m = ws.n + 1;
   const fac = lu ?? new DenseLu(borderedMatrix(system, y, v, ws), m);
-  const e = new Float64Array(m);
-  e[m - 1] = 1;
-  const z = fac.solve(e);
-  if (z === null) return { ok: false, tangent: new Float64Array(m), determinant: fac.determinant };
+  // e_{n+1} from the workspace (never written), z into the workspace's step vector.
+  const z = ws.step;
+  if (!fac.solveInto(ws.unit, z)) return { ok: false, tangent: new Float64Array(m), determinant: fac.determinant };
   const nz = norm2(z);
   const t = new Float64Array(m);
   for (let i = 0; i < m; i++) t[i] = z[i] / nz;
@@ -172,8 +177,8 @@ export function correct(
     residual = normInf(f);
     if (!Number.isFinite(residual) || !Number.isFinite(rhs[n])) return { converged: false, iterations: it, residual, y, lu: null };
     lu = new DenseLu(borderedMatrix(system, y, v, ws), m);
-    const d = lu.solve(rhs);
-    if (d === null) return { converged: false, iterations: it, residual, y, lu: null };
+    const d = ws.step;
+    if (!lu.solveInto(rhs, d)) return { converged: false, iterations: it, residual, y, lu: null };
     for (let i = 0; i < m; i++) y[i] += d[i];
     const step = normInf(d);
     if (o.maxDisplacement < Number.POSITIVE_INFINITY) {

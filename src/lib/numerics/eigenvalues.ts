@@ -1,5 +1,6 @@
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { hessenbergQrEigenvalues } from './hessenberg-qr.js';
+import { symmetricEigenvalues } from './symmetric-eigenvalues.js';
 
 export interface Spectrum {
   readonly re: Float64Array;
@@ -13,8 +14,9 @@ export interface Spectrum {
  * eigenvalue-only Hessenberg reduction plus Francis double-shift QR (hessenberg-qr.ts; Golub &
  * Van Loan, 4th ed., Alg. 7.4.2 / 7.5.2), bit-identical to ml-matrix's EigenvalueDecomposition but
  * without eigenvectors; if its sweep cap is hit, ml-matrix's decomposition is used instead.
- * Exactly symmetric n >= 3: ml-matrix's EigenvalueDecomposition (Householder tridiagonalisation
- * and the implicit QL iteration, tred2/tql2). Complex eigenvalues come in conjugate pairs with
+ * Exactly symmetric n >= 3: Householder tridiagonalisation and the implicit QL iteration
+ * (symmetric-eigenvalues.ts, tred2/tql2), bit-identical to ml-matrix's EigenvalueDecomposition's
+ * symmetric path but without eigenvectors and Matrix objects. Complex eigenvalues come in conjugate pairs with
  * exactly opposite imaginary parts.
  */
 export function eigenvalues(a: Float64Array, n: number): Spectrum {
@@ -39,10 +41,9 @@ export function eigenvalues(a: Float64Array, n: number): Spectrum {
     const w = Math.sqrt(-disc);
     return { re: Float64Array.of(0.5 * tr, 0.5 * tr), im: Float64Array.of(w, -w), ok: true };
   }
-  if (!isSymmetric(a, n)) {
-    const r = hessenbergQrEigenvalues(a, n);
-    if (r.converged) return { re: r.values.re, im: r.values.im, ok: true };
-  }
+  if (isSymmetric(a, n)) return { re: symmetricEigenvalues(a, n), im: new Float64Array(n), ok: true };
+  const r = hessenbergQrEigenvalues(a, n);
+  if (r.converged) return { re: r.values.re, im: r.values.im, ok: true };
   const evd = new EigenvalueDecomposition(Matrix.from1DArray(n, n, a));
   return { re: Float64Array.from(evd.realEigenvalues), im: Float64Array.from(evd.imaginaryEigenvalues), ok: true };
 }
