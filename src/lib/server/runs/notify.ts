@@ -12,11 +12,11 @@ export async function notifyRunFinished(runId: number, status: 'done' | 'failed'
     .join('models as m', 'm.id', 'r.model_id')
     .join('model_versions as v', 'v.id', 'r.model_version_id')
     .where('r.id', runId)
-    .first('u.email', 'u.display_name', 'm.name as model_name', 'v.number', 'r.error', 'r.workspace_id', 'r.notify');
+    .first('u.email', 'u.display_name', 'm.name as model_name', 'v.number', 'r.error', 'r.workspace_id', 'r.notify', 'r.kind');
   if (!row || !row.notify) return false;
   const link = `${serverEnv().publicOrigin}/runs/${runId}?workspace=${encodeURIComponent(row.workspace_id)}`;
   const error = typeof row.error === 'string' ? JSON.parse(row.error) : row.error;
-  const what = `run ${runId} of "${row.model_name}" (version ${row.number})`;
+  const what = `${row.kind === 'escapes' ? 'escape study ' : ''}run ${runId} of "${row.model_name}" (version ${row.number})`;
   const text = status === 'done'
     ? `Hello ${row.display_name},\n\nYour ${what} has finished.\n\nOpen it: ${link}\n\nModel results are indicative; check them with domain experts and local regulation before acting on them.\n`
     : `Hello ${row.display_name},\n\nYour ${what} failed: ${error?.message ?? 'no diagnostic recorded'}.\n\nDetails: ${link}\n`;

@@ -17,6 +17,9 @@ export interface ClaimedRun {
   readonly workspaceId: string;
   readonly modelId: number;
   readonly versionId: number;
+  /** 'trace' or 'escapes' (settings are then StoredEscapeSettings, src/lib/server/escapes/schema.ts). */
+  readonly kind: string;
+  readonly versionHash: string;
   readonly cacheKey: string;
   readonly settings: RunSettings;
   readonly attempt: number;
@@ -75,13 +78,13 @@ export async function claimRun(owner: string, queue: string, leaseMs: number, k:
         progress: 0,
         phrase: reclaimed ? `restarted after a lost worker (attempt ${row.attempts + 1})` : 'starting',
       });
-      const version = await trx('model_versions').where({ id: row.model_version_id }).first('document');
+      const version = await trx('model_versions').where({ id: row.model_version_id }).first('document', 'hash');
       const settings = typeof row.settings === 'string' ? JSON.parse(row.settings) : row.settings;
       return {
         kind: 'claimed' as const,
         run: {
           id: row.id, workspaceId: row.workspace_id, modelId: row.model_id, versionId: row.model_version_id,
-          cacheKey: row.cache_key, settings, attempt: row.attempts + 1, documentText: version.document,
+          kind: row.kind, versionHash: version.hash, cacheKey: row.cache_key, settings, attempt: row.attempts + 1, documentText: version.document,
           createdBy: row.created_by, notify: Boolean(row.notify),
         } satisfies ClaimedRun,
       };
@@ -96,10 +99,11 @@ export async function claimRun(owner: string, queue: string, leaseMs: number, k:
  * Writes progress and renews the lease. Returns false when the run is no longer ours (cancelled,
  * or reclaimed by another worker after our lease lapsed): the caller must stop and store nothing.
  */
-export async function heartbeat(runId: number, owner: string, leaseMs: number, progress: number, phrase: string, k: Knex = db): Promise<boolean> {
+export async function heartbeat(runId: number, owner: string, leaseMs: number, progress: number, phrase: string, k: Knex = db, detail?: unknown): Promise<boolean> {
   const n = await k('runs').where({ id: runId, lease_owner: owner, status: 'running' }).update({
     progress: Math.min(1, Math.max(0, progress)),
     phrase: phrase.slice(0, 200),
+    ...(detail !== undefined ? { progress_detail: JSON.stringify(detail) } : {}),
     heartbeat_at: k.raw('NOW(3)'),
     lease_expires_at: leaseExpiry(k, leaseMs),
   });

@@ -11,6 +11,8 @@ import { conflict, notFound } from '../models/service-error.ts';
 import { resultCacheKey } from './cache-key.ts';
 import { normalizeSettings } from './normalize-settings.ts';
 import type { ListRunsQuery, RunSettings, RunStatus } from './schemas.ts';
+import type { EscapeSettings } from '../escapes/schema.ts';
+import { checkRequestBudget, normalizeEscapeSettings } from '../escapes/settings.ts';
 
 export interface RunInfo {
   id: number;
@@ -31,6 +33,8 @@ export interface RunInfo {
   maxAttempts: number;
   engineVersion: string;
   resultId: number | null;
+  /** Escape runs: the stored study (rows in escape_points under the run's cache key). */
+  escapeStudyId: number | null;
   reused: boolean;
   error: { code: string; message: string; [k: string]: unknown } | null;
   queuedAt: string;
@@ -63,6 +67,7 @@ export function toRunInfo(r: Row): RunInfo {
     maxAttempts: r.max_attempts,
     engineVersion: r.engine_version,
     resultId: r.result_id,
+    escapeStudyId: r.escape_study_id ?? null,
     reused: Boolean(r.reused),
     error: parseJson(r.error),
     queuedAt: iso(r.queued_at)!,
@@ -109,16 +114,14 @@ export async function listRuns(
   return { items: rows.map(toRunInfo), total: Number(total), page, pageSize };
 }
 
-export interface StartRunInput {
+export type StartRunInput = {
   modelId: number;
   version?: number;
-  kind?: 'trace';
-  settings: RunSettings;
   notify: boolean;
   /** Worker queue name; the API always uses 'default' (tests and deployments may route elsewhere). */
   queue?: string;
   maxAttempts?: number;
-}
+} & ({ kind?: 'trace'; settings: RunSettings } | { kind: 'escapes'; settings: EscapeSettings });
 
 /**
  * Queues a run of one model version. When a result with the same (version hash, settings, engine
@@ -126,18 +129,31 @@ export interface StartRunInput {
  */
 export async function startRun(workspaceId: string, actorId: string | null, input: StartRunInput): Promise<RunInfo> {
   const version = await requireVersion(workspaceId, input.modelId, input.version ?? 'latest');
-  const settings = normalizeSettings(version.document, input.settings);
-  const cacheKey = resultCacheKey(input.kind ?? 'trace', version.hash, settings, ENGINE_VERSION);
+  const kind = input.kind ?? 'trace';
+  let settings: unknown;
+  let cacheKey: string;
+  if (input.kind === 'escapes') {
+    // Escape study: values spelled out, noise resolved, budget checked; threads are not part of the identity.
+    const n = normalizeEscapeSettings(version.document, input.settings);
+    checkRequestBudget(version.document, n.stored);
+    settings = n.stored;
+    cacheKey = resultCacheKey('escapes', version.hash, n.identity, ENGINE_VERSION);
+  } else {
+    settings = normalizeSettings(version.document, input.settings as RunSettings);
+    cacheKey = resultCacheKey(kind, version.hash, settings, ENGINE_VERSION);
+  }
   const runId = await db.transaction(async (trx) => {
     const model = await trx('models').where({ id: input.modelId, workspace_id: workspaceId }).first();
     if (!model) throw notFound('model');
     if (model.archived_at) throw conflict('model is archived; unarchive it before starting runs');
-    const stored = await trx('results').where({ cache_key: cacheKey }).first('id');
+    const stored = kind === 'escapes'
+      ? await trx('escape_studies').where({ cache_key: cacheKey }).first('id')
+      : await trx('results').where({ cache_key: cacheKey }).first('id');
     const base = {
       workspace_id: workspaceId,
       model_id: input.modelId,
       model_version_id: version.id,
-      kind: input.kind ?? 'trace',
+      kind,
       settings: JSON.stringify(settings),
       cache_key: cacheKey,
       queue: input.queue ?? 'default',
@@ -147,11 +163,11 @@ export async function startRun(workspaceId: string, actorId: string | null, inpu
       engine_version: ENGINE_VERSION,
     };
     const [id] = await trx('runs').insert(stored
-      ? { ...base, status: 'done', progress: 1, phrase: 'reused a stored result of identical inputs', result_id: stored.id, reused: true,
+      ? { ...base, status: 'done', progress: 1, phrase: 'reused a stored result of identical inputs', [kind === 'escapes' ? 'escape_study_id' : 'result_id']: stored.id, reused: true,
           started_at: trx.raw('CURRENT_TIMESTAMP(3)'), finished_at: trx.raw('CURRENT_TIMESTAMP(3)') }
       : { ...base, status: 'queued', phrase: 'waiting for a worker' });
     await recordAudit(trx, { workspaceId, actorId, action: 'run.start', targetType: 'run', targetId: id,
-      details: { modelId: input.modelId, version: version.number, reusedResult: stored?.id ?? null } });
+      details: { modelId: input.modelId, version: version.number, kind, reusedResult: stored?.id ?? null } });
     return id as number;
   });
   return (await getRun(workspaceId, runId))!;
@@ -179,7 +195,7 @@ export async function cancelRun(workspaceId: string, actorId: string, runId: num
 export async function getRunProgress(workspaceId: string, runId: number) {
   if (!Number.isSafeInteger(runId)) return null;
   const r = await db('runs').where({ id: runId, workspace_id: workspaceId })
-    .first('id', 'status', 'progress', 'phrase', 'error', 'result_id', 'attempts', 'heartbeat_at', 'finished_at');
+    .first('id', 'kind', 'status', 'progress', 'phrase', 'progress_detail', 'error', 'result_id', 'escape_study_id', 'attempts', 'heartbeat_at', 'finished_at');
   if (!r) return null;
   return {
     id: r.id as number,
@@ -188,6 +204,10 @@ export async function getRunProgress(workspaceId: string, runId: number) {
     phrase: r.phrase as string,
     error: parseJson(r.error),
     resultId: r.result_id as number | null,
+    kind: r.kind as string,
+    /** Escape runs: paths done per parameter value ({ values: [{ p, pathsDone, paths, status }] }). */
+    detail: parseJson(r.progress_detail),
+    escapeStudyId: (r.escape_study_id ?? null) as number | null,
     attempts: r.attempts as number,
     heartbeatAt: iso(r.heartbeat_at),
     finishedAt: iso(r.finished_at),

@@ -1,44 +1,42 @@
 import { z } from 'zod';
+import { escapeSettingsSchema } from '../escapes/schema.ts';
+import { runSettingsSchema } from './trace-settings-schema.ts';
 
-const finite = z.number().finite('must be a finite number');
-
-/**
- * Settings a person may give a trace run, a subset of the engine's TraceSettings under the same
- * names (src/lib/atlas/trace-settings.ts). Everything is optional: the model document's sweep range
- * and the engine's defaults apply otherwise. The settings are part of the result's identity, so
- * they are kept small and explicit (no free-form keys).
- */
-export const runSettingsSchema = z.object({
-  from: finite.optional(),
-  to: finite.optional(),
-  /** Cap on points per branch (engine default 20000). */
-  maxPointsPerBranch: z.number().int().min(10, 'at least 10').max(100000, 'at most 100000').optional(),
-  /** Pseudo-arclength steps as fractions of the sweep width (engine defaults 2e-3, 1e-9, 2e-2). */
-  initialStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
-  minStep: z.number().positive('must be positive').max(0.1, 'at most 0.1').optional(),
-  maxStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
-  /** Largest parameter change per step, fraction of the sweep width (engine default 1/600). */
-  maxParameterStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
-}).strict().superRefine((s, ctx) => {
-  if (s.from !== undefined && s.to !== undefined && s.from === s.to) {
-    ctx.addIssue({ code: 'custom', path: ['to'], message: 'must differ from settings.from' });
-  }
-  if (s.minStep !== undefined && s.maxStep !== undefined && s.minStep > s.maxStep) {
-    ctx.addIssue({ code: 'custom', path: ['minStep'], message: 'must not exceed settings.maxStep' });
-  }
-});
+export { runSettingsSchema };
 
 export type RunSettings = z.infer<typeof runSettingsSchema>;
 
-export const startRunSchema = z.object({
+const startTraceRunSchema = z.object({
   modelId: z.number().int().positive(),
   /** Version number within the model; the latest when absent. */
   version: z.number().int().positive().optional(),
-  kind: z.literal('trace').default('trace'),
+  kind: z.literal('trace'),
   settings: runSettingsSchema.default({}),
   /** Send the person who started the run an e-mail when it finishes or fails. */
   notify: z.boolean().default(false),
 }).strict();
+
+/** An escape study (docs/noise.md, "Escape studies as runs"); settings in ../escapes/schema.ts. */
+const startEscapeRunSchema = z.object({
+  modelId: z.number().int().positive(),
+  version: z.number().int().positive().optional(),
+  kind: z.literal('escapes'),
+  settings: escapeSettingsSchema,
+  notify: z.boolean().default(false),
+}).strict();
+
+export const RUN_KINDS = ['trace', 'escapes'] as const;
+export type RunKind = (typeof RUN_KINDS)[number];
+
+/** POST /api/runs: `kind` 'trace' (the default when absent) or 'escapes', each with its own settings. */
+export const startRunSchema = z.preprocess(
+  (v) => (v && typeof v === 'object' && !Array.isArray(v) && !('kind' in v) ? { ...v, kind: 'trace' } : v),
+  z.discriminatedUnion('kind', [startTraceRunSchema, startEscapeRunSchema], {
+    errorMap: (issue, ctx) => (issue.code === 'invalid_union_discriminator' ? { message: "must be 'trace' or 'escapes'" } : { message: ctx.defaultError }),
+  }),
+);
+
+export type StartRunRequest = z.infer<typeof startRunSchema>;
 
 export const RUN_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export type RunStatus = (typeof RUN_STATUSES)[number];

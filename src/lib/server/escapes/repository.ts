@@ -1,0 +1,144 @@
+/**
+ * Escape studies in the database: the atlas a study stands on (a stored trace result of the same
+ * version and trace settings), the per-value rows written while the run goes on, finishing the run
+ * with its study row, and reading a run's study for the API.
+ */
+import type { Knex } from 'knex';
+import { db } from '../db.ts';
+import { ENGINE_VERSION } from '../../atlas/engine-version.ts';
+import { recordAudit } from '../models/audit.ts';
+import { conflict, notFound } from '../models/service-error.ts';
+import { resultCacheKey } from '../runs/cache-key.ts';
+import { normalizeSettings } from '../runs/normalize-settings.ts';
+import type { ComputeOutput } from '../runs/compute.ts';
+import type { ClaimedRun } from '../runs/queue.ts';
+import { runQuery, toRunInfo, type RunInfo } from '../runs/repository.ts';
+import type { RunSettings } from '../runs/schemas.ts';
+import type { EscapeStudySummary } from './compute.ts';
+import { decodePoint, type EscapePoint, type EscapePointDbRow } from './rows.ts';
+
+/** The cache key of the atlas: exactly a trace run's of the same version and (normalized) trace settings. */
+export function atlasCacheKey(versionHash: string, document: unknown, atlas: RunSettings): string {
+  return resultCacheKey('trace', versionHash, normalizeSettings(document, atlas), ENGINE_VERSION);
+}
+
+/** A stored trace result with that key: its id and diagram text. */
+export async function findAtlas(cacheKey: string, k: Knex = db): Promise<{ id: number; diagramJson: string } | null> {
+  const row = await k('results').where({ cache_key: cacheKey }).first('id', 'diagram');
+  return row ? { id: row.id, diagramJson: row.diagram } : null;
+}
+
+/** Stores a trace result computed as the first part of an escape run (or reads the one a concurrent run stored). */
+export async function storeAtlas(cacheKey: string, out: ComputeOutput, k: Knex = db): Promise<number> {
+  const existing = await k('results').where({ cache_key: cacheKey }).first('id');
+  if (existing) return existing.id;
+  try {
+    const [id] = await k('results').insert({
+      cache_key: cacheKey, engine_version: ENGINE_VERSION, diagram: out.diagramJson, regimes: out.regimesJson,
+      preview: out.previewJson, preview_points: out.previewPoints, branch_count: out.branchCount,
+      point_count: out.pointCount, special_point_count: out.specialPointCount, compute_ms: out.computeMs,
+    });
+    return id;
+  } catch (e) {
+    if ((e as { errno?: number }).errno !== 1062) throw e;
+    return (await k('results').where({ cache_key: cacheKey }).first('id')).id;
+  }
+}
+
+/** Indices of the values stored under this key (what a retry does not compute again). */
+export async function storedValueIndices(cacheKey: string, k: Knex = db): Promise<number[]> {
+  const rows = await k('escape_points').where({ cache_key: cacheKey }).select('idx').orderBy('idx');
+  return rows.map((r) => Number(r.idx));
+}
+
+/** One finished value. A row already there (another attempt or run of the same inputs) is kept: the numbers are the same. */
+export async function storeValue(cacheKey: string, row: EscapePointDbRow, k: Knex = db): Promise<void> {
+  await k('escape_points').insert({ ...row, cache_key: cacheKey }).onConflict(['cache_key', 'idx']).ignore();
+}
+
+/**
+ * Writes the study row (or reuses the one with the same key) and finishes the run, in one
+ * transaction; false when the run stopped being ours (cancelled, or taken over).
+ */
+export async function completeEscapeRun(run: ClaimedRun, owner: string, summary: EscapeStudySummary | { reuse: number }, atlasResultId: number | null, k: Knex = db): Promise<boolean> {
+  return k.transaction(async (trx) => {
+    const row = await trx('runs').where({ id: run.id }).forUpdate().first('status', 'lease_owner');
+    if (!row || row.status !== 'running' || row.lease_owner !== owner) return false;
+    let studyId: number;
+    let reused = false;
+    if ('reuse' in summary) {
+      studyId = summary.reuse;
+      reused = true;
+    } else {
+      const existing = await trx('escape_studies').where({ cache_key: run.cacheKey }).first('id');
+      if (existing) {
+        studyId = existing.id;
+        reused = true;
+      } else {
+        try {
+          [studyId] = await trx('escape_studies').insert({
+            cache_key: run.cacheKey, engine_version: ENGINE_VERSION, atlas_result_id: atlasResultId, parameter: summary.parameter,
+            noise: summary.noise, start: summary.start, value_count: summary.valueCount,
+            exit_switches: JSON.stringify(summary.exitSwitches), band_edges: JSON.stringify(summary.bandEdges),
+            diagnostics: JSON.stringify(summary.diagnostics), compute_ms: summary.computeMs,
+          });
+        } catch (e) {
+          if ((e as { errno?: number }).errno !== 1062) throw e;
+          studyId = (await trx('escape_studies').where({ cache_key: run.cacheKey }).first('id')).id;
+          reused = true;
+        }
+      }
+    }
+    // The last word on paths done per value: the stored rows (the last heartbeat may predate the last value).
+    const stored = await trx('escape_points').where({ cache_key: run.cacheKey }).orderBy('idx').select('p', 'paths', 'status');
+    const values = stored.map((r) => ({ p: Number(r.p), paths: Number(r.paths), pathsDone: Number(r.paths), status: r.status }));
+    await trx('runs').where({ id: run.id }).update({
+      status: 'done', progress: 1, phrase: reused ? 'reused a stored study of identical inputs' : 'finished',
+      progress_detail: JSON.stringify({ values }),
+      escape_study_id: studyId, reused, lease_owner: null, lease_expires_at: null, error: null,
+      finished_at: trx.raw('NOW(3)'), heartbeat_at: trx.raw('NOW(3)'),
+    });
+    await recordAudit(trx, { workspaceId: run.workspaceId, actorId: null, action: 'run.done', targetType: 'run', targetId: run.id, details: { escapeStudyId: studyId, reused, worker: owner } });
+    return true;
+  }, { isolationLevel: 'read committed' });
+}
+
+export async function findStudyId(cacheKey: string, k: Knex = db): Promise<number | null> {
+  const row = await k('escape_studies').where({ cache_key: cacheKey }).first('id');
+  return row ? (row.id as number) : null;
+}
+
+export interface StoredEscapeStudy {
+  run: RunInfo;
+  study: {
+    id: number; engineVersion: string; atlasResultId: number | null; parameter: string; noise: number; start: string;
+    valueCount: number; exitSwitches: unknown[]; bandEdges: unknown[]; diagnostics: unknown[]; computeMs: number; createdAt: string;
+  } | null;
+  /** Values stored so far, in parameter order (a running study shows the finished ones). */
+  points: EscapePoint[];
+}
+
+const parse = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v ?? null);
+
+/**
+ * A run's escape study: the run, the study row once finished, and every stored value (also while
+ * the run is going on). Another workspace's run, or a missing one: 404; a trace run: 409.
+ */
+export async function getRunEscapes(workspaceId: string, runId: number): Promise<StoredEscapeStudy> {
+  if (!Number.isSafeInteger(runId)) throw notFound('run');
+  const row = await runQuery(db, workspaceId).andWhere('r.id', runId).first();
+  if (!row) throw notFound('run');
+  const run = toRunInfo(row);
+  if (run.kind !== 'escapes') throw conflict(`run ${runId} is a ${run.kind} run, not an escape study`);
+  const s = run.escapeStudyId !== null ? await db('escape_studies').where({ id: run.escapeStudyId }).first() : null;
+  const rows = await db('escape_points').where({ cache_key: row.cache_key }).orderBy('idx');
+  return {
+    run,
+    study: s ? {
+      id: s.id, engineVersion: s.engine_version, atlasResultId: s.atlas_result_id, parameter: s.parameter, noise: Number(s.noise), start: s.start,
+      valueCount: s.value_count, exitSwitches: parse(s.exit_switches) ?? [], bandEdges: parse(s.band_edges) ?? [],
+      diagnostics: parse(s.diagnostics) ?? [], computeMs: s.compute_ms, createdAt: new Date(s.created_at).toISOString(),
+    } : null,
+    points: rows.map(decodePoint),
+  };
+}

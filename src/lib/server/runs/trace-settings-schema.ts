@@ -1,0 +1,31 @@
+/** The trace run's settings schema, on its own so that runs/schemas.ts and escapes/schema.ts can both use it. */
+import { z } from 'zod';
+
+const finite = z.number().finite('must be a finite number');
+
+/**
+ * Settings a person may give a trace run, a subset of the engine's TraceSettings under the same
+ * names (src/lib/atlas/trace-settings.ts). Everything is optional: the model document's sweep range
+ * and the engine's defaults apply otherwise. The settings are part of the result's identity, so
+ * they are kept small and explicit (no free-form keys).
+ */
+export const runSettingsSchema = z.object({
+  from: finite.optional(),
+  to: finite.optional(),
+  /** Cap on points per branch (engine default 20000). */
+  maxPointsPerBranch: z.number().int().min(10, 'at least 10').max(100000, 'at most 100000').optional(),
+  /** Pseudo-arclength steps as fractions of the sweep width (engine defaults 2e-3, 1e-9, 2e-2). */
+  initialStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
+  minStep: z.number().positive('must be positive').max(0.1, 'at most 0.1').optional(),
+  maxStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
+  /** Largest parameter change per step, fraction of the sweep width (engine default 1/600). */
+  maxParameterStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
+}).strict().superRefine((s, ctx) => {
+  if (s.from !== undefined && s.to !== undefined && s.from === s.to) {
+    ctx.addIssue({ code: 'custom', path: ['to'], message: 'must differ from settings.from' });
+  }
+  if (s.minStep !== undefined && s.maxStep !== undefined && s.minStep > s.maxStep) {
+    ctx.addIssue({ code: 'custom', path: ['minStep'], message: 'must not exceed settings.maxStep' });
+  }
+});
+
