@@ -6,6 +6,12 @@
 import type { MessagePort } from 'node:worker_threads';
 import { computeTrace, type ComputeOutput } from '../lib/server/runs/compute.ts';
 import type { RunSettings } from '../lib/server/runs/schemas.ts';
+import { computeEscapeStudy, type EscapeStudySummary, type StudyRunner, type ValueProgress } from '../lib/server/escapes/compute.ts';
+import type { EscapePointDbRow } from '../lib/server/escapes/rows.ts';
+import type { StoredEscapeSettings } from '../lib/server/escapes/schema.ts';
+import { simulateEscapePaths } from '../lib/noise/monte-carlo.ts';
+import { compileModelJson } from '../lib/model/index.ts';
+import { EscapePool } from './escape-pool.ts';
 
 export interface ComputeTask {
   readonly documentText: string;
@@ -17,7 +23,24 @@ export interface ComputeTask {
   readonly testDelayMs: number;
 }
 
-export interface ProgressMessage { readonly fraction: number; readonly phrase: string }
+/**
+ * An escape study (run kind 'escapes'): the atlas' diagram comes in as stored text, the values in
+ * `done` are stored already (a retry resumes after them). Every finished value is posted as a
+ * `point` message, and the thread waits for the worker's `stored` acknowledgement before going on.
+ */
+export interface EscapeComputeTask extends Omit<ComputeTask, 'settings'> {
+  readonly kind: 'escapes';
+  readonly diagramJson: string;
+  readonly settings: StoredEscapeSettings;
+  readonly done: number[];
+  /** Threads of the escape pool (already capped at the machine's cores); 1 simulates in this thread. */
+  readonly threads: number;
+}
+
+export interface EscapeTaskOutput { readonly kind: 'escapes'; readonly cancelled: boolean; readonly summary: EscapeStudySummary | null }
+
+export interface ProgressMessage { readonly fraction: number; readonly phrase: string; readonly values?: ValueProgress[] }
+export interface PointMessage { readonly point: EscapePointDbRow }
 
 /** A failure inside the thread, returned as data because custom error classes do not survive the thread boundary. */
 export interface TaskFailure {
@@ -25,10 +48,77 @@ export interface TaskFailure {
 }
 
 export type TaskResult = ComputeOutput | TaskFailure;
+export type EscapeTaskResult = EscapeTaskOutput | TaskFailure;
 
 const PROGRESS_INTERVAL_MS = 100;
 
-export default function computeTask(task: ComputeTask): TaskResult {
+export default function computeTask(task: ComputeTask | EscapeComputeTask): TaskResult | Promise<EscapeTaskResult> {
+  if ('kind' in task && task.kind === 'escapes') return escapeTask(task);
+  return traceTask(task as ComputeTask);
+}
+
+function testDelay(task: { testDelayMs: number }, flag: Int32Array, post: (f: number, phrase: string, force?: boolean) => void, share: number): void {
+  const until = Date.now() + task.testDelayMs;
+  while (Atomics.load(flag, 0) !== 1 && Date.now() < until) {
+    const left = until - Date.now();
+    post(share * (1 - left / task.testDelayMs), 'test delay before computing', true);
+    Atomics.wait(flag, 0, 0, Math.min(50, Math.max(1, left)));
+  }
+}
+
+async function escapeTask(task: EscapeComputeTask): Promise<EscapeTaskResult> {
+  const flag = new Int32Array(task.cancelFlag);
+  const isCancelled = () => Atomics.load(flag, 0) === 1;
+  let last = 0;
+  const post = (fraction: number, phrase: string, force = false, values?: ValueProgress[]) => {
+    const now = Date.now();
+    if (!force && now - last < PROGRESS_INTERVAL_MS) return;
+    last = now;
+    task.port.postMessage({ fraction, phrase, values: values?.map((v) => ({ ...v })) } satisfies ProgressMessage);
+  };
+  // Acknowledgements of stored points come back over the same port.
+  const acks: (() => void)[] = [];
+  task.port.on('message', (m: { stored?: number }) => { if (m && typeof m.stored === 'number') acks.shift()?.(); });
+  let pool: EscapePool | null = null;
+  try {
+    if (task.testDelayMs > 0) testDelay(task, flag, (f, p, force) => post(f, p, force), 0);
+    if (isCancelled()) return { kind: 'escapes', cancelled: true, summary: null };
+    const model = JSON.parse(task.documentText);
+    let runner: StudyRunner;
+    if (task.threads > 1) {
+      const escapePool = new EscapePool(task.threads);
+      pool = escapePool;
+      runner = (setup, run) => escapePool.run({ model, setup, dt: run.dt, tMax: run.tMax, seed: run.seed, count: run.count, cancelFlag: task.cancelFlag, progress: (r) => run.onPaths?.(r.pathsDone) });
+    } else {
+      const system = compileModelJson(model);
+      const signal = { get aborted() { return isCancelled(); } };
+      runner = async (setup, run) => simulateEscapePaths(system, setup, {
+        dt: run.dt, tMax: run.tMax, seed: run.seed, count: run.count, signal,
+        progress: (r) => { if (r.pathsDone !== undefined) run.onPaths?.(r.pathsDone); },
+      });
+    }
+    const out = await computeEscapeStudy(task.documentText, task.diagramJson, task.settings, task.done, runner, {
+      onProgress: (f, phrase, values) => post(f, phrase, f >= 1, values),
+      isCancelled,
+      onPoint: (point) => new Promise<void>((resolve) => {
+        acks.push(resolve);
+        task.port.postMessage({ point } satisfies PointMessage);
+      }),
+    });
+    return { kind: 'escapes', ...out };
+  } catch (e) {
+    const err = e as { name?: string; message?: string; issues?: unknown; code?: string };
+    if (err?.name === 'ModelError') return { failed: { code: 'model-error', message: err.message ?? 'invalid model', issues: err.issues, deterministic: true } };
+    if (err?.name === 'EscapeStudyRefused') return { failed: { code: err.code ?? 'refused', message: err.message ?? 'refused', deterministic: true } };
+    if (err?.name === 'NoiseSettingError') return { failed: { code: 'invalid-settings', message: err.message ?? 'invalid settings', deterministic: true } };
+    return { failed: { code: 'compute-error', message: `${err?.name ?? 'Error'}: ${err?.message ?? String(e)}`.slice(0, 500), deterministic: false } };
+  } finally {
+    await pool?.close().catch(() => undefined);
+    task.port.close();
+  }
+}
+
+function traceTask(task: ComputeTask): TaskResult {
   const flag = new Int32Array(task.cancelFlag);
   const isCancelled = () => Atomics.load(flag, 0) === 1;
   let last = 0;

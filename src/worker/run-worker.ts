@@ -14,6 +14,12 @@ import {
 import type { ComputeOutput } from '../lib/server/runs/compute.ts';
 import type { ComputeTask, ProgressMessage, TaskResult } from './compute-task.ts';
 import { notifyRunFinished } from '../lib/server/runs/notify.ts';
+import { availableParallelism } from 'node:os';
+import type { EscapeComputeTask, EscapeTaskResult, PointMessage } from './compute-task.ts';
+import type { StoredEscapeSettings } from '../lib/server/escapes/schema.ts';
+import {
+  atlasCacheKey, completeEscapeRun, findAtlas, findStudyId, storeAtlas, storedValueIndices, storeValue,
+} from '../lib/server/escapes/repository.ts';
 
 export interface WorkerOptions {
   /** Queue name to take runs from. */
@@ -139,6 +145,7 @@ export class RunWorker {
   private async process(run: ClaimedRun): Promise<void> {
     const log = this.opts.log;
     log(`run ${run.id}: claimed (attempt ${run.attempt})`);
+    if (run.kind === 'escapes') return this.processEscapes(run);
     const reuse = await findResultId(run.cacheKey).catch(() => null);
     if (reuse !== null) {
       const ok = await completeRun(run, this.owner, { reuse }, ENGINE_VERSION).catch(() => false);
@@ -235,6 +242,146 @@ export class RunWorker {
       if (status === 'failed') await this.notify(run, 'failed');
     } catch (e) {
       // The database went away while finishing: the lease will expire and another worker retries.
+      log(`run ${run.id}: could not record the outcome (${short(e)}); the lease will lapse and the run be retried`);
+    }
+  }
+
+  /**
+   * An escape study (docs/noise.md, "Escape studies as runs"): the atlas (a stored trace result of
+   * the same version and trace settings, or computed now and stored as one), then the study in a
+   * pool thread, every finished parameter value stored as it arrives, so a retry resumes after it.
+   * Same lease, heartbeat, cancel and retry rules as trace runs.
+   */
+  private async processEscapes(run: ClaimedRun): Promise<void> {
+    const log = this.opts.log;
+    const settings = run.settings as unknown as StoredEscapeSettings;
+    const reuse = await findStudyId(run.cacheKey).catch(() => null);
+    if (reuse !== null) {
+      const ok = await completeEscapeRun(run, this.owner, { reuse }, null).catch(() => false);
+      log(`run ${run.id}: ${ok ? `reused stored escape study ${reuse}` : 'lost before reuse could be recorded'}`);
+      if (ok) await this.notify(run, 'done');
+      return;
+    }
+    const a: Active = { run, cancelFlag: new Int32Array(new SharedArrayBuffer(4)), abort: new AbortController(), lost: false };
+    this.active.add(a);
+    if (this.stopping) Atomics.store(a.cancelFlag, 0, 1);
+    let progress: { fraction: number; phrase: string; values?: unknown } = { fraction: 0, phrase: 'starting' };
+    let beating = false;
+    const beat = async () => {
+      if (beating || a.lost) return;
+      beating = true;
+      try {
+        const detail = progress.values ? { values: progress.values } : undefined;
+        const ours = await heartbeat(run.id, this.owner, this.opts.leaseMs, progress.fraction, progress.phrase, undefined, detail);
+        if (!ours) this.cancelThread(a, 'the run was cancelled or taken over');
+      } catch (e) {
+        log(`run ${run.id}: heartbeat failed (${short(e)})`);
+      } finally {
+        beating = false;
+      }
+    };
+    const timer = setInterval(beat, this.opts.heartbeatMs);
+    let failure: unknown = null;
+    let deterministic = false;
+    let result: EscapeTaskResult | null = null;
+    let atlasId: number | null = null;
+    let stores: Promise<void> = Promise.resolve();
+    try {
+      // 1. The atlas of the same version and sweep.
+      const key = atlasCacheKey(run.versionHash, JSON.parse(run.documentText), settings.atlas ?? {});
+      let atlas = await findAtlas(key);
+      if (atlas) {
+        log(`run ${run.id}: atlas from stored trace result ${atlas.id}`);
+      } else {
+        progress = { fraction: 0, phrase: 'computing the atlas first' };
+        const { port1, port2 } = new MessageChannel();
+        port1.on('message', (m: ProgressMessage) => { progress = { fraction: 0.1 * m.fraction, phrase: `atlas: ${m.phrase}` }; });
+        port1.unref();
+        const task: ComputeTask = { documentText: run.documentText, settings: settings.atlas ?? {}, port: port2, cancelFlag: a.cancelFlag.buffer as SharedArrayBuffer, testDelayMs: 0 };
+        try {
+          const out: TaskResult = await this.pool.run(task, { transferList: [port2], signal: a.abort.signal });
+          if ('failed' in out) {
+            failure = out.failed;
+            deterministic = out.failed.deterministic;
+          } else if (!out.cancelled) {
+            const id = await storeAtlas(key, out);
+            atlas = { id, diagramJson: out.diagramJson };
+            log(`run ${run.id}: atlas computed and stored as trace result ${id}`);
+          }
+        } finally {
+          port1.close();
+        }
+      }
+      // 2. The study, resuming after the values stored by earlier attempts.
+      if (atlas && !failure) {
+        atlasId = atlas.id;
+        const done = await storedValueIndices(run.cacheKey);
+        if (done.length > 0) log(`run ${run.id}: resuming after ${done.length} stored parameter value(s)`);
+        const { port1, port2 } = new MessageChannel();
+        port1.on('message', (m: ProgressMessage | PointMessage) => {
+          if ('point' in m) {
+            const point = m.point;
+            stores = stores.then(() => storeValue(run.cacheKey, point)).then(
+              () => log(`run ${run.id}: stored parameter value ${point.idx + 1} of ${settings.values.length} (p = ${point.p})`),
+              (e) => log(`run ${run.id}: could not store parameter value ${point.idx} (${short(e)}); a retry computes it again`),
+            ).finally(() => { try { port1.postMessage({ stored: point.idx }); } catch { /* thread gone */ } });
+          } else {
+            progress = { fraction: 0.1 + 0.9 * m.fraction, phrase: m.phrase, values: m.values };
+          }
+        });
+        const task: EscapeComputeTask = {
+          kind: 'escapes', documentText: run.documentText, diagramJson: atlas.diagramJson, settings, done,
+          threads: Math.max(1, Math.min(settings.threads ?? 1, availableParallelism())),
+          port: port2, cancelFlag: a.cancelFlag.buffer as SharedArrayBuffer, testDelayMs: this.opts.testDelayMs,
+        };
+        try {
+          result = await this.pool.run(task, { transferList: [port2], signal: a.abort.signal });
+          await stores;
+        } finally {
+          port1.close();
+        }
+        if (result && 'failed' in result) {
+          failure = result.failed;
+          deterministic = result.failed.deterministic;
+        }
+      }
+    } catch (e) {
+      failure = e;
+    } finally {
+      clearInterval(timer);
+      this.active.delete(a);
+    }
+    try {
+      const cancelled = !failure && (!result || ('cancelled' in result && result.cancelled));
+      if (this.stopping && !a.lost && cancelled) {
+        await releaseRun(run, this.owner);
+        log(`run ${run.id}: handed back to the queue (worker stopping)`);
+        return;
+      }
+      if (a.lost || cancelled) {
+        log(`run ${run.id}: stopped (cancelled or taken over); stored values are kept for a retry`);
+        return;
+      }
+      if (result && 'summary' in result && result.summary) {
+        // A value whose row could not be stored (database hiccup) is computed again by a retry.
+        const stored = await storedValueIndices(run.cacheKey);
+        if (stored.length < settings.values.length) {
+          const error = { code: 'values-missing', message: `${settings.values.length - stored.length} of ${settings.values.length} parameter values could not be stored` };
+          const status = await failRun(run, this.owner, error, true);
+          log(`run ${run.id}: ${error.message}; ${status === 'queued' ? 'queued for retry' : 'ended failed'}`);
+          if (status === 'failed') await this.notify(run, 'failed');
+          return;
+        }
+        const ok = await completeEscapeRun(run, this.owner, result.summary, atlasId);
+        log(`run ${run.id}: ${ok ? `done (${result.summary.valueCount} parameter values, ${result.summary.computeMs} ms)` : 'finished but no longer ours; discarded'}`);
+        if (ok) await this.notify(run, 'done');
+        return;
+      }
+      const error = describeFailure(failure);
+      const status = await failRun(run, this.owner, error, !deterministic);
+      log(`run ${run.id}: attempt failed (${error.message}); ${status === 'queued' ? 'queued for retry' : status === 'failed' ? 'ended failed' : 'no longer ours'}`);
+      if (status === 'failed') await this.notify(run, 'failed');
+    } catch (e) {
       log(`run ${run.id}: could not record the outcome (${short(e)}); the lease will lapse and the run be retried`);
     }
   }
