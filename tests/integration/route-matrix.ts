@@ -17,6 +17,7 @@ import type { Client, WorkspaceFixture } from './helpers.ts';
 import { serviceRoutes } from './route-matrix-service.ts';
 import { editorRoutes } from './route-matrix-editor.ts';
 import { compareRoutes } from './route-matrix-compare.ts';
+import { escapeRoutes } from './route-matrix-escapes.ts';
 
 export type Caller = 'signedOut' | 'outsider' | 'owner' | 'modeler' | 'reviewer';
 export type Vars = Record<string, string>;
@@ -165,4 +166,5 @@ export const routeMatrix: RouteCase[] = [
   ...serviceRoutes,
   ...editorRoutes,
   ...compareRoutes,
+  ...escapeRoutes,
 ];
