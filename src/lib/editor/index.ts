@@ -12,3 +12,4 @@ export * from './directed-links';
 export * from './undo-history';
 export * from './unique-name';
 export * from './model-diff';
+export * from './preview-words';
