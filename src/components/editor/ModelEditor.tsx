@@ -1,6 +1,6 @@
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import {
-  changeKind, documentToState, emptyEditorState, fieldLabel, modelNameKey, nextFreeName, recordChange, redo, startHistory, undo, plainMessage, previewMessage, stateToDocument, unknownSymbols, type EditorState, type FieldIssue, type LabelContext, type NetworkDocument,
+  changeKind, documentToState, emptyEditorState, fieldLabel, modelNameKey, nextFreeName, recordChange, redo, startHistory, undo, plainMessage, engineWords, stateToDocument, unknownSymbols, type EditorState, type FieldIssue, type LabelContext, type NetworkDocument,
 } from '../../lib/editor';
 import type { Diagram, Diagnostic } from '../../lib/atlas/types';
 import { api } from './api-client';
@@ -410,7 +410,7 @@ export default function ModelEditor({ modelId, initialDocument, initialDescripti
             </div>
             {preview.diagnostics.filter((d) => d.level !== 'info').length > 0 ? (
               <ul className="ed-diagnostics">
-                {preview.diagnostics.filter((d) => d.level !== 'info').slice(0, 6).map((d, k) => <li key={k}>{previewMessage(d.message)}</li>)}
+                {preview.diagnostics.filter((d) => d.level !== 'info').slice(0, 6).map((d, k) => <li key={k}>{engineWords(d.message)}</li>)}
               </ul>
             ) : null}
           </>

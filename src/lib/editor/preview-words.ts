@@ -11,7 +11,7 @@ const SETTING_NAMES: readonly [RegExp, string][] = [
   [/\bF_p\b/g, 'the parameter derivative'],
 ];
 
-export function previewMessage(message: string): string {
+export function engineWords(message: string): string {
   let out = message;
   // The bracketed pair first, before its parts are replaced one by one.
   out = out.replace(/\[J_x \| F_p\]/g, 'the Jacobian extended by the parameter derivative');
