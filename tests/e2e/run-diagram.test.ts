@@ -214,6 +214,15 @@ describe('a seeded demo run page, as the demo modeler', () => {
     });
     expect(inked.length).toBeGreaterThan(0);
     expect(inked).toEqual(inked.map((l) => ({ name: l.name, inked: 0 })));
+    // Every name lies inside the plot, also a tag near the end of the sweep.
+    const outside = await page.evaluate(() => {
+      const c = document.querySelector('[data-testid=diagram-canvas]')!.getBoundingClientRect();
+      return [...document.querySelectorAll('[data-testid=tag-label]')].filter((el) => {
+        const r = el.getBoundingClientRect();
+        return r.left < c.left - 0.5 || r.right > c.right + 0.5;
+      }).map((el) => el.textContent);
+    });
+    expect(outside).toEqual([]);
     await page.getByTestId('run-diagram').scrollIntoViewIfNeeded();
     // The panel scrolls on its own; show its head (band, reason, escape graph) in the screenshot.
     await page.getByTestId('side-panel').evaluate((el) => { el.scrollTop = 0; });

@@ -310,8 +310,11 @@ export function DiagramView(props: DiagramViewProps) {
     const x0 = Math.max(-2, xs(t.from)), x1 = Math.min(plotW + 2, xs(t.to));
     if (x1 <= x0) return { x0: -1e9, x1: -1e9, y0: -1e9, y1: -1e9 };
     const y = plotH - 10 - row * 13;
-    // labelWidth estimates upright text; the italic names run a little wider: 8 % more.
-    return { x0: x0 + 2, x1: x0 + 6 + 1.08 * labelWidth(t.name, 10.5), y0: y - 10, y1: y + 3 };
+    // labelWidth estimates upright text; the italic names run a little wider: 8 % more. A name that
+    // would run past the plot's right edge ends at it instead (a tag near the sweep end).
+    const w = 4 + 1.08 * labelWidth(t.name, 10.5);
+    const left = Math.max(0, Math.min(x0 + 2, plotW - w - 2));
+    return { x0: left, x1: left + w, y0: y - 10, y1: y + 3 };
   };
   const tagRows = showTags ? placeLabels(tags.length, tagBox, drawnRef.current, Math.max(1, Math.floor((plotH - 20) / 13)), STABLE_WIDTH / 2 + 1.5) : [];
   const clipId = useMemo(() => `dg-clip-${Math.random().toString(36).slice(2, 9)}`, []);
