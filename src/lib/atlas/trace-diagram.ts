@@ -294,6 +294,11 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
         onStep: (a, b) => {
           prev = a;
           onStep(a, b);
+          // Once its step is examined, a point's spectrum is needed again only when eigenvalues are
+          // stored: dropping it here keeps the points of the branch being traced small (they live
+          // until the branch ends, so they outlast the young generation; garbage collection was
+          // ~30 % of the 6-node trace, docs/numerics.md §11). Located points keep theirs.
+          if (!s.storeEigenvalues) releaseSpectrum(a);
         },
         stopAt: (b, idx, arc) => {
           const a = prev!;
@@ -437,8 +442,20 @@ function withInserts(points: TracedPoint[], inserts: Insert[]): TracedPoint[] {
   return out;
 }
 
+const releasedSpectrum = Object.freeze({ re: new Float64Array(0), im: new Float64Array(0), ok: true });
+
+/** Drops the spectrum of a traced point whose step has been examined (see runDirection); unstable, det, t, y stay. */
+function releaseSpectrum(q: TracedPoint): void {
+  const w = q as { spectrum: TracedPoint['spectrum']; hopf: TracedPoint['hopf'] };
+  w.spectrum = releasedSpectrum;
+  w.hopf = { value: q.hopf.value, critical: null };
+}
+
 function toBranchPoint(q: TracedPoint, n: number, withEig: boolean): BranchPoint {
-  const bp: BranchPoint = { p: q.y[n], x: Array.from(q.y.subarray(0, n)), unstable: q.unstable };
+  // A plain loop: a subarray view plus Array.from per point cost more than the copy itself.
+  const x: number[] = [];
+  for (let i = 0; i < n; i++) x.push(q.y[i]);
+  const bp: BranchPoint = { p: q.y[n], x, unstable: q.unstable };
   if (withEig) return { ...bp, eigenvalues: Array.from(q.spectrum.re, (re, i) => ({ re, im: q.spectrum.im[i] })) };
   return bp;
 }
