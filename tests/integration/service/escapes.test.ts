@@ -31,12 +31,13 @@ describe('an escape study through the API', () => {
     const { modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0501 }), 'Escape lakes');
     const start = await w.modeler.post(ws('/api/runs', w.workspaceId), {
       modelId, kind: 'escapes', notify: true,
-      settings: { noise: 0.45, values: [0.05, 0.15], paths: 300, seed: 7 },
+      // Two threads: the paths run on the escape pool inside the worker's compute thread.
+      settings: { noise: 0.45, values: [0.05, 0.15], paths: 300, seed: 7, threads: 2 },
     });
     expect(start.status, start.text).toBe(201);
     const runId = start.body.run.id;
     expect(start.body.run.kind).toBe('escapes');
-    expect(start.body.run.settings).toMatchObject({ noise: 0.45, values: [0.05, 0.15], paths: 300, seed: 7, start: 'all-base', threads: 1 });
+    expect(start.body.run.settings).toMatchObject({ noise: 0.45, values: [0.05, 0.15], paths: 300, seed: 7, start: 'all-base', threads: 2 });
 
     const done = await until('escape run done', async () => {
       const r = await runRow(runId);
@@ -54,6 +55,8 @@ describe('an escape study through the API', () => {
     // The atlas was computed first and stored as the trace result of the same version: a trace run now reuses it.
     const study = await db('escape_studies').where({ id: done.escape_study_id }).first();
     expect(study.atlas_result_id).not.toBeNull();
+    const listed = await w.reviewer.get(ws(`/api/runs?modelId=${modelId}&kind=escapes`, w.workspaceId));
+    expect(listed.body.items.map((r: any) => r.id)).toEqual([runId]);
     const trace = await w.modeler.post(ws('/api/runs', w.workspaceId), { modelId, settings: {} });
     expect(trace.status).toBe(201);
     expect(trace.body.run).toMatchObject({ status: 'done', reused: true, resultId: study.atlas_result_id, kind: 'trace' });
@@ -128,6 +131,29 @@ describe('refused when requested', () => {
     expect(res.body.error.message).toContain('over the budget of 4.00e+9');
     expect(await db('runs').where({ model_id: modelId }).count({ n: '*' }).first()).toMatchObject({ n: 0 });
   });
+
+  it('over the budget by the prediction (no dt / tMax given): the worker fails the run before any path, without retrying', async () => {
+    const queue = `escapes-budget-${Date.now()}`;
+    const { modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0506 }), 'Slow noise lakes');
+    // At sigma 0.15 the predicted mean escape time at beta = 0.1 is so long that 1000 paths (and 2 x 500 step-check paths) need about 5e10 node-steps.
+    const run = await startRun(w.workspaceId, w.modeler.user!.id, {
+      modelId, kind: 'escapes', notify: false, queue, settings: { noise: 0.15, values: [0.1], paths: 1000, seed: 1, start: 'all-base', threads: 1, atlas: {} },
+    });
+    const wk = spawnWorker(queue);
+    try {
+      const failed = await until('failed', async () => {
+        const r = await runRow(run.id);
+        return r.status === 'failed' && r;
+      }, 120_000, 250);
+      expect(failed.attempts).toBe(1);
+      const error = parse(failed.error);
+      expect(error.code).toBe('over-budget');
+      expect(error.message).toMatch(/^at p = 0\.1, the run needs about \d\.\d\de\+10 node-steps .* over the budget of 4\.00e\+9; .*a smaller tMax/);
+      expect(await db('escape_points').where({ cache_key: failed.cache_key }).count({ n: '*' }).first()).toMatchObject({ n: 0 });
+    } finally {
+      expect(await wk.stop()).toBe(0);
+    }
+  }, 150_000);
 
   it('bad settings: 400 naming the field, nothing stored; reviewers cannot start one', async () => {
     const { modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0503 }), 'Bad settings lakes');

@@ -46,6 +46,8 @@ describe('an owner of workspace B, acting in B, names workspace A ids', () => {
     ['GET', 'result', (i) => `/api/runs/${i.run}/result`],
     ['GET', 'result csv', (i) => `/api/runs/${i.run}/result.csv`],
     ['GET', 'result json', (i) => `/api/runs/${i.run}/result.json`],
+    ['GET', 'escapes', (i) => `/api/runs/${i.run}/escapes`],
+    ['GET', 'escapes csv', (i) => `/api/runs/${i.run}/escapes.csv`],
     ['GET', 'tags', (i) => `/api/runs/${i.run}/tags`],
     ['POST', 'tag', (i) => `/api/runs/${i.run}/tags`, { from: 0, to: 1, name: 'x', colour: '#000000', note: '' }],
     ['PATCH', 'tag', (i) => `/api/tags/${i.tag}`, { note: 'hijack' }],
@@ -66,6 +68,8 @@ describe('an owner of workspace B, acting in B, names workspace A ids', () => {
   it('POST /api/runs with A\'s model id: 404', async () => {
     const res = await b.owner.post(ws('/api/runs', b.workspaceId), { modelId: ids.model });
     expect(res.status).toBe(404);
+    const escapes = await b.owner.post(ws('/api/runs', b.workspaceId), { modelId: ids.model, kind: 'escapes', settings: { noise: 0.3, values: [0.1] } });
+    expect(escapes.status).toBe(404);
   });
 
   it('B\'s lists show none of A\'s models, runs or comments; A\'s rows are untouched', async () => {

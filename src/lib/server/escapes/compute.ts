@@ -89,7 +89,7 @@ export async function computeEscapeStudy(
       prepared.set(i, prepareEscapes(system, diagram, spec, values[i], options));
     } catch (e) {
       if (e instanceof BudgetExceededError) {
-        throw new EscapeStudyRefused('over-budget', `at p = ${values[i]} the ${e.message.replace(/^budget: /, '')}`);
+        throw new EscapeStudyRefused('over-budget', `at p = ${values[i]}, ${e.message.replace(/^budget: /, '').replace(/t-max/g, 'tMax')}`);
       }
       if (!(e instanceof Error) || e.name !== 'NoiseSettingError') throw e;
       prepared.set(i, { reason: e.message.replace(/^at: /, '') });

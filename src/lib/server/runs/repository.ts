@@ -107,6 +107,7 @@ export async function listRuns(
   const filter = (qb: Knex.QueryBuilder) => {
     if (query.modelId !== undefined) qb.andWhere('r.model_id', query.modelId);
     if (query.status !== undefined) qb.andWhere('r.status', query.status);
+    if (query.kind !== undefined) qb.andWhere('r.kind', query.kind);
     return qb;
   };
   const [{ total }] = await filter(db('runs as r').where('r.workspace_id', workspaceId)).count({ total: '*' });

@@ -45,6 +45,7 @@ export const TERMINAL_STATUSES: readonly RunStatus[] = ['done', 'failed', 'cance
 export const listRunsQuerySchema = z.object({
   modelId: z.coerce.number().int().positive().optional(),
   status: z.enum(RUN_STATUSES).optional(),
+  kind: z.enum(RUN_KINDS).optional(),
   page: z.coerce.number().int().min(1).max(100000).default(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(20),
 }).strict();

@@ -4,7 +4,7 @@ import { listRunsQuerySchema, startRunSchema } from '../../../lib/server/runs/sc
 import { listRuns, startRun } from '../../../lib/server/runs/repository.ts';
 import { queryObject } from '../../../lib/server/models/route-params.ts';
 
-/** Runs of the active workspace, newest first: ?modelId=, ?status=, ?page=, ?pageSize=. */
+/** Runs of the active workspace, newest first: ?modelId=, ?status=, ?kind= (trace | escapes), ?page=, ?pageSize=. */
 export const GET = handler(async ({ locals, url }) => {
   const { workspace } = requireRole(locals);
   const q = parseValue(queryObject(url), listRunsQuerySchema);
@@ -12,7 +12,7 @@ export const GET = handler(async ({ locals, url }) => {
 });
 
 /**
- * Start a run: { modelId, version?, settings?, notify? }. 201 with the run, queued for a worker, or
+ * Start a run: { modelId, version?, kind? ('trace' default, or 'escapes': docs/noise.md), settings?, notify? }. 201 with the run, queued for a worker, or
  * already done when a stored result of identical inputs exists (`reused: true`).
  */
 export const POST = handler(async ({ locals, request }) => {
