@@ -353,7 +353,8 @@ export class RunWorker {
     }
     try {
       const cancelled = !failure && (!result || ('cancelled' in result && result.cancelled));
-      if (this.stopping && !a.lost && cancelled) {
+      // As for trace runs: a worker stopping (SIGTERM aborts the thread) hands the run back uncounted.
+      if (this.stopping && !a.lost && !(result && 'summary' in result && result.summary)) {
         await releaseRun(run, this.owner);
         log(`run ${run.id}: handed back to the queue (worker stopping)`);
         return;

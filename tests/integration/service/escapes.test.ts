@@ -262,3 +262,38 @@ describe('cancelling a study', () => {
     }
   }, 180_000);
 });
+
+describe('worker shutdown mid-study', () => {
+  it('SIGTERM: the run goes back to the queue uncounted, the stored values stay, and the next worker resumes', async () => {
+    const queue = `escapes-term-${Date.now()}`;
+    const { modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0507 }), 'Stopped study lakes');
+    const run = await startRun(w.workspaceId, w.modeler.user!.id, {
+      modelId, kind: 'escapes', notify: false, queue,
+      settings: { noise: 0.35, values: [0.04, 0.1, 0.16], paths: 4000, seed: 5, start: 'all-base', threads: 1, atlas: {} },
+    });
+    const cacheKey = (await runRow(run.id)).cache_key as string;
+    const first = spawnWorker(queue);
+    await until('a stored value', async () => (await db('escape_points').where({ cache_key: cacheKey }).count({ n: '*' }).first())!.n as number > 0, 120_000, 50);
+    expect(await first.stop()).toBe(0);
+    const back = await runRow(run.id);
+    const kept = await db('escape_points').where({ cache_key: cacheKey }).orderBy('idx');
+    if (kept.length < 3) {
+      expect(back.status).toBe('queued');
+      expect(back.attempts).toBe(0);
+      expect(first.output()).toMatch(new RegExp(`run ${run.id}: handed back to the queue`));
+    }
+    const second = spawnWorker(queue);
+    try {
+      const done = await until('done', async () => {
+        const r = await runRow(run.id);
+        return r.status === 'done' && r;
+      }, 120_000, 250);
+      expect(done.attempts).toBe(1);
+      const rows = await db('escape_points').where({ cache_key: cacheKey }).orderBy('idx');
+      expect(rows.map((r) => r.idx)).toEqual([0, 1, 2]);
+      for (const k of kept) expect(rows.find((r) => r.idx === k.idx)!.id).toBe(k.id);
+    } finally {
+      expect(await second.stop()).toBe(0);
+    }
+  }, 240_000);
+});
