@@ -6,7 +6,7 @@
  * workspace and signed-out callers.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Client, closeDbAfterAll, db, waitForMail, workspaceWithRoles, type WorkspaceFixture } from '../helpers.ts';
+import { BASE_URL, Client, closeDbAfterAll, db, waitForMail, workspaceWithRoles, type WorkspaceFixture } from '../helpers.ts';
 import { startRun } from '../../../src/lib/server/runs/repository.ts';
 import { createModel, runRow, spawnWorker, twoLakes, until, ws, type SpawnedWorker } from './fixtures.ts';
 
@@ -51,6 +51,13 @@ describe('an escape study through the API', () => {
     expect(detail.values.map((v: any) => [v.p, v.pathsDone, v.status])).toEqual([[0.05, 300, 'done'], [0.15, 300, 'done']]);
     const progress = await w.reviewer.get(ws(`/api/runs/${runId}/progress`, w.workspaceId));
     expect(progress.body.progress.detail.values).toHaveLength(2);
+    // The event stream carries the same fields: its `end` event has the paths done per value.
+    const events = await fetch(`${BASE_URL}${ws(`/api/runs/${runId}/events`, w.workspaceId)}`, {
+      headers: { cookie: [...w.reviewer.cookies].map(([k, v]) => `${k}=${v}`).join('; '), 'x-forwarded-for': w.reviewer.address, accept: 'text/event-stream' },
+    });
+    expect(events.status).toBe(200);
+    const end = /event: end\ndata: (.*)\n/.exec(await events.text());
+    expect(JSON.parse(end![1])).toMatchObject({ status: 'done', kind: 'escapes', detail: { values: [{ p: 0.05, pathsDone: 300 }, { p: 0.15, pathsDone: 300 }] } });
 
     // The atlas was computed first and stored as the trace result of the same version: a trace run now reuses it.
     const study = await db('escape_studies').where({ id: done.escape_study_id }).first();
@@ -243,6 +250,17 @@ describe('cancelling a study', () => {
     const wk = spawnWorker(queue);
     try {
       await until('a stored value', async () => (await db('escape_points').where({ cache_key: cacheKey }).count({ n: '*' }).first())!.n as number > 0, 120_000, 50);
+      // Mid-run, the progress channel reports paths done per value: the first value done, the others not yet.
+      const mid = await until('paths per value on the progress channel', async () => {
+        const p = await w.reviewer.get(ws(`/api/runs/${run.id}/progress`, w.workspaceId));
+        const values = p.body.progress.detail?.values;
+        return values?.[0]?.status === 'done' && p.body.progress;
+      }, 10_000, 100);
+      expect(mid.status).toBe('running');
+      expect(mid.detail.values.map((v: any) => v.p)).toEqual([0.04, 0.1, 0.16, 0.22]);
+      expect(mid.detail.values[0].pathsDone).toBe(4000);
+      expect(mid.detail.values[3]).toMatchObject({ pathsDone: 0, status: 'waiting' });
+      expect(mid.phrase).toMatch(/^p = 0\.\d+ (\(value \d of 4\)|done)/);
       const res = await w.modeler.post(ws(`/api/runs/${run.id}/cancel`, w.workspaceId), {});
       expect(res.status).toBe(200);
       expect(res.body.run.status).toBe('cancelled');
