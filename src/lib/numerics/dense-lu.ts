@@ -5,7 +5,7 @@
  * order of JAMA's LUDecomposition (Golub & Van Loan, Matrix Computations, §3.4). The floating-point
  * operations, their order, the pivot choice (first largest |entry|), the exact-zero singularity test
  * and the determinant are exactly those of ml-matrix's LuDecomposition, which this class wrapped
- * until engine 1.5.0: it now runs the same algorithm on one flat Float64Array, without the Matrix
+ * until issue 12: it now runs the same algorithm on one flat Float64Array, without the Matrix
  * objects, clones and per-entry get/set calls, so factors, solutions and determinants are the same to
  * the last bit (tests/lib/atlas/engine-speed.test.ts compares both on random and nearly singular
  * matrices) at a fraction of the cost (docs/numerics.md §11). Unlike FlatLu it keeps ml-matrix's

@@ -7,7 +7,7 @@ import { DenseLu } from '../../../src/lib/numerics/dense-lu.js';
 import { symmetricEigenvalues } from '../../../src/lib/numerics/symmetric-eigenvalues.js';
 import { distInf, normInf } from '../../../src/lib/numerics/vector.js';
 
-// Issue 12: the speed-ups of engine 1.5.0 must leave every number of a diagram as it was. The
+// Issue 12: the speed-ups must leave every number of a diagram as it was. The
 // reference here is the library the engine used before (ml-matrix), compared to the last bit.
 
 /** Seeded linear congruential generator (Numerical Recipes constants), values in [-1, 1). */
@@ -100,5 +100,29 @@ describe('starting equilibria of an 8-node network', () => {
       const x = found.points[k];
       expect(found.points.slice(0, k).some((q) => distInf(q, x) < 1e-7 * (1 + normInf(q)))).toBe(false);
     }
+  });
+});
+
+describe('dropping the spectra of examined points (issue 12)', () => {
+  it('gives the same diagram as a trace that stores every eigenvalue, pitchforks included', async () => {
+    const { traceDiagram } = await import('../../../src/lib/atlas/index.js');
+    // Four identical invented lakes on a two-way ring: exactly symmetric Jacobians, pitchforks and saddle-nodes.
+    const doc = {
+      format: 'brinkmap/network-1',
+      name: 'invented ring of four lakes',
+      element: { variable: 'P', rate: 'a - b * P + P^8 / (1 + P^8)', parameters: { a: 0.05, b: 0.6 } },
+      nodes: Array.from({ length: 4 }, (_, i) => ({ id: `lake${i + 1}` })),
+      links: [[1, 2], [2, 3], [3, 4], [4, 1]].map(([a, b]) => ({ from: `lake${a}`, to: `lake${b}`, weight: 1, twoWay: true })),
+      coupling: { parameter: 'beta', value: 0, term: 'source - target' },
+      sweep: { parameter: 'beta', from: 0, to: 1 },
+    };
+    const system = compileModelJson(doc);
+    const lean = traceDiagram(system);
+    const full = traceDiagram(system, { storeEigenvalues: true });
+    expect(lean.bifurcations.some((b) => b.type === 'pitchfork')).toBe(true);
+    expect(lean.branches.map((b) => b.points.map((q) => [q.p, ...q.x, q.unstable]))).toEqual(full.branches.map((b) => b.points.map((q) => [q.p, ...q.x, q.unstable])));
+    expect(JSON.stringify(lean.bifurcations)).toBe(JSON.stringify(full.bifurcations));
+    // The stored eigenvalues are those of the point: their unstable count matches.
+    for (const b of full.branches) for (const q of b.points) expect(q.eigenvalues!.filter((e) => e.re > 1e-9 * Math.max(1, ...q.eigenvalues!.map((z) => Math.hypot(z.re, z.im)))).length).toBe(q.unstable);
   });
 });
