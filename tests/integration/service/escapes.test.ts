@@ -110,6 +110,14 @@ describe('an escape study through the API', () => {
     expect(seqLines.filter((l) => Number(l.split(',')[3]) > 0)).toHaveLength(counted.length);
     expect(seqLines.find((l) => l.startsWith(`sequence,0.05,${counted[0].order.join('>')},${counted[0].count},`))).toBeDefined();
 
+    // The run page shows the study as a table, one row per value, with the data links (no diagram).
+    const page = await w.reviewer.get(ws(`/runs/${runId}`, w.workspaceId));
+    expect(page.status).toBe(200);
+    expect(page.text).toContain('data-testid="escape-table"');
+    expect((page.text.match(/<tr data-p=/g) ?? []).length).toBe(2);
+    expect(page.text).toContain(`/api/runs/${runId}/escapes.csv`);
+    expect(page.text).not.toContain('data-testid="run-diagram"');
+
     const mail = await waitForMail(w.modeler.user!.email);
     expect(mail.subject).toMatch(new RegExp(`escape study run ${runId} .* finished`));
 
