@@ -30,7 +30,7 @@ describe('an escape study on the run page', () => {
     expect(start.status(), await start.text()).toBe(201);
     const runId = ((await start.json()) as { run: { id: number } }).run.id;
     await expect.poll(async () => ((await (await page.request.get(`${BASE_URL}/api/runs/${runId}`)).json()) as { run: { status: string } }).run.status,
-      { timeout: 150_000, intervals: [500] }).toBe('done');
+      { timeout: 150_000, interval: 500 }).toBe('done');
     const api = (await (await page.request.get(`${BASE_URL}/api/runs/${runId}/escapes`)).json()) as { points: { p: number; paths: number; sequences: { order: string[]; count: number }[] }[] };
     await page.goto(`${BASE_URL}/runs/${runId}`);
     await hydrated(page);

@@ -37,9 +37,9 @@ export function reportRunIds(params: URLSearchParams): number[] {
   return [...new Set(ids.filter((n) => Number.isSafeInteger(n) && n > 0))].slice(0, REPORT_MAX_RUNS);
 }
 
-/** The finished runs of the workspace, newest first (the report's run picker). */
+/** The finished trace runs of the workspace, newest first (the report's run picker; escape studies have no figure yet). */
 export async function listReportChoices(workspaceId: string): Promise<ReportChoice[]> {
-  const { items } = await listRuns(workspaceId, { status: 'done', pageSize: 100 });
+  const { items } = await listRuns(workspaceId, { status: 'done', kind: 'trace', pageSize: 100 });
   return items.map((r) => ({ id: r.id, modelId: r.modelId, modelName: r.modelName, versionNumber: r.versionNumber, finishedAt: r.finishedAt }));
 }
 
