@@ -150,7 +150,7 @@ export interface CorrectorResult {
  * Newton's method on the (n+1) x (n+1) extended system
  *   F(x, p) = 0,   v . y = c
  * (the Keller pseudo-arclength corrector when v is the tangent and c = v . (y_prev + h v)),
- * Jacobian [DH; v^T] factorized by ml-matrix LU at every iterate (Keller 1977; Allgower & Georg §2.2).
+ * Jacobian [DH; v^T] factorized by DenseLu (ml-matrix's LU algorithm, bit-identical) at every iterate (Keller 1977; Allgower & Georg §2.2).
  * Never throws; a singular matrix, non-finite values, displacement beyond maxDisplacement or the
  * iteration cap return converged = false.
  */

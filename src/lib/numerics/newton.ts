@@ -13,7 +13,7 @@ export interface NewtonOptions {
   /** Give up when |x|_inf exceeds this (default 1e8). */
   stateBound: number;
   /**
-   * Linear solver for J_x d = -F: 'dense' (ml-matrix LuDecomposition via DenseLu, the default; the
+   * Linear solver for J_x d = -F: 'dense' (DenseLu: ml-matrix's LuDecomposition algorithm on flat arrays, bit-identical; the default; the
    * continuation's Newton corrections and pitchfork locations are checked with it) or 'flat' (FlatLu,
    * one Float64Array and no copies, about 15x cheaper at small n; a pivot below n eps |J|_inf counts
    * as singular, so Newton stops there instead of taking a huge step).

@@ -48,7 +48,7 @@ export interface ContinuationResult {
  * Allgower & Georg, Numerical Continuation Methods, ch. 2; Seydel, Practical Bifurcation and
  * Stability Analysis, §4.4-4.6).
  * Predictor: y* = y_k + h t_k (tangent t_k from [DH; t_{k-1}^T] t = e_{n+1}).
- * Corrector: Newton on F(y) = 0, t_k . (y - y*) = 0 (bordered (n+1)x(n+1) system, ml-matrix LU).
+ * Corrector: Newton on F(y) = 0, t_k . (y - y*) = 0 (bordered (n+1)x(n+1) system, DenseLu: ml-matrix's LU algorithm).
  * Step control (common practice, no source for the constants): a failed corrector, a tangent turn
  * above maxTurn or a corrector displacement above h/4 halve h; 1-2 corrector iterations let h grow
  * by 1.4 up to maxStep, 5 or more shrink it by 0.7; |dp| per step is capped by maxParameterStep; h < minStep ends the branch.
