@@ -236,10 +236,7 @@ export class RunWorker {
         if (ok) await this.notify(run, 'done');
         return;
       }
-      const error = describeFailure(failure);
-      const status = await failRun(run, this.owner, error, !deterministic);
-      log(`run ${run.id}: attempt failed (${error.message}); ${status === 'queued' ? 'queued for retry' : status === 'failed' ? 'ended failed' : 'no longer ours'}`);
-      if (status === 'failed') await this.notify(run, 'failed');
+      await this.failAttempt(run, failure, deterministic);
     } catch (e) {
       // The database went away while finishing: the lease will expire and another worker retries.
       log(`run ${run.id}: could not record the outcome (${short(e)}); the lease will lapse and the run be retried`);
@@ -378,13 +375,19 @@ export class RunWorker {
         if (ok) await this.notify(run, 'done');
         return;
       }
-      const error = describeFailure(failure);
-      const status = await failRun(run, this.owner, error, !deterministic);
-      log(`run ${run.id}: attempt failed (${error.message}); ${status === 'queued' ? 'queued for retry' : status === 'failed' ? 'ended failed' : 'no longer ours'}`);
-      if (status === 'failed') await this.notify(run, 'failed');
+      await this.failAttempt(run, failure, deterministic);
     } catch (e) {
       log(`run ${run.id}: could not record the outcome (${short(e)}); the lease will lapse and the run be retried`);
     }
+  }
+
+  /** A failed attempt: recorded (queued again unless the failure is deterministic), logged, mailed when final. */
+  private async failAttempt(run: ClaimedRun, failure: unknown, deterministic: boolean): Promise<void> {
+    const log = this.opts.log;
+    const error = describeFailure(failure);
+    const status = await failRun(run, this.owner, error, !deterministic);
+    log(`run ${run.id}: attempt failed (${error.message}); ${status === 'queued' ? 'queued for retry' : status === 'failed' ? 'ended failed' : 'no longer ours'}`);
+    if (status === 'failed') await this.notify(run, 'failed');
   }
 
   private cancelThread(a: Active, why: string): void {
