@@ -167,20 +167,7 @@ export class RunWorker {
     port1.on('message', (m: ProgressMessage) => { progress = m; });
     port1.unref();
 
-    let beating = false;
-    const beat = async () => {
-      if (beating || a.lost) return;
-      beating = true;
-      try {
-        const ours = await heartbeat(run.id, this.owner, this.opts.leaseMs, progress.fraction, progress.phrase);
-        if (!ours) this.cancelThread(a, 'the run was cancelled or taken over');
-      } catch (e) {
-        log(`run ${run.id}: heartbeat failed (${short(e)})`);
-      } finally {
-        beating = false;
-      }
-    };
-    const timer = setInterval(beat, this.opts.heartbeatMs);
+    const timer = this.startHeartbeat(a, () => ({ fraction: progress.fraction, phrase: progress.phrase }));
 
     let output: ComputeOutput | null = null;
     let failure: unknown = null;
@@ -263,21 +250,7 @@ export class RunWorker {
     this.active.add(a);
     if (this.stopping) Atomics.store(a.cancelFlag, 0, 1);
     let progress: { fraction: number; phrase: string; values?: unknown } = { fraction: 0, phrase: 'starting' };
-    let beating = false;
-    const beat = async () => {
-      if (beating || a.lost) return;
-      beating = true;
-      try {
-        const detail = progress.values ? { values: progress.values } : undefined;
-        const ours = await heartbeat(run.id, this.owner, this.opts.leaseMs, progress.fraction, progress.phrase, undefined, detail);
-        if (!ours) this.cancelThread(a, 'the run was cancelled or taken over');
-      } catch (e) {
-        log(`run ${run.id}: heartbeat failed (${short(e)})`);
-      } finally {
-        beating = false;
-      }
-    };
-    const timer = setInterval(beat, this.opts.heartbeatMs);
+    const timer = this.startHeartbeat(a, () => ({ fraction: progress.fraction, phrase: progress.phrase, detail: progress.values ? { values: progress.values } : undefined }));
     let failure: unknown = null;
     let deterministic = false;
     let result: EscapeTaskResult | null = null;
@@ -379,6 +352,29 @@ export class RunWorker {
     } catch (e) {
       log(`run ${run.id}: could not record the outcome (${short(e)}); the lease will lapse and the run be retried`);
     }
+  }
+
+  /**
+   * Renews the run's lease every heartbeatMs with the progress `read` gives (one renewal at a time);
+   * a renewal the database refuses (cancelled, taken over) stops the thread. Returns the timer.
+   */
+  private startHeartbeat(a: Active, read: () => { fraction: number; phrase: string; detail?: unknown }): ReturnType<typeof setInterval> {
+    const log = this.opts.log;
+    let beating = false;
+    const beat = async () => {
+      if (beating || a.lost) return;
+      beating = true;
+      try {
+        const p = read();
+        const ours = await heartbeat(a.run.id, this.owner, this.opts.leaseMs, p.fraction, p.phrase, undefined, p.detail);
+        if (!ours) this.cancelThread(a, 'the run was cancelled or taken over');
+      } catch (e) {
+        log(`run ${a.run.id}: heartbeat failed (${short(e)})`);
+      } finally {
+        beating = false;
+      }
+    };
+    return setInterval(beat, this.opts.heartbeatMs);
   }
 
   /** A failed attempt: recorded (queued again unless the failure is deterministic), logged, mailed when final. */
