@@ -11,7 +11,7 @@ import { conflict, notFound } from '../models/service-error.ts';
 import { resultCacheKey } from '../runs/cache-key.ts';
 import { normalizeSettings } from '../runs/normalize-settings.ts';
 import type { ComputeOutput } from '../runs/compute.ts';
-import type { ClaimedRun } from '../runs/queue.ts';
+import { insertOrReuse, resultRow, type ClaimedRun } from '../runs/queue.ts';
 import { runQuery, toRunInfo, type RunInfo } from '../runs/repository.ts';
 import type { RunSettings } from '../runs/schemas.ts';
 import type { EscapeStudySummary } from './compute.ts';
@@ -30,19 +30,7 @@ export async function findAtlas(cacheKey: string, k: Knex = db): Promise<{ id: n
 
 /** Stores a trace result computed as the first part of an escape run (or reads the one a concurrent run stored). */
 export async function storeAtlas(cacheKey: string, out: ComputeOutput, k: Knex = db): Promise<number> {
-  const existing = await k('results').where({ cache_key: cacheKey }).first('id');
-  if (existing) return existing.id;
-  try {
-    const [id] = await k('results').insert({
-      cache_key: cacheKey, engine_version: ENGINE_VERSION, diagram: out.diagramJson, regimes: out.regimesJson,
-      preview: out.previewJson, preview_points: out.previewPoints, branch_count: out.branchCount,
-      point_count: out.pointCount, special_point_count: out.specialPointCount, compute_ms: out.computeMs,
-    });
-    return id;
-  } catch (e) {
-    if ((e as { errno?: number }).errno !== 1062) throw e;
-    return (await k('results').where({ cache_key: cacheKey }).first('id')).id;
-  }
+  return (await insertOrReuse(k, 'results', cacheKey, resultRow(out, ENGINE_VERSION))).id;
 }
 
 /** Indices of the values stored under this key (what a retry does not compute again). */
@@ -64,31 +52,12 @@ export async function completeEscapeRun(run: ClaimedRun, owner: string, summary:
   return k.transaction(async (trx) => {
     const row = await trx('runs').where({ id: run.id }).forUpdate().first('status', 'lease_owner');
     if (!row || row.status !== 'running' || row.lease_owner !== owner) return false;
-    let studyId: number;
-    let reused = false;
-    if ('reuse' in summary) {
-      studyId = summary.reuse;
-      reused = true;
-    } else {
-      const existing = await trx('escape_studies').where({ cache_key: run.cacheKey }).first('id');
-      if (existing) {
-        studyId = existing.id;
-        reused = true;
-      } else {
-        try {
-          [studyId] = await trx('escape_studies').insert({
-            cache_key: run.cacheKey, engine_version: ENGINE_VERSION, atlas_result_id: atlasResultId, parameter: summary.parameter,
-            noise: summary.noise, start: summary.start, value_count: summary.valueCount,
-            exit_switches: JSON.stringify(summary.exitSwitches), band_edges: JSON.stringify(summary.bandEdges),
-            diagnostics: JSON.stringify(summary.diagnostics), compute_ms: summary.computeMs,
-          });
-        } catch (e) {
-          if ((e as { errno?: number }).errno !== 1062) throw e;
-          studyId = (await trx('escape_studies').where({ cache_key: run.cacheKey }).first('id')).id;
-          reused = true;
-        }
-      }
-    }
+    const { id: studyId, reused } = 'reuse' in summary ? { id: summary.reuse, reused: true } : await insertOrReuse(trx, 'escape_studies', run.cacheKey, {
+      engine_version: ENGINE_VERSION, atlas_result_id: atlasResultId, parameter: summary.parameter,
+      noise: summary.noise, start: summary.start, value_count: summary.valueCount,
+      exit_switches: JSON.stringify(summary.exitSwitches), band_edges: JSON.stringify(summary.bandEdges),
+      diagnostics: JSON.stringify(summary.diagnostics), compute_ms: summary.computeMs,
+    });
     // The last word on paths done per value: the stored rows (the last heartbeat may predate the last value).
     const stored = await trx('escape_points').where({ cache_key: run.cacheKey }).orderBy('idx').select('p', 'paths', 'status');
     const values = stored.map((r) => ({ p: Number(r.p), paths: Number(r.paths), pathsDone: Number(r.paths), status: r.status }));

@@ -141,35 +141,37 @@ export async function completeRun(run: ClaimedRun, owner: string, out: ComputeOu
   }
 }
 
+/** The `results` row of a computed trace (without its cache key). */
+export function resultRow(out: ComputeOutput, engineVersion: string): Record<string, unknown> {
+  return {
+    engine_version: engineVersion, diagram: out.diagramJson, regimes: out.regimesJson,
+    preview: out.previewJson, preview_points: out.previewPoints, branch_count: out.branchCount,
+    point_count: out.pointCount, special_point_count: out.specialPointCount, compute_ms: out.computeMs,
+  };
+}
+
+/**
+ * The row of `table` with this cache key: the one already stored (reused), else `row` inserted under
+ * it. When another run stored the same key since the check, InnoDB rolls back just the insert (1062,
+ * duplicate key) and theirs is used.
+ */
+export async function insertOrReuse(trx: Knex | Knex.Transaction, table: string, cacheKey: string, row: Record<string, unknown>): Promise<{ id: number; reused: boolean }> {
+  const existing = await trx(table).where({ cache_key: cacheKey }).first('id');
+  if (existing) return { id: existing.id, reused: true };
+  try {
+    const [id] = await trx(table).insert({ cache_key: cacheKey, ...row });
+    return { id, reused: false };
+  } catch (e) {
+    if ((e as { errno?: number }).errno !== 1062) throw e;
+    return { id: (await trx(table).where({ cache_key: cacheKey }).first('id')).id, reused: true };
+  }
+}
+
 async function completeRunOnce(run: ClaimedRun, owner: string, out: ComputeOutput | { reuse: number }, engineVersion: string, k: Knex): Promise<boolean> {
   return k.transaction(async (trx) => {
     const row = await trx('runs').where({ id: run.id }).forUpdate().first('status', 'lease_owner');
     if (!row || row.status !== 'running' || row.lease_owner !== owner) return false;
-    let resultId: number;
-    let reused = false;
-    if ('reuse' in out) {
-      resultId = out.reuse;
-      reused = true;
-    } else {
-      const existing = await trx('results').where({ cache_key: run.cacheKey }).first('id');
-      if (existing) {
-        resultId = existing.id;
-        reused = true;
-      } else {
-        try {
-          [resultId] = await trx('results').insert({
-            cache_key: run.cacheKey, engine_version: engineVersion, diagram: out.diagramJson, regimes: out.regimesJson,
-            preview: out.previewJson, preview_points: out.previewPoints, branch_count: out.branchCount,
-            point_count: out.pointCount, special_point_count: out.specialPointCount, compute_ms: out.computeMs,
-          });
-        } catch (e) {
-          // Another run stored the same key since our check: InnoDB rolled back just this statement; use theirs.
-          if ((e as { errno?: number }).errno !== 1062) throw e;
-          resultId = (await trx('results').where({ cache_key: run.cacheKey }).first('id')).id;
-          reused = true;
-        }
-      }
-    }
+    const { id: resultId, reused } = 'reuse' in out ? { id: out.reuse, reused: true } : await insertOrReuse(trx, 'results', run.cacheKey, resultRow(out, engineVersion));
     await trx('runs').where({ id: run.id }).update({
       status: 'done', progress: 1, phrase: reused ? 'reused a stored result of identical inputs' : 'finished',
       result_id: resultId, reused, lease_owner: null, lease_expires_at: null, error: null,
