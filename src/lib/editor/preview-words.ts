@@ -4,17 +4,15 @@
  * preview traces with a small budget of its own that the modeler does not set, so those names become
  * "the preview's limit", and the matrix symbols become words.
  */
-const SETTING_NAMES: readonly [RegExp, string][] = [
+const REPLACEMENTS: readonly [RegExp, string][] = [
   [/,?\s*maxPointsPerBranch = \d+/g, ''],
   [/\s*\((?:maxBranches|maxStartingPoints|maxStartCombinations|maxPointsPerBranch)\)/g, ' (a limit of the quick preview; a full run goes further)'],
+  // The bracketed pair before its parts.
+  [/\[J_x \| F_p\]/g, 'the Jacobian extended by the parameter derivative'],
   [/\bJ_x\b/g, 'the Jacobian'],
   [/\bF_p\b/g, 'the parameter derivative'],
 ];
 
 export function engineWords(message: string): string {
-  let out = message;
-  // The bracketed pair first, before its parts are replaced one by one.
-  out = out.replace(/\[J_x \| F_p\]/g, 'the Jacobian extended by the parameter derivative');
-  for (const [pattern, words] of SETTING_NAMES) out = out.replace(pattern, words);
-  return out;
+  return REPLACEMENTS.reduce((out, [pattern, words]) => out.replace(pattern, words), message);
 }
