@@ -68,7 +68,7 @@ export function DiagramView(props: DiagramViewProps) {
   const [palette, setPalette] = useState<PlotPalette | null>(null);
   const [drawnCount, setDrawnCount] = useState(0);
   // Bumped after every canvas draw, so that what is placed against the drawn lines (tag names) follows.
-  const [, setDrawVersion] = useState(0);
+  const [drawVersion, setDrawVersion] = useState(0);
 
   useEffect(() => setTags(props.tags ?? []), [props.tags]);
 
@@ -254,15 +254,18 @@ export function DiagramView(props: DiagramViewProps) {
     ev.preventDefault();
   };
 
-  const specialsInView = diagram.bifurcations
-    .map((sp) => ({ sp, cx: xs(sp.p), cy: ys(project(sp.x, projection)) }))
-    .filter(({ cx, cy }) => cx >= -MARKER_R && cx <= plotW + MARKER_R && cy >= -MARKER_R && cy <= plotH + MARKER_R);
-
   // Glyphs closer than 1.6 marker radii would be drawn over each other: one mark with a count instead,
-  // fanned out on click (glyph-clusters.ts). A zoom or pan folds an open group again.
-  const glyphById = new Map(specialsInView.map((g) => [g.sp.id, g]));
-  const glyphGroups = clusterGlyphs(specialsInView.map((g) => ({ id: g.sp.id, cx: g.cx, cy: g.cy })), 1.6 * MARKER_R)
-    .map((c) => ({ cx: c.cx, cy: c.cy, members: c.ids.map((id) => glyphById.get(id)!) }));
+  // fanned out on click (glyph-clusters.ts); a zoom or pan folds an open group again. Recomputed when
+  // the view changes, not on every hover re-render (the grouping is quadratic).
+  const glyphGroups = useMemo(() => {
+    const inView = diagram.bifurcations
+      .map((sp) => ({ sp, cx: xs(sp.p), cy: ys(project(sp.x, projection)) }))
+      .filter(({ cx, cy }) => cx >= -MARKER_R && cx <= plotW + MARKER_R && cy >= -MARKER_R && cy <= plotH + MARKER_R);
+    const byId = new Map(inView.map((g) => [g.sp.id, g]));
+    return clusterGlyphs(inView.map((g) => ({ id: g.sp.id, cx: g.cx, cy: g.cy })), 1.6 * MARKER_R)
+      .map((c) => ({ cx: c.cx, cy: c.cy, members: c.ids.map((id) => byId.get(id)!) }));
+  }, [diagram, xs, ys, projection, plotW, plotH]);
+
   const [expandedGroup, setExpandedGroup] = useState<string | null>(null);
   useEffect(() => setExpandedGroup(null), [transform, projection]);
   const renderGlyph = (sp: SpecialPoint, cx: number, cy: number) => {
@@ -305,7 +308,7 @@ export function DiagramView(props: DiagramViewProps) {
   const yLabel = projectionLabel(projection, diagram.variables);
   // Tag names: the lowest line above the bars that no drawn branch and no other name crosses
   // (label-place.ts, against the lines of the last drawn frame; drawVersion re-renders after each draw).
-  const tagBox = (i: number, row: number) => {
+  const tagBox = useCallback((i: number, row: number) => {
     const t = tags[i];
     const x0 = Math.max(-2, xs(t.from)), x1 = Math.min(plotW + 2, xs(t.to));
     if (x1 <= x0) return { x0: -1e9, x1: -1e9, y0: -1e9, y1: -1e9 };
@@ -315,8 +318,11 @@ export function DiagramView(props: DiagramViewProps) {
     const w = 4 + 1.08 * labelWidth(t.name, 10.5);
     const left = Math.max(0, Math.min(x0 + 2, plotW - w - 2));
     return { x0: left, x1: left + w, y0: y - 10, y1: y + 3 };
-  };
-  const tagRows = showTags ? placeLabels(tags.length, tagBox, drawnRef.current, Math.max(1, Math.floor((plotH - 20) / 13)), STABLE_WIDTH / 2 + 1.5) : [];
+  }, [tags, xs, plotW, plotH]);
+  // Placed once per drawn frame, not on every hover re-render (it tests every drawn segment).
+  const tagRows = useMemo(() => (showTags ? placeLabels(tags.length, tagBox, drawnRef.current, Math.max(1, Math.floor((plotH - 20) / 13)), STABLE_WIDTH / 2 + 1.5) : []),
+    // drawVersion: drawnRef.current changed.
+    [showTags, tags.length, tagBox, plotH, drawVersion]);
   const clipId = useMemo(() => `dg-clip-${Math.random().toString(36).slice(2, 9)}`, []);
 
   return (
