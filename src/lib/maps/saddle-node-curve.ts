@@ -1,0 +1,163 @@
+/**
+ * The saddle-node (fold) curve in two parameters as an ExtendedSystem (docs/maps.md §2): the
+ * standard extended system of Kuznetsov, Elements of Applied Bifurcation Theory, 3rd ed., §10.2.1,
+ *   F(x, a, b) = 0,   J_x(x, a, b) v = 0,   c . v - 1 = 0,
+ * in y = (x, v, a, b) in R^(2n+2), 2n+1 equations. Its Jacobian is analytic (symbolic second
+ * derivatives of the two-parameter compiler):
+ *   [ J_x            0     F_a        F_b       ]
+ *   [ d(J_x v)/dx    J_x   (J_x)_a v  (J_x)_b v ]
+ *   [ 0              c^T   0          0         ]
+ * Regular at a fold with a simple zero eigenvalue and nonzero quadratic coefficient or transversal
+ * parameter dependence (Kuznetsov, §10.2.1, Lemma 10.1); it stays regular through a cusp, where only
+ * the projection onto (a, b) turns. The normalization vector c starts as the unit null vector; when
+ * |v| grows past 2 (v more than 60 degrees from c), v is rescaled to unit length and c set to it
+ * (the point stays on the curve, since J v = 0 is homogeneous), so the system stays well scaled.
+ *
+ * Cusp test (Kuznetsov §8.2, (8.14) and §10.2.2): the quadratic coefficient of the fold's normal
+ * form, a2 = (1/2) w^T B(v, v), with J v = 0, J^T w = 0, w^T v = 1 and B(v, v)_i = sum_jk
+ * d^2F_i/dx_j dx_k v_j v_k; a cusp is a simple zero of a2 along the curve.
+ */
+import type { ExtendedSystem } from './curve-continuation.js';
+import type { TwoParameterSystem } from './two-parameter-system.js';
+import { DenseLu } from '../numerics/dense-lu.js';
+
+export class SaddleNodeSystem implements ExtendedSystem {
+  readonly size: number;
+  readonly parameterIndex: readonly number[];
+  readonly stateIndex: readonly number[];
+  readonly n: number;
+  c: Float64Array;
+  private readonly x: Float64Array;
+  private readonly v: Float64Array;
+  private readonly f: Float64Array;
+  private readonly j: Float64Array;
+  private readonly h: Float64Array;
+  private readonly fa: Float64Array;
+  private readonly fb: Float64Array;
+  private readonly ja: Float64Array;
+  private readonly jb: Float64Array;
+
+  constructor(readonly sys: TwoParameterSystem, c: ArrayLike<number>) {
+    const n = sys.dimension;
+    this.n = n;
+    this.size = 2 * n + 2;
+    this.parameterIndex = [2 * n, 2 * n + 1];
+    this.stateIndex = Array.from({ length: n }, (_, i) => i);
+    this.c = Float64Array.from(c);
+    this.x = new Float64Array(n);
+    this.v = new Float64Array(n);
+    this.f = new Float64Array(n);
+    this.j = new Float64Array(n * n);
+    this.h = new Float64Array(n * n);
+    this.fa = new Float64Array(n);
+    this.fb = new Float64Array(n);
+    this.ja = new Float64Array(n);
+    this.jb = new Float64Array(n);
+  }
+
+  private load(y: Float64Array): void {
+    const n = this.n;
+    for (let i = 0; i < n; i++) {
+      this.x[i] = y[i];
+      this.v[i] = y[n + i];
+    }
+  }
+
+  residual(y: Float64Array, out: Float64Array): void {
+    const n = this.n;
+    this.load(y);
+    const a = y[2 * n];
+    const b = y[2 * n + 1];
+    this.sys.rates(this.x, a, b, this.f);
+    this.sys.jacobian(this.x, a, b, this.j);
+    let cv = 0;
+    for (let i = 0; i < n; i++) {
+      out[i] = this.f[i];
+      let s = 0;
+      for (let k = 0; k < n; k++) s += this.j[i * n + k] * this.v[k];
+      out[n + i] = s;
+      cv += this.c[i] * this.v[i];
+    }
+    out[2 * n] = cv - 1;
+  }
+
+  jacobian(y: Float64Array, out: Float64Array): void {
+    const n = this.n;
+    const N = this.size;
+    this.load(y);
+    const a = y[2 * n];
+    const b = y[2 * n + 1];
+    this.sys.jacobian(this.x, a, b, this.j);
+    this.sys.parameterDerivatives(this.x, a, b, this.fa, this.fb);
+    this.sys.secondState(this.x, a, b, this.v, this.h);
+    this.sys.secondParameter(this.x, a, b, this.v, this.ja, this.jb);
+    out.fill(0);
+    for (let i = 0; i < n; i++) {
+      const r1 = i * N;
+      const r2 = (n + i) * N;
+      for (let k = 0; k < n; k++) {
+        out[r1 + k] = this.j[i * n + k];
+        out[r2 + k] = this.h[i * n + k];
+        out[r2 + n + k] = this.j[i * n + k];
+      }
+      out[r1 + 2 * n] = this.fa[i];
+      out[r1 + 2 * n + 1] = this.fb[i];
+      out[r2 + 2 * n] = this.ja[i];
+      out[r2 + 2 * n + 1] = this.jb[i];
+    }
+    const r3 = 2 * n * N;
+    for (let k = 0; k < n; k++) out[r3 + n + k] = this.c[k];
+  }
+
+  rebase(y: Float64Array): boolean {
+    const n = this.n;
+    let sq = 0;
+    for (let i = 0; i < n; i++) sq += y[n + i] * y[n + i];
+    // With |c| = 1 and c . v = 1, |v| = 1 / cos(angle(c, v)) >= 1; rebase past 60 degrees.
+    if (sq <= 4) return false;
+    // Rescale v to unit length (the point stays on the curve: J v = 0 is homogeneous) and set c = v.
+    const s = 1 / Math.sqrt(sq);
+    for (let i = 0; i < n; i++) {
+      y[n + i] *= s;
+      this.c[i] = y[n + i];
+    }
+    return true;
+  }
+
+  /**
+   * The cusp test a2 = (1/2) w^T B(v, v) at y (w from the bordered system [J^T v; v^T 0] (w, s) =
+   * (0, 1), regular at a fold with a simple zero eigenvalue), with the normalization w . v = 1 and
+   * v scaled to unit length so that the value does not depend on the normalization c. NaN when the
+   * bordered matrix is singular (w . v = 0: a double zero eigenvalue, Bogdanov-Takens).
+   */
+  quadraticCoefficient(y: Float64Array): number {
+    const n = this.n;
+    this.load(y);
+    const a = y[2 * n];
+    const b = y[2 * n + 1];
+    let nv = 0;
+    for (let i = 0; i < n; i++) nv += this.v[i] * this.v[i];
+    nv = Math.sqrt(nv);
+    for (let i = 0; i < n; i++) this.v[i] /= nv;
+    this.sys.jacobian(this.x, a, b, this.j);
+    const m = n + 1;
+    const A = new Float64Array(m * m);
+    for (let i = 0; i < n; i++) {
+      for (let k = 0; k < n; k++) A[i * m + k] = this.j[k * n + i];
+      A[i * m + n] = this.v[i];
+      A[n * m + i] = this.v[i];
+    }
+    const rhs = new Float64Array(m);
+    rhs[n] = 1;
+    const ws = new DenseLu(A, m).solve(rhs);
+    if (ws === null) return Number.NaN;
+    this.sys.secondState(this.x, a, b, this.v, this.h);
+    let q = 0;
+    for (let i = 0; i < n; i++) {
+      let bi = 0;
+      for (let j = 0; j < n; j++) bi += this.h[i * n + j] * this.v[j];
+      q += ws[i] * bi;
+    }
+    return 0.5 * q;
+  }
+}

@@ -1,0 +1,553 @@
+/**
+ * The two-parameter map of a model (docs/maps.md): saddle-node and pitchfork curves in (a, b) =
+ * (swept parameter, second parameter), continued from the special points of one-parameter diagrams
+ * at a few values of b, cusp points on the saddle-node curves, and the coupling-regime regions they
+ * bound. Pure and synchronous; never throws on numerical trouble (the map is then partial and
+ * `diagnostics` says why).
+ */
+import { Matrix, SingularValueDecomposition } from 'ml-matrix';
+import { traceDiagram } from '../atlas/trace-diagram.js';
+import type { Diagnostic, Diagram, SpecialPoint } from '../atlas/types.js';
+import type { CompiledSystem } from '../model/compiled-system.js';
+import { labelAt } from '../regimes/label-at.js';
+import type { Regime } from '../regimes/types.js';
+import { dot } from '../numerics/vector.js';
+import { findSymmetry, SymmetricBranchPointSystem } from './branch-point-curve.js';
+import { continueCurve, correctOn, startTangent, type CurveDirection, type CurveEnd, type CurveOptions, type CurvePoint, type ExtendedSystem } from './curve-continuation.js';
+import { SaddleNodeSystem } from './saddle-node-curve.js';
+import type { TwoParameterSystem } from './two-parameter-system.js';
+
+export interface MapSettings {
+  /** Range of the swept (first) parameter; default the system's sweep. */
+  from?: number;
+  to?: number;
+  /** Range of the second parameter (required). */
+  secondFrom: number;
+  secondTo: number;
+  /** One-parameter diagrams are traced at this many evenly spaced values of the second parameter (ends included) to seed curves (default 5). */
+  seeds: number;
+  /** Regime sampling grid: columns in the first parameter x rows in the second (default 9 x 5); 0 x 0 skips the regions. */
+  regionColumns: number;
+  regionRows: number;
+  /** Point cap per curve, both directions together (default 4000). */
+  maxPointsPerCurve: number;
+  /** Cap on curves (default 64). */
+  maxCurves: number;
+  /** Arclength steps as fractions of max(width a, width b, 1 + max|x|) (defaults as the one-parameter trace: 2e-3, 1e-9, 2e-2). */
+  initialStep: number;
+  minStep: number;
+  maxStep: number;
+  /** Largest change of either parameter per step, as a fraction of its range (default 1/400). */
+  maxParameterStep: number;
+  maxTurn: number;
+  residualTolerance: number;
+  stepTolerance: number;
+  maxCorrectorIterations: number;
+  stateBound: number;
+}
+
+export const defaultMapSettings = Object.freeze({
+  seeds: 5,
+  regionColumns: 9,
+  regionRows: 5,
+  maxPointsPerCurve: 4000,
+  maxCurves: 64,
+  initialStep: 2e-3,
+  minStep: 1e-9,
+  maxStep: 2e-2,
+  maxParameterStep: 1 / 400,
+  maxTurn: 0.15,
+  residualTolerance: 1e-10,
+  stepTolerance: 1e-10,
+  maxCorrectorIterations: 8,
+  stateBound: 1e6,
+});
+
+export type MapCurveType = 'saddle-node' | 'pitchfork';
+
+export interface MapCurvePoint {
+  /** [first, second] parameter values. */
+  readonly p: [number, number];
+  readonly x: number[];
+}
+
+export interface MapCurve {
+  readonly id: string;
+  readonly type: MapCurveType;
+  readonly points: MapCurvePoint[];
+  readonly ends: [CurveEnd, CurveEnd];
+  /** The one-parameter special point it was continued from. */
+  readonly seed: { readonly second: number; readonly p: number; readonly x: number[] };
+}
+
+export interface MapPoint {
+  readonly id: string;
+  readonly type: 'cusp';
+  readonly p: [number, number];
+  readonly x: number[];
+  readonly curve: string;
+  readonly evidence: { readonly reason: string; readonly [key: string]: unknown };
+}
+
+export interface MapRegion {
+  readonly id: string;
+  /** The coupling regime of the samples in the region (null: no label there, see reason). */
+  readonly regime: Regime | null;
+  readonly reason: string;
+  /** Grid samples [first, second] in the region. */
+  readonly samples: [number, number][];
+  /** Curves crossed between a sample of this region and a neighbouring sample of another region. */
+  readonly boundedBy: string[];
+  /** Neighbouring pairs with different labels and no located curve between them (e.g. a saddle connection or crossover, not continued here). */
+  readonly unlocatedEdges: number;
+}
+
+export interface TwoParameterMap {
+  readonly parameters: [string, string];
+  readonly ranges: { readonly first: [number, number]; readonly second: [number, number] };
+  readonly curves: MapCurve[];
+  readonly points: MapPoint[];
+  readonly regions: MapRegion[];
+  readonly diagnostics: Diagnostic[];
+  readonly settings: Record<string, unknown>;
+}
+
+export interface MapHooks {
+  onProgress?: (fraction: number, phrase: string) => void;
+  isCancelled?: () => boolean;
+}
+
+interface Traced {
+  readonly curve: MapCurve;
+  /** Extended-space points (for the cusp test and the seed de-duplication). */
+  readonly ys: Float64Array[];
+}
+
+const linspace = (lo: number, hi: number, k: number) => (k <= 1 ? [(lo + hi) / 2] : Array.from({ length: k }, (_, i) => lo + ((hi - lo) * i) / (k - 1)));
+
+export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings> & { secondFrom: number; secondTo: number }, hooks: MapHooks = {}): TwoParameterMap {
+  const s = { ...defaultMapSettings, from: sys.sweep.from, to: sys.sweep.to, ...Object.fromEntries(Object.entries(settings).filter(([, v]) => v !== undefined)) } as Required<MapSettings>;
+  const n = sys.dimension;
+  const diagnostics: Diagnostic[] = [];
+  const traced: Traced[] = [];
+  const points: MapPoint[] = [];
+  const loA = Math.min(s.from, s.to);
+  const hiA = Math.max(s.from, s.to);
+  const loB = Math.min(s.secondFrom, s.secondTo);
+  const hiB = Math.max(s.secondFrom, s.secondTo);
+  const result = (regions: MapRegion[]): TwoParameterMap => ({
+    parameters: [sys.parameters[0], sys.parameters[1]],
+    ranges: { first: [s.from, s.to], second: [s.secondFrom, s.secondTo] },
+    curves: traced.map((t) => t.curve),
+    points,
+    regions,
+    diagnostics,
+    settings: { ...s },
+  });
+  const bad = checkSettings(s);
+  if (bad) {
+    diagnostics.push({ level: 'error', code: 'invalid-settings', message: bad });
+    return result([]);
+  }
+  let cancelled = false;
+  const isCancelled = () => (cancelled ||= Boolean(hooks.isCancelled?.()));
+
+  // 1. One-parameter diagrams at the seed values (and at the region rows: the same diagrams are reused).
+  const rows = s.regionRows > 0 && s.regionColumns > 0 ? linspace(loB, hiB, s.regionRows) : [];
+  const seedValues = [...new Set([...linspace(loB, hiB, s.seeds), ...rows, ...(sys.secondValue >= loB && sys.secondValue <= hiB ? [sys.secondValue] : [])])].sort((x, y) => x - y);
+  const diagrams = new Map<number, { system: CompiledSystem; diagram: Diagram }>();
+  seedValues.forEach((b, i) => {
+    if (isCancelled()) return;
+    hooks.onProgress?.((0.4 * i) / seedValues.length, `one-parameter diagram at ${sys.parameters[1]} = ${b}`);
+    const system = sys.atSecond(b, { from: s.from, to: s.to });
+    const diagram = traceDiagram(system, {}, { isCancelled });
+    for (const d of diagram.diagnostics) if (d.level !== 'info') diagnostics.push({ ...d, message: `${sys.parameters[1]} = ${b}: ${d.message}` });
+    diagrams.set(b, { system, diagram });
+  });
+
+  // 2. Curves from every saddle-node and branch point of those diagrams.
+  const width = Math.max(hiA - loA, hiB - loB);
+  let scale = width;
+  for (const { diagram } of diagrams.values()) for (const bp of diagram.bifurcations) for (const v of bp.x) scale = Math.max(scale, 1 + Math.abs(v));
+  const o: CurveOptions = {
+    lo: [loA, loB],
+    hi: [hiA, hiB],
+    initialStep: s.initialStep * scale,
+    minStep: s.minStep * scale,
+    maxStep: s.maxStep * scale,
+    maxParameterStep: [s.maxParameterStep * (hiA - loA), s.maxParameterStep * (hiB - loB)],
+    maxTurn: s.maxTurn,
+    maxPoints: Math.max(2, Math.floor(s.maxPointsPerCurve / 2)),
+    stateBound: s.stateBound,
+    residualTolerance: s.residualTolerance,
+    stepTolerance: s.stepTolerance,
+    maxCorrectorIterations: s.maxCorrectorIterations,
+  };
+  let noSymmetry = 0;
+  let k = 0;
+  for (const [b, { diagram }] of diagrams) {
+    k++;
+    for (const sp of diagram.bifurcations) {
+      if (isCancelled()) break;
+      hooks.onProgress?.(0.4 + (0.4 * k) / diagrams.size, 'continuing curves');
+      const type: MapCurveType | null = sp.type === 'saddle-node' ? 'saddle-node' : sp.type === 'pitchfork' || sp.type === 'transcritical' ? 'pitchfork' : null;
+      if (type === null) continue;
+      if (onTraced(traced, type, sp.x, sp.p, b)) continue;
+      if (traced.length >= s.maxCurves) {
+        diagnostics.push({ level: 'warning', code: 'curve-cap', message: `stopped at ${s.maxCurves} curves (maxCurves); special points of the seed diagrams were left out` });
+        break;
+      }
+      const t = type === 'saddle-node' ? saddleNodeCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled) : branchPointCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled);
+      if (t === 'no-symmetry') noSymmetry++;
+      else if (t) {
+        traced.push(t.traced);
+        for (const c of t.cusps) points.push({ ...c, id: `c${points.length + 1}` });
+      }
+    }
+    if (traced.length >= s.maxCurves) break;
+  }
+  if (noSymmetry > 0) {
+    diagnostics.push({ level: 'info', code: 'branch-point-not-continued', message: `${noSymmetry} branch point(s) of the seed diagrams were not continued: no permutation symmetry of the variables explains them (only symmetry-breaking pitchforks are continued as curves)` });
+  }
+  if (cancelled) diagnostics.push({ level: 'warning', code: 'cancelled', message: 'the map was cancelled; curves and regions are partial' });
+
+  // 3. Regions.
+  hooks.onProgress?.(0.8, 'regime regions');
+  const regions = cancelled || rows.length === 0 ? [] : regimeRegions(diagrams, rows, linspace(loA, hiA, s.regionColumns), traced.map((t) => t.curve), diagnostics, isCancelled);
+  hooks.onProgress?.(1, 'done');
+  return result(regions);
+}
+
+function checkSettings(s: Required<MapSettings>): string | null {
+  if (!Number.isFinite(s.from) || !Number.isFinite(s.to) || s.from === s.to) return `from/to: expected two different finite numbers (got ${s.from}, ${s.to})`;
+  if (!Number.isFinite(s.secondFrom) || !Number.isFinite(s.secondTo) || s.secondFrom === s.secondTo) return `secondFrom/secondTo: expected two different finite numbers (got ${s.secondFrom}, ${s.secondTo})`;
+  for (const key of ['seeds', 'maxPointsPerCurve', 'maxCurves'] as const) if (!Number.isInteger(s[key]) || s[key] < 1 || s[key] > 100_000) return `${key}: expected an integer from 1 to 100000`;
+  for (const key of ['regionColumns', 'regionRows'] as const) if (!Number.isInteger(s[key]) || s[key] < 0 || s[key] > 200) return `${key}: expected an integer from 0 to 200`;
+  return null;
+}
+
+/** Smallest right singular vector of J_x (unit), by ml-matrix SVD. */
+function nullVector(j: Float64Array, n: number): Float64Array {
+  const svd = new SingularValueDecomposition(Matrix.from1DArray(n, n, j), { computeLeftSingularVectors: false });
+  const d = svd.diagonal;
+  let imin = 0;
+  for (let i = 1; i < n; i++) if (d[i] < d[imin]) imin = i;
+  const v = new Float64Array(n);
+  for (let r = 0; r < n; r++) v[r] = svd.rightSingularVectors.get(r, imin);
+  return v;
+}
+
+/** Is (x, a, b) within 1e-6 (1 + |y|) + 0.05 |segment| of a traced curve of this type (state and parameters)? */
+function onTraced(traced: readonly Traced[], type: MapCurveType, x: readonly number[], a: number, b: number): boolean {
+  const q = [...x, a, b];
+  let size = 0;
+  for (const v of q) size = Math.max(size, Math.abs(v));
+  for (const t of traced) {
+    if (t.curve.type !== type) continue;
+    const pts = t.curve.points;
+    for (let i = 0; i + 1 < pts.length; i++) {
+      const u = [...pts[i].x, ...pts[i].p];
+      const w = [...pts[i + 1].x, ...pts[i + 1].p];
+      let uw = 0;
+      let uq = 0;
+      for (let k = 0; k < q.length; k++) {
+        uw += (w[k] - u[k]) ** 2;
+        uq += (q[k] - u[k]) * (w[k] - u[k]);
+      }
+      const lam = uw > 0 ? Math.min(1, Math.max(0, uq / uw)) : 0;
+      let d2 = 0;
+      for (let k = 0; k < q.length; k++) d2 += (q[k] - u[k] - lam * (w[k] - u[k])) ** 2;
+      if (Math.sqrt(d2) <= 1e-6 * (1 + size) + 0.05 * Math.sqrt(uw)) return true;
+    }
+  }
+  return false;
+}
+
+/** Trace a curve both ways from y0 and join the halves: [minus reversed, y0, plus]. */
+function bothWays(ext: ExtendedSystem, y0: Float64Array, t0: Float64Array, o: CurveOptions, isCancelled: () => boolean): { pts: CurvePoint[]; ends: [CurveEnd, CurveEnd] } {
+  const c0 = 'c' in ext ? Float64Array.from((ext as unknown as { c: Float64Array }).c) : null;
+  const plus = continueCurve(ext, y0, t0, o, { isCancelled });
+  let minus: CurveDirection;
+  if (plus.end === 'closed-loop') minus = { points: [plus.points[0]], end: 'closed-loop', rejectedSteps: 0, newtonIterations: 0 };
+  else {
+    if (c0) (ext as unknown as { c: Float64Array }).c.set(c0);
+    minus = continueCurve(ext, y0, Float64Array.from(t0, (v) => -v), o, { isCancelled });
+  }
+  return { pts: [...minus.points.slice(1).reverse(), ...plus.points], ends: [minus.end, plus.end] };
+}
+
+function saddleNodeCurve(
+  sys: TwoParameterSystem, sp: SpecialPoint, b: number, o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
+): { traced: Traced; cusps: Omit<MapPoint, 'id'>[] } | null {
+  const n = sys.dimension;
+  const x = Float64Array.from(sp.x);
+  const j = sys.jacobian(x, sp.p, b, new Float64Array(n * n));
+  const v0 = nullVector(j, n);
+  const ext = new SaddleNodeSystem(sys, v0);
+  const y0 = new Float64Array(2 * n + 2);
+  y0.set(x, 0);
+  y0.set(v0, n);
+  y0[2 * n] = sp.p;
+  y0[2 * n + 1] = b;
+  const e = new Float64Array(2 * n + 2);
+  e[2 * n + 1] = 1;
+  const polished = correctOn(ext, y0, e, b, { residualTolerance: 1e-12, stepTolerance: 1e-12, maxIterations: 20, earlyStep: 1e-12 });
+  const start = polished.converged || polished.residual < 1e-10 ? polished.y : null;
+  const tangent = start ? startTangent(ext, start) : null;
+  if (!start || !tangent || !(tangent.next > 1e-8 * tangent.largest)) {
+    diagnostics.push({ level: 'warning', code: 'curve-start-failed', p: sp.p, message: `saddle-node at ${sys.parameters[0]} = ${sp.p}, ${sys.parameters[1]} = ${b}: the fold system is ${start ? 'singular there (degenerate fold)' : 'not solved there'}; no curve continued` });
+    return null;
+  }
+  // Orient the first direction towards increasing second parameter (then first), for reproducible ids.
+  const t0 = tangent.t;
+  if (t0[2 * n + 1] < 0 || (t0[2 * n + 1] === 0 && t0[2 * n] < 0)) for (let i = 0; i < t0.length; i++) t0[i] = -t0[i];
+  const { pts, ends } = bothWays(ext, start, t0, o, isCancelled);
+  const id = `sn${index + 1}`;
+  const ys = pts.map((p) => p.y);
+  const curve: MapCurve = {
+    id,
+    type: 'saddle-node',
+    points: ys.map((y) => ({ p: [y[2 * n], y[2 * n + 1]], x: Array.from(y.subarray(0, n)) })),
+    ends,
+    seed: { second: b, p: sp.p, x: [...sp.x] },
+  };
+  for (const end of ends) noteEnd(end, id, diagnostics);
+  return { traced: { curve, ys }, cusps: locateCusps(ext, ys, id, diagnostics) };
+}
+
+function noteEnd(end: CurveEnd, id: string, diagnostics: Diagnostic[]): void {
+  if (end === 'parameter-bound' || end === 'closed-loop' || end === 'cancelled') return;
+  diagnostics.push({ level: 'warning', code: end, message: `curve ${id} ended early (${end}); it may continue beyond the last point shown` });
+}
+
+/**
+ * Cusp points: sign changes of a2 = w^T B(v, v)/2 between consecutive curve points, refined by the
+ * Illinois variant of regula falsi (Dahlquist & Björck, Numerical Methods, §6.2) on the chord
+ * parameter u in [0, 1]: the trial point solves the fold system with d . (y - (y_a + u (y_b - y_a)))
+ * = 0, d the unit chord. Stops when the bracket is shorter than 1e-13 (1 + |y|) along the chord.
+ */
+function locateCusps(ext: SaddleNodeSystem, ys: readonly Float64Array[], curve: string, diagnostics: Diagnostic[]): Omit<MapPoint, 'id'>[] {
+  const n = ext.n;
+  const cusps: Omit<MapPoint, 'id'>[] = [];
+  const tau = ys.map((y) => ext.quadraticCoefficient(y));
+  for (let i = 0; i + 1 < ys.length; i++) {
+    const ta = tau[i];
+    const tb = tau[i + 1];
+    if (!(Number.isFinite(ta) && Number.isFinite(tb)) || ta === 0 || Math.sign(ta) === Math.sign(tb)) continue;
+    const ya = Float64Array.from(ys[i]);
+    const yb = ys[i + 1];
+    // Put c on the first point's null vector so that both ends satisfy c . v ~ 1.
+    let sq = 0;
+    for (let k = 0; k < n; k++) sq += ya[n + k] * ya[n + k];
+    for (let k = 0; k < n; k++) ext.c[k] = ya[n + k] / sq;
+    const chord = new Float64Array(ya.length);
+    let len = 0;
+    for (let k = 0; k < ya.length; k++) {
+      chord[k] = yb[k] - ya[k];
+      len += chord[k] ** 2;
+    }
+    len = Math.sqrt(len);
+    for (let k = 0; k < ya.length; k++) chord[k] /= len;
+    const trial = (u: number): { y: Float64Array; tau: number } | null => {
+      const g = new Float64Array(ya.length);
+      for (let k = 0; k < ya.length; k++) g[k] = ya[k] + u * (yb[k] - ya[k]);
+      const r = correctOn(ext, g, chord, dot(chord, g), { residualTolerance: 1e-12, stepTolerance: 1e-13, maxIterations: 20, earlyStep: 1e-13, maxDisplacement: len });
+      if (!r.converged && !(r.residual < 1e-11)) return null;
+      return { y: r.y, tau: ext.quadraticCoefficient(r.y) };
+    };
+    let lo = 0;
+    let hi = 1;
+    let flo = ta;
+    let fhi = tb;
+    let side = 0;
+    let best: { y: Float64Array; tau: number } | null = null;
+    let converged = false;
+    for (let it = 0; it < 100; it++) {
+      const u = (lo * fhi - hi * flo) / (fhi - flo);
+      const r = trial(u);
+      if (!r) break;
+      best = r;
+      if (r.tau === 0 || (hi - lo) * len < 1e-13 * (1 + Math.abs(r.y[2 * n]) + Math.abs(r.y[2 * n + 1]))) {
+        converged = true;
+        break;
+      }
+      if (Math.sign(r.tau) === Math.sign(flo)) {
+        lo = u;
+        flo = r.tau;
+        if (side === -1) fhi /= 2;
+        side = -1;
+      } else {
+        hi = u;
+        fhi = r.tau;
+        if (side === 1) flo /= 2;
+        side = 1;
+      }
+      if (Math.abs(r.tau) < 1e-15) {
+        converged = true;
+        break;
+      }
+    }
+    if (!best) {
+      diagnostics.push({ level: 'warning', code: 'locate-failed', message: `curve ${curve}: the quadratic coefficient changes sign between two points but no point between them could be computed; cusp not reported` });
+      continue;
+    }
+    if (!converged) diagnostics.push({ level: 'warning', code: 'locate-not-converged', message: `curve ${curve}: cusp location stopped before the bracket was below tolerance` });
+    const y = best.y;
+    cusps.push({
+      type: 'cusp',
+      p: [y[2 * n], y[2 * n + 1]],
+      x: Array.from(y.subarray(0, n)),
+      curve,
+      evidence: {
+        reason: `the quadratic coefficient a2 = w·B(v,v)/2 of the fold changes sign along the saddle-node curve (${ta.toPrecision(3)} before, ${tb.toPrecision(3)} after): the curve turns back in the parameter plane and two fold branches meet in a cusp`,
+        testFunction: 'a2 = w·B(v,v)/2 (J v = 0, Jᵀw = 0, w·v = 1, |v| = 1)',
+        before: ta,
+        after: tb,
+        atPoint: best.tau,
+        converged,
+      },
+    });
+  }
+  return cusps;
+}
+
+function branchPointCurve(
+  sys: TwoParameterSystem, sp: SpecialPoint, b: number, o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
+): { traced: Traced; cusps: [] } | 'no-symmetry' | null {
+  const n = sys.dimension;
+  const x = Float64Array.from(sp.x);
+  const j = sys.jacobian(x, sp.p, b, new Float64Array(n * n));
+  const phi = nullVector(j, n);
+  const symmetry = findSymmetry(sys, x, phi, sp.p, b);
+  if (!symmetry) return 'no-symmetry';
+  const m = symmetry.pairs.length;
+  const u0 = new Float64Array(m);
+  symmetry.pairs.forEach(([i], q) => (u0[q] = phi[i]));
+  let nu = 0;
+  for (const v of u0) nu += v * v;
+  nu = Math.sqrt(nu);
+  for (let q = 0; q < m; q++) u0[q] /= nu;
+  const ext = new SymmetricBranchPointSystem(sys, symmetry, u0);
+  const y0 = ext.reduce(x, phi.map((v) => v / nu), sp.p, b);
+  const N = ext.size;
+  const e = new Float64Array(N);
+  e[N - 1] = 1;
+  const polished = correctOn(ext, y0, e, b, { residualTolerance: 1e-12, stepTolerance: 1e-12, maxIterations: 20, earlyStep: 1e-12 });
+  const start = polished.converged || polished.residual < 1e-10 ? polished.y : null;
+  const tangent = start ? startTangent(ext, start) : null;
+  if (!start || !tangent || !(tangent.next > 1e-8 * tangent.largest)) {
+    diagnostics.push({ level: 'warning', code: 'curve-start-failed', p: sp.p, message: `branch point at ${sys.parameters[0]} = ${sp.p}, ${sys.parameters[1]} = ${b}: the restricted fold system is ${start ? 'singular there' : 'not solved there'}; no curve continued` });
+    return null;
+  }
+  const t0 = tangent.t;
+  if (t0[N - 1] < 0 || (t0[N - 1] === 0 && t0[N - 2] < 0)) for (let i = 0; i < N; i++) t0[i] = -t0[i];
+  const { pts, ends } = bothWays(ext, start, t0, o, isCancelled);
+  const id = `bp${index + 1}`;
+  const ys = pts.map((p) => p.y);
+  const curve: MapCurve = {
+    id,
+    type: 'pitchfork',
+    points: ys.map((y) => ({ p: [y[N - 2], y[N - 1]], x: Array.from(ext.stateOf(y)) })),
+    ends,
+    seed: { second: b, p: sp.p, x: [...sp.x] },
+  };
+  for (const end of ends) noteEnd(end, id, diagnostics);
+  return { traced: { curve, ys }, cusps: [] };
+}
+
+/** Does the polyline of a curve cross the segment u-w in the parameter plane? */
+function crosses(curve: MapCurve, u: [number, number], w: [number, number]): boolean {
+  const pts = curve.points;
+  const orient = (p: readonly number[], q: readonly number[], r: readonly number[]) => (q[0] - p[0]) * (r[1] - p[1]) - (q[1] - p[1]) * (r[0] - p[0]);
+  for (let i = 0; i + 1 < pts.length; i++) {
+    const p = pts[i].p;
+    const q = pts[i + 1].p;
+    const d1 = orient(u, w, p);
+    const d2 = orient(u, w, q);
+    const d3 = orient(p, q, u);
+    const d4 = orient(p, q, w);
+    if (((d1 <= 0 && d2 > 0) || (d1 > 0 && d2 <= 0)) && ((d3 <= 0 && d4 > 0) || (d3 > 0 && d4 <= 0))) return true;
+  }
+  return false;
+}
+
+/**
+ * Regime regions (docs/maps.md §5): the label of `labelAt` (src/lib/regimes) at every grid sample
+ * (columns in the first parameter x rows in the second, each row on the one-parameter diagram at that
+ * second value), grouped into 4-connected components of equal label; for every pair of neighbouring
+ * samples with different labels, the curves crossing the segment between them are the region's
+ * bounding curves (no curve there: an unlocated edge, e.g. a saddle connection).
+ */
+function regimeRegions(
+  diagrams: ReadonlyMap<number, { system: CompiledSystem; diagram: Diagram }>,
+  rows: readonly number[], cols: readonly number[], curves: readonly MapCurve[], diagnostics: Diagnostic[], isCancelled: () => boolean,
+): MapRegion[] {
+  const R = rows.length;
+  const C = cols.length;
+  const label: { regime: Regime | null; reason: string }[] = [];
+  for (let r = 0; r < R; r++) {
+    const entry = diagrams.get(rows[r])!;
+    for (let c = 0; c < C; c++) {
+      if (isCancelled()) return [];
+      try {
+        const l = labelAt(entry.system, entry.diagram, cols[c]);
+        label.push({ regime: l.regime, reason: l.reason });
+      } catch (e) {
+        label.push({ regime: null, reason: `label failed: ${e instanceof Error ? e.message : String(e)}` });
+      }
+    }
+  }
+  const key = (i: number) => label[i].regime ?? `none:${label[i].reason}`;
+  const comp = new Array<number>(R * C).fill(-1);
+  const regions: { regime: Regime | null; reason: string; cells: number[]; bounded: Set<string>; unlocated: number }[] = [];
+  for (let i = 0; i < R * C; i++) {
+    if (comp[i] >= 0) continue;
+    const id = regions.length;
+    const cells: number[] = [];
+    const stack = [i];
+    comp[i] = id;
+    while (stack.length > 0) {
+      const cur = stack.pop()!;
+      cells.push(cur);
+      const r = Math.floor(cur / C);
+      const c = cur % C;
+      for (const [dr, dc] of [[1, 0], [-1, 0], [0, 1], [0, -1]]) {
+        const r2 = r + dr;
+        const c2 = c + dc;
+        if (r2 < 0 || r2 >= R || c2 < 0 || c2 >= C) continue;
+        const nb = r2 * C + c2;
+        if (comp[nb] < 0 && key(nb) === key(i)) {
+          comp[nb] = id;
+          stack.push(nb);
+        }
+      }
+    }
+    regions.push({ regime: label[i].regime, reason: label[i].reason, cells: cells.sort((x, y) => x - y), bounded: new Set(), unlocated: 0 });
+  }
+  for (let i = 0; i < R * C; i++) {
+    const r = Math.floor(i / C);
+    const c = i % C;
+    for (const nb of [c + 1 < C ? i + 1 : -1, r + 1 < R ? i + C : -1]) {
+      if (nb < 0 || comp[nb] === comp[i]) continue;
+      const u: [number, number] = [cols[c], rows[r]];
+      const w: [number, number] = [cols[nb % C], rows[Math.floor(nb / C)]];
+      const hit = curves.filter((cv) => crosses(cv, u, w)).map((cv) => cv.id);
+      for (const side of [comp[i], comp[nb]]) {
+        for (const h of hit) regions[side].bounded.add(h);
+        if (hit.length === 0) regions[side].unlocated++;
+      }
+    }
+  }
+  if (regions.length > 1 && regions.some((g) => g.unlocated > 0)) {
+    diagnostics.push({ level: 'info', code: 'region-edge-unlocated', message: 'some neighbouring grid samples differ in regime with no continued curve between them (a saddle connection or crossover of the regime rule, which this map does not continue; or a curve outside the seeds)' });
+  }
+  return regions.map((g, k) => ({
+    id: `r${k + 1}`,
+    regime: g.regime,
+    reason: g.reason,
+    samples: g.cells.map((i) => [cols[i % C], rows[Math.floor(i / C)]] as [number, number]),
+    boundedBy: [...g.bounded].sort(),
+    unlocatedEdges: g.unlocated,
+  }));
+}
+
