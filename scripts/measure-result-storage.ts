@@ -34,7 +34,8 @@ async function twentyLakes(): Promise<Diagram> {
     sweep: { parameter: 'beta', from: 0, to: 0.5 },
   };
   const out = computeTrace(JSON.stringify(doc), {}, { onProgress: () => undefined, isCancelled: () => false });
-  return JSON.parse(out.diagramJson);
+  const { decodeDiagram } = await import('../src/lib/storage/index.ts');
+  return decodeDiagram(out.diagramBlob);
 }
 
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];

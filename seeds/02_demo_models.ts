@@ -20,6 +20,7 @@ import { checkDocument } from '../src/lib/server/models/document.ts';
 import { execFileSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import type { ComputeOutput } from '../src/lib/server/runs/compute.ts';
+import { resultRow } from '../src/lib/server/results/row.ts';
 import { resultCacheKey } from '../src/lib/server/runs/cache-key.ts';
 import { ENGINE_VERSION } from '../src/lib/atlas/engine-version.ts';
 
@@ -75,7 +76,8 @@ function computeInChild(documentText: string, settings: Record<string, unknown>)
   const stdout = execFileSync(process.execPath, ['--import', 'tsx', script], {
     input: JSON.stringify({ documentText, settings }), maxBuffer: 512 * 1024 * 1024, stdio: ['pipe', 'pipe', 'inherit'],
   });
-  return JSON.parse(stdout.toString('utf8'));
+  const out = JSON.parse(stdout.toString('utf8'));
+  return { ...out, diagramBlob: new Uint8Array(Buffer.from(out.diagramBlob, 'base64')) };
 }
 
 const TAG_COLOURS = ['#3d7a8c', '#b0623a', '#6b5ca5'];
@@ -96,11 +98,8 @@ export async function seed(knex: Knex): Promise<void> {
     if (!result) {
       try {
         const out = computeInChild(checked.text, settings);
-        const [id] = await knex('results').insert({
-          cache_key: cacheKey, engine_version: ENGINE_VERSION, diagram: out.diagramJson, regimes: out.regimesJson,
-          preview: out.previewJson, preview_points: out.previewPoints,
-          branch_count: out.branchCount, point_count: out.pointCount, special_point_count: out.specialPointCount, compute_ms: out.computeMs,
-        });
+        // The same row a worker writes (the encoded diagram, docs/storage.md).
+        const [id] = await knex('results').insert({ cache_key: cacheKey, ...resultRow(out, ENGINE_VERSION) });
         result = { id, regimes: out.regimesJson, compute_ms: out.computeMs };
       } catch (e) {
         // Never block set-up on the engine: the run is queued instead and the worker computes it on start.

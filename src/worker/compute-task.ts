@@ -140,7 +140,7 @@ function traceTask(task: ComputeTask): TaskResult {
       }
     }
     if (isCancelled()) {
-      return { diagramJson: '', regimesJson: '', previewJson: '', previewPoints: 0, branchCount: 0, pointCount: 0, specialPointCount: 0, computeMs: 0, cancelled: true };
+      return { diagramBlob: new Uint8Array(0), regimesJson: '', previewPoints: 0, branchCount: 0, pointCount: 0, specialPointCount: 0, computeMs: 0, phasesMs: { trace: 0, label: 0, onset: 0, encode: 0 }, cancelled: true };
     }
     const out = computeTrace(task.documentText, task.settings, {
       onProgress: (f, phrase) => post(delayShare + (1 - delayShare) * f, phrase, f >= 1),

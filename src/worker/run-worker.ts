@@ -18,8 +18,10 @@ import { availableParallelism } from 'node:os';
 import type { EscapeComputeTask, EscapeTaskResult, PointMessage } from './compute-task.ts';
 import type { StoredEscapeSettings } from '../lib/server/escapes/schema.ts';
 import {
-  atlasCacheKey, completeEscapeRun, findAtlas, findStudyId, storeAtlas, storedValueIndices, storeValue,
+  atlasCacheKey, completeEscapeRun, findStudyId, storeAtlas, storedValueIndices, storeValue,
 } from '../lib/server/escapes/repository.ts';
+import { findResultDiagram } from '../lib/server/results/repository.ts';
+import { decodeDiagramText } from '../lib/storage/index.ts';
 
 export interface WorkerOptions {
   /** Queue name to take runs from. */
@@ -207,19 +209,22 @@ export class RunWorker {
       }
       if (output) {
         let ok: boolean;
+        const storing = performance.now();
         try {
           ok = await completeRun(run, this.owner, output, ENGINE_VERSION);
         } catch (e) {
           // A diagram larger than the server's max_allowed_packet fails the same way on every attempt.
           if ((e as { errno?: number }).errno !== 1153) throw e;
-          const mb = (Buffer.byteLength(output.diagramJson) / 1048576).toFixed(1);
-          const error = { code: 'result-too-large', message: `the diagram (${mb} MB of JSON, ${output.pointCount} points) is larger than the database accepts in one statement (max_allowed_packet); narrow the sweep or lower maxPointsPerBranch, or raise max_allowed_packet` };
+          const mb = (output.diagramBlob.byteLength / 1048576).toFixed(1);
+          const error = { code: 'result-too-large', message: `the diagram (${mb} MB encoded, ${output.pointCount} points) is larger than the database accepts in one statement (max_allowed_packet); narrow the sweep or lower maxPointsPerBranch, or raise max_allowed_packet` };
           const status = await failRun(run, this.owner, error, false);
           log(`run ${run.id}: ${error.message}`);
           if (status === 'failed') await this.notify(run, 'failed');
           return;
         }
-        log(`run ${run.id}: ${ok ? `done (${output.branchCount} branches, ${output.pointCount} points, ${output.computeMs} ms)` : 'finished but no longer ours; discarded'}`);
+        const f = output.phasesMs;
+        const stored = `${output.diagramBlob.byteLength + Buffer.byteLength(output.regimesJson)} bytes stored`;
+        log(`run ${run.id}: ${ok ? `done (${output.branchCount} branches, ${output.pointCount} points, ${output.computeMs} ms: trace ${f.trace}, labelling ${f.label}, critical coupling ${f.onset}, encoding ${f.encode}; ${stored} in ${Math.round(performance.now() - storing)} ms)` : 'finished but no longer ours; discarded'}`);
         if (ok) await this.notify(run, 'done');
         return;
       }
@@ -259,7 +264,8 @@ export class RunWorker {
     try {
       // 1. The atlas of the same version and sweep.
       const key = atlasCacheKey(run.versionHash, JSON.parse(run.documentText), settings.atlas ?? {});
-      let atlas = await findAtlas(key);
+      // Either stored form of the diagram (encoded or JSON text), as JSON text for the study.
+      let atlas = await findResultDiagram(key);
       if (atlas) {
         log(`run ${run.id}: atlas from stored trace result ${atlas.id}`);
       } else {
@@ -275,7 +281,7 @@ export class RunWorker {
             deterministic = out.failed.deterministic;
           } else if (!out.cancelled) {
             const id = await storeAtlas(key, out);
-            atlas = { id, diagramJson: out.diagramJson };
+            atlas = { id, diagramJson: decodeDiagramText(out.diagramBlob) };
             log(`run ${run.id}: atlas computed and stored as trace result ${id}`);
           }
         } finally {

@@ -6,6 +6,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { closeDbAfterAll, db } from '../helpers.ts';
 import { DEMO } from '../../../seeds/01_demo_workspace.ts';
+import { diagramOfResultRow } from '../../../src/lib/server/results/stored-diagram.ts';
 
 closeDbAfterAll(afterAll);
 
@@ -20,7 +21,8 @@ describe('seeds/02_demo_models.ts', () => {
       const run = await db('runs').where({ model_id: m.id }).first();
       expect(run.status, `${m.name}: run status`).toBe('done');
       const result = await db('results').where({ id: run.result_id }).first();
-      const diagram = JSON.parse(result.diagram);
+      expect(result.diagram_blob, `${m.name}: the seed stores the encoded diagram (docs/storage.md)`).toBeTruthy();
+      const diagram = diagramOfResultRow(result);
       expect(diagram.variables).toEqual(['upper', 'middle', 'lower']);
       expect(diagram.branches.length).toBeGreaterThan(0);
       expect(Number((await db('band_tags').where({ run_id: run.id }).count({ n: '*' }))[0].n)).toBeGreaterThan(0);

@@ -10,6 +10,7 @@ import { claimRun, completeRun } from '../../../src/lib/server/runs/queue.ts';
 import { computeTrace } from '../../../src/lib/server/runs/compute.ts';
 import { ENGINE_VERSION } from '../../../src/lib/atlas/engine-version.ts';
 import { createModel, runRow, spawnWorker, twoLakes, until } from './fixtures.ts';
+import { diagramOfResultRow } from '../../../src/lib/server/results/stored-diagram.ts';
 
 closeDbAfterAll(afterAll);
 
@@ -40,7 +41,7 @@ describe('worker killed mid-run', () => {
       expect(rescuer.output()).toMatch(new RegExp(`run ${run.id}: claimed \\(attempt 2\\)`));
       const result = await db('results').where({ id: done.result_id }).first();
       expect(result.cache_key).toBe(done.cache_key);
-      const diagram = JSON.parse(result.diagram);
+      const diagram = diagramOfResultRow(result);
       expect(diagram.branches.length).toBe(result.branch_count);
       expect(diagram.branches.length).toBeGreaterThan(0);
     } finally {

@@ -80,7 +80,7 @@ export async function loadCompareEntries(workspaceId: string, runIds: readonly n
       if (e instanceof HttpError && e.status === 404) throw notFound(`run ${runId}`);
       throw e;
     }
-    const diagram = thinDiagram(JSON.parse(stored.diagramText) as Diagram, points);
+    const diagram = thinDiagram(stored.diagram(), points);
     const regimes = (JSON.parse(stored.regimesText || '{}') as { regimes?: RegimeBand[] } | null)?.regimes ?? [];
     return {
       runId,

@@ -1,7 +1,8 @@
 /**
- * The whole computation behind a trace run, from stored document text to the JSON text that is
- * stored as the result: compile, trace the diagram, label the coupling regimes. No database and no
- * I/O, so the worker thread, the demo seed and tests all run exactly this.
+ * The whole computation behind a trace run, from stored document text to what is stored as the
+ * result: compile, trace the diagram, label the coupling regimes, encode the diagram for storage
+ * (src/lib/storage, docs/storage.md). No database and no I/O, so the worker thread, the demo seed
+ * and tests all run exactly this.
  */
 import { compileModelJson } from '../../model/index.ts';
 import { traceDiagram } from '../../atlas/index.ts';
@@ -9,8 +10,7 @@ import { labelRegimes } from '../../regimes/index.ts';
 import { criticalCoupling, OnsetInputError, type CriticalCouplingResult } from '../../onset/index.ts';
 import type { Diagram } from '../../atlas/types.ts';
 import type { RunSettings } from './schemas.ts';
-import { thinDiagram } from '../results/thin.ts';
-import { PREVIEW_POINTS } from '../results/preview.ts';
+import { encodeForStorage } from '../results/stored-diagram.ts';
 
 export interface ComputeHooks {
   /** fraction in 0..1 of the whole run, and a short phrase saying what is being done. */
@@ -19,15 +19,17 @@ export interface ComputeHooks {
 }
 
 export interface ComputeOutput {
-  readonly diagramJson: string;
+  /** The diagram encoded for the `results` row (decodeDiagramText gives back its JSON text). */
+  readonly diagramBlob: Uint8Array;
   readonly regimesJson: string;
-  /** The diagram thinned to PREVIEW_POINTS (the full diagram's text when it is smaller). */
-  readonly previewJson: string;
+  /** Points in the drawing preview (the diagram thinned to PREVIEW_POINTS, or all when fewer). */
   readonly previewPoints: number;
   readonly branchCount: number;
   readonly pointCount: number;
   readonly specialPointCount: number;
   readonly computeMs: number;
+  /** Wall milliseconds per part: compile + trace, band labelling, critical coupling, encoding for storage. */
+  readonly phasesMs: { readonly trace: number; readonly label: number; readonly onset: number; readonly encode: number };
   readonly cancelled: boolean;
 }
 
@@ -43,6 +45,7 @@ export function computeTrace(documentText: string, settings: RunSettings, hooks:
     onProgress: (f: number, phrase: string) => hooks.onProgress(TRACE_SHARE * Math.min(1, Math.max(0, f)), phrase),
     isCancelled: () => hooks.isCancelled(),
   });
+  const traced = performance.now();
   let regimes: object = { regimes: [], escapeGraphs: [], diagnostics: [] };
   if (!hooks.isCancelled()) {
     hooks.onProgress(TRACE_SHARE, 'labelling coupling regimes');
@@ -50,6 +53,7 @@ export function computeTrace(documentText: string, settings: RunSettings, hooks:
   }
   // Critical coupling per node (docs/onset.md): n fold continuations, stored beside the bands for the
   // run page's table and network colouring. Only for networks swept over their coupling.
+  const labelled = performance.now();
   let onset: CriticalCouplingResult | null = null;
   if (!hooks.isCancelled() && system.network?.sweepIsCoupling) {
     hooks.onProgress(ONSET_AT, 'critical coupling per node');
@@ -61,19 +65,21 @@ export function computeTrace(documentText: string, settings: RunSettings, hooks:
     }
   }
   if (onset) regimes = { ...regimes, onset };
+  const onsetDone = performance.now();
   const pointCount = diagram.branches.reduce((n, b) => n + b.points.length, 0);
   hooks.onProgress(1, 'storing the result');
-  const diagramJson = JSON.stringify(diagram);
-  const preview = pointCount > PREVIEW_POINTS ? thinDiagram(diagram, PREVIEW_POINTS) : diagram;
+  const { blob, previewPoints } = encodeForStorage(diagram);
+  const regimesJson = JSON.stringify(regimes);
+  const done = performance.now();
   return {
-    diagramJson,
-    previewJson: preview === diagram ? diagramJson : JSON.stringify(preview),
-    previewPoints: preview.branches.reduce((n, b) => n + b.points.length, 0),
-    regimesJson: JSON.stringify(regimes),
+    diagramBlob: blob,
+    previewPoints,
+    regimesJson,
     branchCount: diagram.branches.length,
     pointCount,
     specialPointCount: diagram.bifurcations.length,
-    computeMs: Math.round(performance.now() - started),
+    computeMs: Math.round(done - started),
+    phasesMs: { trace: Math.round(traced - started), label: Math.round(labelled - traced), onset: Math.round(onsetDone - labelled), encode: Math.round(done - onsetDone) },
     cancelled: hooks.isCancelled(),
   };
 }

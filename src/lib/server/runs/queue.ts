@@ -9,6 +9,7 @@
 import type { Knex } from 'knex';
 import { db } from '../db.ts';
 import { recordAudit } from '../models/audit.ts';
+import { resultRow } from '../results/row.ts';
 import type { ComputeOutput } from './compute.ts';
 import type { RunSettings } from './schemas.ts';
 
@@ -141,14 +142,8 @@ export async function completeRun(run: ClaimedRun, owner: string, out: ComputeOu
   }
 }
 
-/** The `results` row of a computed trace (without its cache key). */
-export function resultRow(out: ComputeOutput, engineVersion: string): Record<string, unknown> {
-  return {
-    engine_version: engineVersion, diagram: out.diagramJson, regimes: out.regimesJson,
-    preview: out.previewJson, preview_points: out.previewPoints, branch_count: out.branchCount,
-    point_count: out.pointCount, special_point_count: out.specialPointCount, compute_ms: out.computeMs,
-  };
-}
+/** The `results` row of a computed trace (without its cache key): src/lib/server/results/row.ts. */
+export { resultRow };
 
 /**
  * The row of `table` with this cache key: the one already stored (reused), else `row` inserted under

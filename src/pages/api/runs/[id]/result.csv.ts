@@ -10,7 +10,7 @@ export const GET = handler(async ({ locals, params }) => {
   const runId = idParam(params.id, 'run');
   const r = await getRunResult(workspace.id, runId);
   const provenance = { modelName: r.run.modelName, versionHash: r.run.versionHash, runId: String(runId), engineVersion: r.engineVersion, date: r.createdAt };
-  return new Response(diagramToCsv(JSON.parse(r.diagramText), provenance), {
+  return new Response(diagramToCsv(r.diagram(), provenance), {
     status: 200,
     headers: {
       'Content-Type': 'text/csv; charset=utf-8',

@@ -9,15 +9,16 @@ import { idParam, queryObject } from '../../../../lib/server/models/route-params
 const resultQuery = z.object({
   /** Point budget for drawing: the diagram is thinned to about this many points. */
   points: z.coerce.number().int().min(100, 'at least 100').max(1_000_000).optional(),
-  /** 'preview': the diagram thinned at store time to PREVIEW_POINTS (served without parsing). */
+  /** 'preview': the diagram thinned to PREVIEW_POINTS (src/lib/server/results/preview.ts). */
   view: z.enum(['full', 'preview']).default('full'),
 }).strict();
 
 /**
  * One run's diagram and regime labels: { run, result: { id, engineVersion, computeMs, createdAt,
- * pointCount, viewPoints, diagram, regimes: { regimes, escapeGraphs, diagnostics } } }. The stored
- * JSON text is passed through as is (no parse, no re-encode) unless ?points asks for thinning;
- * ?view=preview serves the stored drawing preview (special points and bands complete).
+ * pointCount, viewPoints, diagram, regimes: { regimes, escapeGraphs, diagnostics } } }. The
+ * diagram's JSON text (decoded once per result and process, then cached; stored text of older rows
+ * passed through) is spliced in as is unless ?points asks for thinning; ?view=preview serves the
+ * drawing preview (special points and bands complete).
  */
 export const GET = handler(async ({ locals, params, url }) => {
   const { workspace } = requireRole(locals);
@@ -37,7 +38,7 @@ export const GET = handler(async ({ locals, params, url }) => {
   const r = await getRunResult(workspace.id, runId, usePreview ? 'preview' : 'full');
   const head = { id: r.resultId, engineVersion: r.engineVersion, computeMs: r.computeMs, createdAt: r.createdAt, pointCount: r.pointCount, viewPoints: r.viewPoints };
   if (r.viewPoints > q.points) {
-    const diagram = thinDiagram(JSON.parse(r.diagramText), q.points);
+    const diagram = thinDiagram(r.diagram(), q.points);
     const kept = diagram.branches.reduce((n, b) => n + b.points.length, 0);
     return json({ run: r.run, result: { ...head, viewPoints: kept, diagram: { ...diagram, thinned: { from: r.pointCount, to: kept } }, regimes: JSON.parse(r.regimesText) } });
   }
