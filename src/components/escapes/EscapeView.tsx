@@ -1,0 +1,195 @@
+/**
+ * The views of an escape study on its run page (docs/noise.md, "Views of an escape study"): exit
+ * barriers out of the start state with the exit switches, the probability of each escape order
+ * (Monte Carlo with 95 % intervals beside the weak-noise prediction), mean escape times on a log
+ * axis, and at a clicked parameter value the share of paths still waiting for each escape. The
+ * charts are the same Figures the export writes (lib/plot/escape-charts.ts), drawn as SVG in the
+ * page's theme; every mark is focusable and its readout gives the exact stored numbers. While the
+ * run goes on the island re-reads /api/runs/:id/escapes, so finished values appear as they come.
+ */
+import { useCallback, useEffect, useId, useMemo, useRef, useState } from 'react';
+import type { EscapePoint } from '../../lib/server/escapes/rows';
+import type { ChartFigure, ChartMark } from '../../lib/plot/escape-chart';
+import { escapeChart, type EscapeChartKind, type EscapeChartOptions, type EscapeProvenance, type EscapeStudyView } from '../../lib/plot/escape-charts';
+import type { Prim } from '../../lib/plot/figure';
+import { formatValue } from '../../lib/plot/ticks';
+import { MONO } from '../../lib/plot/svg';
+import type { PlotPalette } from '../../lib/plot/palette';
+import { isDarkTheme, readPalette, watchTheme } from '../diagram/theme';
+import { useWidth } from '../diagram/use-width';
+import ChartExport from './ChartExport';
+import '../diagram/diagram.css';
+import './escapes.css';
+
+interface Loaded {
+  study: (EscapeStudyView['study'] & { engineVersion?: string; createdAt?: string }) | null;
+  points: EscapePoint[];
+  run: { status: string };
+}
+
+export interface EscapeViewProps {
+  readonly runId: number;
+  readonly parameter: string;
+  readonly start: string;
+  readonly status: string;
+  readonly provenance: EscapeProvenance;
+}
+
+const CHARTS: { kind: Exclude<EscapeChartKind, 'survival'>; title: string; what: string }[] = [
+  { kind: 'barriers', title: 'Exit barriers', what: 'Exit barrier of every saddle out of the start state; dotted lines mark exit switches, where the lowest exit changes saddle. Lower barrier, likelier exit: rates go like exp(−barrier / level²).' },
+  { kind: 'sequences', title: 'Escape orders', what: 'Probability of each order in which the elements tip: Monte Carlo estimates as points with 95 % intervals (Wilson), the weak-noise prediction as dashed lines.' },
+  { kind: 'timing', title: 'Escape times', what: 'Mean time to the k-th escape (95 % interval of the mean) and mean time between consecutive escapes, on a log axis; dashed: the weak-noise prediction of the mean k-th escape time.' },
+];
+
+function PrimNode({ p, clipId }: { p: Prim; clipId: string }) {
+  const clip = p.clip ? `url(#${clipId})` : undefined;
+  const data = Object.fromEntries(Object.entries(p.data ?? {}).map(([k, v]) => [`data-${k}`, v]));
+  switch (p.t) {
+    case 'rect':
+      return <rect x={p.x} y={p.y} width={p.w} height={p.h} fill={p.fill} fillOpacity={p.opacity} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} clipPath={clip} {...data} />;
+    case 'path':
+      return <path d={p.d} fill={p.fill ?? 'none'} fillRule={p.fillRule} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} strokeDasharray={p.dash?.join(' ')} strokeLinecap={p.linecap} strokeLinejoin={p.linecap ? 'round' : undefined} opacity={p.opacity} clipPath={clip} {...data} />;
+    case 'text':
+      return <text x={p.x} y={p.y} fontSize={p.size} fontWeight={p.weight === 600 ? 600 : undefined} fontStyle={p.italic ? 'italic' : undefined} textAnchor={p.anchor} fill={p.fill} fontFamily={p.mono ? MONO : undefined} transform={p.rotate ? `rotate(${p.rotate} ${p.x} ${p.y})` : undefined} clipPath={clip}>{p.text}</text>;
+  }
+}
+
+/** One chart: the figure, focusable marks over it, a readout that follows hover and focus. */
+function Chart({ name, fig, onPick, picked }: { name: string; fig: ChartFigure; onPick?: (m: ChartMark) => void; picked?: string | null }) {
+  const [active, setActive] = useState<ChartMark | null>(null);
+  const clipId = `es-clip-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
+  const shown = active ?? fig.marks.find((m) => m.id === picked) ?? null;
+  return (
+    <div className="es-chart" data-testid={`escape-chart-${name}`}>
+      <div className="es-plot" style={{ maxWidth: fig.width }}>
+        <svg viewBox={`0 0 ${fig.width} ${fig.height}`} width="100%" role="group" aria-label={fig.title} style={{ display: 'block' }}>
+          <defs><clipPath id={clipId}><rect x={fig.plot.x} y={fig.plot.y} width={fig.plot.w} height={fig.plot.h} /></clipPath></defs>
+          <rect width={fig.width} height={fig.height} fill={fig.background} />
+          {fig.items.map((p, i) => <PrimNode key={i} p={p} clipId={clipId} />)}
+          {shown ? <circle className="es-ring" cx={shown.cx} cy={shown.cy} r={8.5} /> : null}
+          {fig.marks.map((m) => (
+            <circle
+              key={m.id}
+              className="es-hit"
+              cx={m.cx}
+              cy={m.cy}
+              r={8}
+              tabIndex={0}
+              role="button"
+              aria-label={m.readout.join('; ')}
+              data-testid="escape-mark"
+              data-kind={m.kind}
+              data-series={m.label}
+              onMouseEnter={() => setActive(m)}
+              onMouseLeave={() => setActive((a) => (a?.id === m.id ? null : a))}
+              onFocus={() => setActive(m)}
+              onBlur={() => setActive((a) => (a?.id === m.id ? null : a))}
+              onClick={() => onPick?.(m)}
+              onKeyDown={(e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); onPick?.(m); } }}
+            />
+          ))}
+        </svg>
+        {shown ? (
+          <div className="dg-tooltip es-tooltip" role="status" data-testid="escape-readout"
+            style={{ left: `${(shown.cx / fig.width) * 100}%`, top: `${(shown.cy / fig.height) * 100}%`, transform: shown.cx > fig.width * 0.6 ? 'translate(calc(-100% - 12px), -50%)' : undefined }}>
+            <div className="dg-tooltip-head">{shown.readout[0]}</div>
+            {shown.readout.slice(1).map((line, i) => <div key={i}>{line}</div>)}
+          </div>
+        ) : null}
+      </div>
+    </div>
+  );
+}
+
+export default function EscapeView(props: EscapeViewProps) {
+  const [data, setData] = useState<Loaded | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [palette, setPalette] = useState<{ pal: PlotPalette; dark: boolean } | null>(null);
+  const [at, setAt] = useState<number | null>(null);
+  const [picked, setPicked] = useState<string | null>(null);
+  const [wrapRef, width] = useWidth<HTMLDivElement>(720);
+  const rootRef = useRef<HTMLDivElement>(null);
+
+  const load = useCallback(async () => {
+    try {
+      const res = await fetch(`/api/runs/${props.runId}/escapes`, { headers: { Accept: 'application/json' } });
+      if (!res.ok) throw new Error(`the server answered ${res.status}`);
+      const body = (await res.json()) as Loaded;
+      setData(body); setError(null);
+      return body.run.status;
+    } catch (e) {
+      setError(`The escape study could not be loaded: ${e instanceof Error ? e.message : String(e)}`);
+      return 'failed';
+    }
+  }, [props.runId]);
+
+  useEffect(() => {
+    let stopped = false;
+    let timer: number | undefined;
+    const tick = async () => {
+      const status = await load();
+      if (!stopped && (status === 'queued' || status === 'running')) timer = window.setTimeout(tick, 3000);
+    };
+    void tick();
+    return () => { stopped = true; if (timer !== undefined) window.clearTimeout(timer); };
+  }, [load]);
+
+  useEffect(() => {
+    const read = () => setPalette({ pal: readPalette(rootRef.current), dark: isDarkTheme() });
+    read();
+    const stop = watchTheme(read);
+    window.addEventListener('bm-theme-change', read);
+    return () => { stop(); window.removeEventListener('bm-theme-change', read); };
+  }, []);
+
+  const view: EscapeStudyView | null = useMemo(() => data && ({
+    points: data.points, study: data.study, parameter: data.study?.parameter ?? props.parameter, start: data.study?.start ?? props.start,
+  }), [data, props.parameter, props.start]);
+  const screenWidth = Math.max(360, Math.min(width, 900));
+  const build = useCallback((kind: EscapeChartKind, o: EscapeChartOptions) => (view ? escapeChart(kind, view, o) : null), [view]);
+  const screen = (kind: EscapeChartKind) => (palette ? build(kind, { width: screenWidth, palette: palette.pal, dark: palette.dark, at: at ?? undefined }) : null);
+  const provenance: EscapeProvenance = { ...props.provenance, engineVersion: data?.study?.engineVersion ?? props.provenance.engineVersion, date: data?.study?.createdAt ?? props.provenance.date };
+  const done = data?.points.filter((p) => p.status === 'done') ?? [];
+  const survival = at !== null ? screen('survival') : null;
+  const pick = (chart: string, m: ChartMark) => {
+    if (m.kind !== 'point') return;
+    setPicked(`${chart}:${m.id}`);
+    setAt(m.x);
+  };
+
+  return (
+    <div className="dg-diagram es-root" ref={rootRef} data-testid="escape-view" data-values={done.length}>
+      <div ref={wrapRef} className="es-width" />
+      {error ? <p role="alert" className="dg-error">{error} <button type="button" onClick={() => void load()}>Try again</button></p> : null}
+      {!data && !error ? <p className="dg-muted">Loading the escape study…</p> : null}
+      {data && done.length === 0 ? <p className="dg-muted" data-testid="escape-empty">No parameter value is finished yet; the charts fill in as values finish.</p> : null}
+      {data && done.length > 0 ? CHARTS.map((c) => {
+        const fig = screen(c.kind);
+        return (
+          <section key={c.kind} className="es-section" aria-labelledby={`es-${c.kind}-h`}>
+            <div className="dg-toolbar">
+              <h3 id={`es-${c.kind}-h`} className="dg-title" style={{ flexBasis: 'auto' }}>{c.title}</h3>
+              <ChartExport name={c.kind} label={`${c.title.toLowerCase()} chart`} build={(o) => build(c.kind, o)} provenance={provenance}
+                csvUrl={`/api/runs/${props.runId}/escapes.csv`} jsonUrl={`/api/runs/${props.runId}/escapes`} />
+            </div>
+            <p className="dg-muted es-what">{c.what}{c.kind !== 'barriers' ? ' Click a point to see the waiting times at that value.' : ''}</p>
+            {fig && fig.marks.length ? <Chart name={c.kind} fig={fig} onPick={(m) => pick(c.kind, m)} picked={picked?.startsWith(`${c.kind}:`) ? picked.slice(c.kind.length + 1) : null} /> : <p className="dg-muted">Nothing to draw: {c.kind === 'barriers' ? 'no finite barrier out of the start state at the finished values' : 'no finished path statistics'}.</p>}
+          </section>
+        );
+      }) : null}
+      {survival && at !== null ? (
+        <section className="es-section" aria-labelledby="es-survival-h" data-testid="escape-survival" data-at={at}>
+          <div className="dg-toolbar">
+            <h3 id="es-survival-h" className="dg-title" style={{ flexBasis: 'auto' }}>Waiting times at {view?.parameter} = {formatValue(at)}</h3>
+            <ChartExport name="survival" label="waiting-time chart" build={(o) => build('survival', { ...o, at })} provenance={provenance}
+              csvUrl={`/api/runs/${props.runId}/escapes.csv`} jsonUrl={`/api/runs/${props.runId}/escapes`} />
+            <button type="button" onClick={() => { setAt(null); setPicked(null); }}>Close</button>
+          </div>
+          <p className="dg-muted es-what">Share of paths that have not yet had their k-th escape by time t, from the stored 20-bin histograms (exact at the bin edges); paths capped at the time limit count as still waiting.</p>
+          <Chart name="survival" fig={survival} />
+        </section>
+      ) : null}
+      <p className="dg-muted es-what">Model results are indicative; defer to domain experts and local regulation.</p>
+    </div>
+  );
+}
