@@ -10,6 +10,7 @@ import { compile, emit, emitText, parseModelCommand, readModel, UsageError, type
 import { escapes } from './escapes-command.js';
 import { barriersCommand } from './barriers-command.js';
 import { onset } from './onset-command.js';
+import { mapCommand } from './map-command.js';
 
 const TRACE_HELP = `Usage: npm run --silent atlas -- trace MODEL.json [--from P] [--to P] [--out FILE]
 
@@ -22,6 +23,9 @@ Prints JSON (or writes it to FILE):
     "bifurcations": [ { "type": "pitchfork", "p": .., "x": [..], "branches": ["b1", "b2"] } ],
     "diagnostics": [ { "level": "info", "code": "..", "message": ".." } ] }
 "unstable" counts eigenvalues with positive real part; Hopf points add "frequency".
+Beyond 3^8 patterns (more than eight three-root nodes) only a restricted set of starting patterns is
+traced, and "coverage": { "mode": "restricted", "maxTipped": k, "starts": .., "of": "3^20",
+"text": "branches through patterns with at most k tipped nodes: .." } says which (docs/numerics.md §12).
 It also carries the coupling regimes (docs/regimes.md):
     "regimes": [ { "from": 0, "to": 0.03, "regime": "weak", "bounds": ["sweep-bound", "saddle-node"],
                    "reason": "..." } ],
@@ -104,6 +108,7 @@ const regimes: Command = {
     const diagram = traceDiagram(system);
     const labelled = labelRegimes(system, diagram, values.recovery ? { starts: ['all-base', 'all-tipped'] } : {});
     const lines = [labelled.regimes.length > 0 ? regimesTable(labelled.regimes) : 'no regime bands'];
+    if (diagram.coverage) lines.push(`coverage: ${diagram.coverage.text}`);
     for (const d of labelled.diagnostics) lines.push(`${d.level}: ${d.code}: ${d.message}`);
     emitText(`${lines.join('\n')}\n`, args.out);
   },
@@ -116,6 +121,7 @@ const commands: Record<string, Command> = {
   onset,
   barriers: barriersCommand,
   escapes,
+  map: mapCommand,
 };
 
 function helpText(): string {

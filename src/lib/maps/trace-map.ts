@@ -201,7 +201,7 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
       if (t === 'no-symmetry') noSymmetry++;
       else if (t) {
         traced.push(t.traced);
-        for (const c of t.cusps) points.push({ ...c, id: `c${points.length + 1}` });
+        for (const c of t.cusps) points.push({ id: `c${points.length + 1}`, ...c });
       }
     }
     if (traced.length >= s.maxCurves) break;
@@ -466,7 +466,9 @@ function crosses(curve: MapCurve, u: [number, number], w: [number, number]): boo
     const d2 = orient(u, w, q);
     const d3 = orient(p, q, u);
     const d4 = orient(p, q, w);
-    if (((d1 <= 0 && d2 > 0) || (d1 > 0 && d2 <= 0)) && ((d3 <= 0 && d4 > 0) || (d3 > 0 && d4 <= 0))) return true;
+    // Touching counts (curves end exactly on the range bounds, where grid rows lie); collinear does not.
+    const apart = (e1: number, e2: number) => (e1 <= 0 && e2 >= 0) || (e1 >= 0 && e2 <= 0);
+    if (!(d1 === 0 && d2 === 0) && apart(d1, d2) && apart(d3, d4)) return true;
   }
   return false;
 }
