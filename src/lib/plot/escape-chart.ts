@@ -96,7 +96,7 @@ export function shapePath(shape: MarkerShape, cx: number, cy: number, r: number)
 
 /**
  * A base-10 logarithmic axis over [d0, d1] (both > 0) → [r0, r1], widened to whole decades, ticks at
- * the decades (and at 2 and 5 × 10^k when it spans fewer than three decades), from d3-scale's scaleLog.
+ * the decades (and at 2 and 5 × 10^k when it spans at most three decades), from d3-scale's scaleLog.
  */
 export function logAxis(domain: readonly [number, number], range: readonly [number, number]): { domain: [number, number]; ticks: Tick[]; map: (v: number) => number } {
   let [d0, d1] = domain;
@@ -110,7 +110,7 @@ export function logAxis(domain: readonly [number, number], range: readonly [numb
   const values = scale.ticks().filter((v) => {
     const m = v / 10 ** Math.floor(Math.log10(v) + 1e-9);
     const lead = Math.round(m);
-    return lead === 1 || (decades < 3 && (lead === 2 || lead === 5));
+    return lead === 1 || (decades <= 3 && (lead === 2 || lead === 5));
   });
   const label = (v: number) => (v >= 1e-3 && v < 1e5 ? String(Number(v.toPrecision(6))) : v.toExponential(0).replace('e+', 'e'));
   return { domain: [lo, hi], ticks: values.map((value) => ({ value, pos: scale(value), label: label(value) })), map: (v: number) => scale(v) };

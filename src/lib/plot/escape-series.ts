@@ -5,6 +5,7 @@
  * weak-noise prediction, and mean escape times. Pure: no browser, no server.
  */
 import type { EscapePoint } from '../server/escapes/rows';
+import { wilsonInterval } from '../noise/escape-statistics';
 
 /** What the charts need of a stored study (the API's `study`, null while the run goes on). */
 export interface EscapeStudyInfo {
@@ -100,13 +101,12 @@ export function exitSwitchMarks(study: Pick<EscapeStudyInfo, 'exitSwitches' | 's
 /**
  * One series per escape order seen in the Monte Carlo or named by the prediction. At a done value
  * where an order was never seen, its estimate is 0 with the Wilson interval of 0 of n, so the
- * chart shows how small an unseen order can be: Wilson (1927) with z = 1.96 gives low 0 and
- * high z² / (n + z²) for zero successes (set x = 0 in the score interval's centre ± half-width:
- * centre = (z²/2n) / (1 + z²/n), half-width = (z/(1 + z²/n)) √(z²/4n²), so high = z²/(n + z²)).
+ * chart shows how small an unseen order can be: the engine's Wilson (1927) interval of 0 of n,
+ * which is [0, z² / (n + z²)] (x = 0 in the score interval: centre (z²/2n) / (1 + z²/n) and
+ * half-width (z / (1 + z²/n)) · z / 2n add up to z² / (n + z²)).
  * Ordered by the largest estimated probability, then by label.
  */
 export function sequenceSeries(points: readonly EscapePoint[]): SequenceSeries[] {
-  const z = 1.96;
   const pts = done(points);
   const orders = new Map<string, string[]>();
   for (const pt of pts) {
@@ -119,7 +119,7 @@ export function sequenceSeries(points: readonly EscapePoint[]): SequenceSeries[]
     for (const pt of pts) {
       const seen = pt.sequences.find((s) => orderLabel(s.order) === label);
       if (seen) estimates.push({ p: pt.p, probability: seen.probability, low: seen.low, high: seen.high, count: seen.count, paths: pt.paths });
-      else if (pt.paths > 0) estimates.push({ p: pt.p, probability: 0, low: 0, high: (z * z) / (pt.paths + z * z), count: 0, paths: pt.paths });
+      else if (pt.paths > 0) estimates.push({ p: pt.p, probability: 0, ...wilsonInterval(0, pt.paths), count: 0, paths: pt.paths });
       const pr = pt.prediction?.sequences.find((s) => orderLabel(s.order) === label);
       if (pr && pr.probability !== null) predicted.push({ p: pt.p, probability: pr.probability });
     }
