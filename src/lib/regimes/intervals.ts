@@ -3,7 +3,12 @@ import type { CompiledSystem } from '../model/compiled-system';
 import { eigenvalues, spectralScale } from '../numerics/index';
 
 /** A cut of the parameter range: a special-point parameter value (or a sweep end) and the types there. */
-export interface Cut { readonly p: number; readonly types: string[] }
+export interface Cut {
+  readonly p: number;
+  readonly types: string[];
+  /** The special points of the diagram that make this cut (none at a sweep bound). */
+  readonly points: readonly SpecialPoint[];
+}
 
 /**
  * Cuts of [from, to]: both ends (type 'sweep-bound') and every special point of the diagram strictly
@@ -17,20 +22,20 @@ export function cutPoints(diagram: Diagram, from: number, to: number, tolerance 
   const near = (a: number, b: number) => Math.abs(a - b) <= tolerance * (1 + Math.abs(a));
   const pts = diagram.bifurcations
     .filter((s) => keep(s) && Number.isFinite(s.p) && s.p >= lo - tolerance * (1 + Math.abs(lo)) && s.p <= hi + tolerance * (1 + Math.abs(hi)))
-    .map((s) => ({ p: s.p, type: s.type as string }))
     .sort((a, b) => a.p - b.p);
-  const cuts: { p: number; types: Set<string> }[] = [{ p: lo, types: new Set(['sweep-bound']) }];
+  const cuts: { p: number; types: Set<string>; points: SpecialPoint[] }[] = [{ p: lo, types: new Set(['sweep-bound']), points: [] }];
   for (const s of pts) {
     const last = cuts[cuts.length - 1];
     if (near(last.p, s.p)) {
       if (last.types.has('sweep-bound')) last.types.delete('sweep-bound');
       last.types.add(s.type);
-    } else cuts.push({ p: s.p, types: new Set([s.type]) });
+      last.points.push(s);
+    } else cuts.push({ p: s.p, types: new Set([s.type]), points: [s] });
   }
   const last = cuts[cuts.length - 1];
   if (near(last.p, hi) && cuts.length > 1) last.p = hi;
-  else cuts.push({ p: hi, types: new Set(['sweep-bound']) });
-  return cuts.map((c) => ({ p: c.p, types: [...c.types].sort() }));
+  else cuts.push({ p: hi, types: new Set(['sweep-bound']), points: [] });
+  return cuts.map((c) => ({ p: c.p, types: [...c.types].sort(), points: c.points }));
 }
 
 /** Name of a cut for RegimeBand.bounds: its types joined by ' + '. */

@@ -26,6 +26,13 @@ export interface PointLabel {
   readonly key: string;
   /** Set when the integration budget ran out at this p (regime is null). */
   readonly truncated?: boolean;
+  /**
+   * Ids of the diagram's branches that hold the equilibria the label rests on: the start state, every
+   * exit saddle and every exit's destination. null when one of them lies on no branch of the diagram
+   * (or the label has no start state). labelRegimes uses it to pass over cuts that cannot change the
+   * label (docs/regimes.md, "Cuts that cannot change a label").
+   */
+  readonly restsOn?: readonly string[] | null;
 }
 
 /**
@@ -168,7 +175,7 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
     else {
       // First point of its span: continue across the cut from the nearest point labelled on the other
       // side of it, when the cut is made of saddle-nodes only (continueAcrossCut).
-      const across = acrossCut(p, span);
+      const across = acrossCut(p, span) ?? (o.mergeCuts ? acrossFolds(p) : null);
       if (across) {
         counts.continued++;
         counts.acrossCuts++;
@@ -177,6 +184,30 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
       }
     }
     return equilibriaFor(p);
+  };
+
+  /** Unstable counts of special points (unstableCountAt), by id. */
+  const unstableAt = new Map<string, number | null>();
+  const unstableOf = (sp: SpecialPoint) => {
+    if (!unstableAt.has(sp.id)) unstableAt.set(sp.id, unstableCountAt(system, sp));
+    return unstableAt.get(sp.id)!;
+  };
+  /**
+   * First point of its span, far from the cuts (labelRegimes samples across cuts that cannot change
+   * the label): continue from the nearest labelled point over every special point in between
+   * (continueAcrossFolds).
+   */
+  const acrossFolds = (p: number): EquilibriumSet | null => {
+    let q = Number.NaN;
+    for (const l of labelledPoints) if (l.p !== p && !(Math.abs(l.p - p) >= Math.abs(q - p))) q = l.p;
+    const source = Number.isNaN(q) ? undefined : eqCache.get(q) ?? continued.get(q);
+    if (!source) return null;
+    const lo = Math.min(p, q);
+    const hi = Math.max(p, q);
+    const points = diagram.bifurcations.filter((sp) => sp.p > lo && sp.p < hi);
+    const next = continueAcrossFolds(system, diagram, source, q, p, points, unstableOf, o);
+    if (!next) counts.continuationFallbacks++;
+    return next;
   };
 
   /** Every labelled p with its span, for acrossCut. */
@@ -248,7 +279,48 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
     }
     const regime = regimeOfExits(found.exits, n)!;
     const exitKeys = found.exits.map((e) => `${e.engaged.join(',')}>${e.tipping.join(',')}`).sort();
-    return { p, start, regime, reason: reasonFor(regime, found.exits, names, start), exits: found.exits, key: `${regime}|${exitKeys.join(';')}` };
+    return { p, start, regime, reason: reasonFor(regime, found.exits, names, start), exits: found.exits, key: `${regime}|${exitKeys.join(';')}`,
+      restsOn: restsOn(p, equilibria, found.states[found.start].x, found.exits, found.states) };
+  };
+
+  /**
+   * PointLabel.restsOn: the branch of each equilibrium the label rests on, checked against the
+   * diagram (the branch must pass within 1e-2 (1 + |x|) of the state at p, as continueAcrossCut's
+   * nearness test), so that a state whose Newton iteration landed on another branch than its guess
+   * came from does not hide a cut.
+   */
+  const branchById = new Map(diagram.branches.map((b) => [b.id, b]));
+  const onBranch = (e: Equilibrium, p: number): boolean => {
+    const b = e.branch === undefined ? undefined : branchById.get(e.branch);
+    if (!b) return false;
+    const scale = 1e-2 * (1 + maxNormAbs(e.x));
+    const pts = b.points;
+    for (let k = 0; k + 1 < pts.length; k++) {
+      const u = pts[k];
+      const v = pts[k + 1];
+      if ((u.p - p) * (v.p - p) > 0 || u.p === v.p) continue;
+      const t = (p - u.p) / (v.p - u.p);
+      let d = 0;
+      for (let i = 0; i < n && d <= scale; i++) d = Math.max(d, Math.abs(u.x[i] + t * (v.x[i] - u.x[i]) - e.x[i]));
+      if (d <= scale) return true;
+    }
+    return false;
+  };
+  const restsOn = (p: number, equilibria: readonly Equilibrium[], start: readonly number[], exits: readonly Exit[], states: readonly { x: readonly number[]; pattern: readonly NodeState[] }[]): string[] | null => {
+    const find = (x: readonly number[]) => equilibria.find((e) => e.x === x) ?? equilibria.find((e) => sameState(e.x, x, o.duplicateTolerance));
+    const held: (Equilibrium | undefined)[] = [find(start)];
+    for (const e of exits) {
+      held.push(find(e.saddle));
+      const ends = states.filter((s) => s.pattern.every((v, i) => v === e.destination[i]));
+      if (ends.length === 0) return null;
+      for (const d of ends) held.push(find(d.x));
+    }
+    const ids = new Set<string>();
+    for (const e of held) {
+      if (!e || !onBranch(e, p)) return null;
+      ids.add(e.branch!);
+    }
+    return [...ids].sort();
   };
 
   return {
@@ -372,6 +444,58 @@ function continueAcrossCut(system: CompiledSystem, diagram: Diagram, source: Equ
     if (!nearPoint(e.x)) return null;
     out.push(e);
     changed++;
+  }
+  if (changed !== expected) return null;
+  return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p), verified: source.verified };
+}
+
+/** continueAcrossFolds gives up beyond this many saddle-nodes between the two parameter values (common practice, no source: the chance that every fold's pair is matched falls with their number). */
+const MAX_FOLDS_ACROSS = 8;
+
+/**
+ * The stable states and index-1 saddles at p, continued from a set at p0 over the special points
+ * between them (`points`), when those that join an equilibrium with fewer than two unstable
+ * eigenvalues are all saddle-nodes (at most MAX_FOLDS_ACROSS of them; else null). The rule of
+ * continueAcrossCut, with the diagram's branches instead of nearness to the fold telling which
+ * equilibria a fold takes away or brings: every equilibrium of the source is continued (tangent
+ * predictor and Newton's method at p); one that does not continue with the same number of unstable
+ * eigenvalues must lie on a branch through one of the folds (else null), and the equilibria the
+ * branches through the folds show at p (equilibriaAt on those branches alone) that the continued
+ * ones do not hold are added. Each fold with k = 0 takes away or brings two of them, with k = 1 one
+ * (Kuznetsov, Elements of Applied Bifurcation Theory, 3rd ed., section 3.3); the change must have
+ * exactly that size, else null and the caller refines from the whole diagram.
+ */
+function continueAcrossFolds(system: CompiledSystem, diagram: Diagram, source: EquilibriumSet, p0: number, p: number, points: readonly SpecialPoint[], unstableOf: (sp: SpecialPoint) => number | null, o: RegimeOptions): EquilibriumSet | null {
+  const folds: SpecialPoint[] = [];
+  let expected = 0;
+  for (const sp of points) {
+    const k = unstableOf(sp);
+    if (k === null) return null;
+    if (k > 1) continue;
+    if (sp.type !== 'saddle-node' || folds.length === MAX_FOLDS_ACROSS) return null;
+    folds.push(sp);
+    expected += k === 0 ? 2 : 1;
+  }
+  const through = new Set(folds.flatMap((sp) => sp.branches));
+  const out: Equilibrium[] = [];
+  let changed = 0;
+  for (const e of source.equilibria) {
+    if (e.neutral !== 0 || e.unstable > 1) continue;
+    const next = refineContinued(system, e, tangentGuess(system, e, p0, p) ?? e.x.slice(), p, out, o);
+    if (next !== null && next.unstable === e.unstable && next.neutral === 0 && (next.unstable !== 1 || next.unstableVector !== undefined)) {
+      out.push(next);
+      continue;
+    }
+    if (e.branch === undefined || !through.has(e.branch) || ++changed > expected) return null;
+  }
+  if (folds.length > 0) {
+    const local: Diagram = { ...diagram, bifurcations: [], branches: diagram.branches.filter((b) => through.has(b.id)) };
+    for (const e of equilibriaAt(system, local, p, o).equilibria) {
+      if (e.neutral !== 0 || e.unstable > 1 || (e.unstable === 1 && !e.unstableVector)) continue;
+      if (out.some((f) => sameState(f.x, e.x, o.duplicateTolerance))) continue;
+      out.push(e);
+      changed++;
+    }
   }
   if (changed !== expected) return null;
   return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p), verified: source.verified };

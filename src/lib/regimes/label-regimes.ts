@@ -1,5 +1,5 @@
 import type { CompiledSystem } from '../model/compiled-system';
-import type { Diagnostic, Diagram } from '../atlas/types';
+import type { Diagnostic, Diagram, SpecialPoint } from '../atlas/types';
 import type { CrossoverKind, EscapeGraph, LocatedCrossover, NodeState, RegimeBand, SaddleEdge, StartState } from './types';
 import { resolveOptions, type RegimeOptions } from './options';
 import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles';
@@ -94,7 +94,67 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
     note({ level: 'info', code: 'cuts-ignored',
       message: `${ignored} of ${diagram.bifurcations.length} special points join only equilibria with two or more unstable eigenvalues; they cannot change the escape graph and do not cut the bands` });
   }
-  const labelIntervals = (labeller: Labeller) => {
+  const labelIntervals = (labeller: Labeller) => o.mergeCuts ? labelMerged(labeller) : labelEveryInterval(labeller);
+  // Across cuts that cannot change the label (docs/regimes.md, "Cuts that cannot change a label").
+  const labelMerged = (labeller: Labeller) => {
+    const pieces = new Map<StartState, Piece[]>(starts.map((s) => [s, []]));
+    const crossovers: LocatedCrossover[] = [];
+    let exhaustedAt: number | null = null;
+    const sides = foldSides(diagram);
+    const spanOf = (p: number): readonly [number, number] => {
+      let lo = 0;
+      let hi = cuts.length - 1;
+      while (hi - lo > 1) {
+        const m = (lo + hi) >> 1;
+        if (cuts[m].p <= p) lo = m; else hi = m;
+      }
+      return [cuts[lo].p, cuts[hi].p];
+    };
+    const range = Math.abs(to - from);
+    for (const start of starts) {
+      let k = 0;
+      try {
+        while (k + 1 < cuts.length) {
+          const a = cuts[k];
+          const w0 = cuts[k + 1].p - a.p;
+          if (w0 < o.minimumInterval) { k++; continue; }
+          const first = labeller.labelAt(a.p + Math.min(o.cutOffset * (1 + Math.abs(a.p)), 0.01 * w0), start, spanOf(a.p + 0.5 * w0));
+          if (first.truncated) throw new BudgetExhausted();
+          // Predicted from the first label: cuts where equilibria go away (their side is below). A cut
+          // where they appear is judged by the label above it, which this one cannot stand for.
+          let j = k + 1;
+          while (j + 1 < cuts.length && cuts[j].points.every((sp) => sides.get(sp.id) === -1) && passable(cuts[j], sides, () => first)) j++;
+          // A cut found not passable after sampling ends the interval there; the samples before it are
+          // kept (the same initial grid up to that cut), so the retry costs about one new label.
+          let interior: number[] | undefined;
+          for (;;) {
+            const found = locateInterval(labeller, a, cuts[j], start, { spanOf, range, intervals: j - k, interior });
+            let bad = -1;
+            for (let m = k + 1; m < j && bad < 0; m++) {
+              const c = cuts[m];
+              const beside = (sp: SpecialPoint) => nearestOnSide(found.seen, c.p, sides.get(sp.id)!);
+              if (!passable(c, sides, beside)) bad = m;
+            }
+            if (bad < 0) {
+              pieces.get(start)!.push(...found.pieces);
+              crossovers.push(...found.crossovers);
+              break;
+            }
+            j = bad;
+            interior = found.interior;
+          }
+          k = j;
+          if (labeller.orderBroken && labeller.counts.decided > 0) return null;
+        }
+      } catch (e) {
+        if (!(e instanceof BudgetExhausted)) throw e;
+        exhaustedAt = exhaustedAt === null ? cuts[k].p : Math.min(exhaustedAt, cuts[k].p);
+      }
+    }
+    crossovers.sort((u, v) => (u.start === v.start ? u.p - v.p : starts.indexOf(u.start) - starts.indexOf(v.start)));
+    return { pieces, crossovers, exhaustedAt };
+  };
+  const labelEveryInterval = (labeller: Labeller) => {
     const pieces = new Map<StartState, Piece[]>(starts.map((s) => [s, []]));
     const crossovers: LocatedCrossover[] = [];
     let exhaustedAt: number | null = null;
@@ -143,14 +203,70 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
   return finish(regimes, escapeGraphs, crossovers, labeller);
 }
 
-/** Sample, refine and bisect one interval between cuts (see labelRegimes). */
-function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState): { pieces: Piece[]; crossovers: LocatedCrossover[] } {
+/**
+ * Where the two equilibria of each saddle-node exist: on the side of its parameter value where the
+ * branch through it has its points near the fold (a fold turns the branch back, Kuznetsov, Elements
+ * of Applied Bifurcation Theory, 3rd ed., section 3.3). -1: below, +1: above; other special points,
+ * and folds whose side the points do not tell, are left out.
+ */
+function foldSides(diagram: Diagram): Map<string, -1 | 1> {
+  const sides = new Map<string, -1 | 1>();
+  const byId = new Map(diagram.branches.map((b) => [b.id, b]));
+  for (const sp of diagram.bifurcations) {
+    if (sp.type !== 'saddle-node') continue;
+    const b = byId.get(sp.branches[0]);
+    if (!b) continue;
+    let best = Infinity;
+    let side = 0;
+    for (const q of b.points) {
+      if (q.p === sp.p) continue;
+      const d = maxDist(q.x, sp.x);
+      if (d < best) { best = d; side = Math.sign(q.p - sp.p); }
+    }
+    if (side !== 0) sides.set(sp.id, side as -1 | 1);
+  }
+  return sides;
+}
+
+/** The sampled label nearest to p on the given side of it (or undefined). */
+function nearestOnSide(seen: readonly PointLabel[], p: number, side: -1 | 1): PointLabel | undefined {
+  let best: PointLabel | undefined;
+  for (const l of seen) if ((l.p - p) * side > 0 && (!best || Math.abs(l.p - p) < Math.abs(best.p - p))) best = l;
+  return best;
+}
+
+/**
+ * Whether a cut cannot change the label: every special point of it that joins an equilibrium with
+ * fewer than two unstable eigenvalues is a saddle-node with a known side, and the label beside it on
+ * that side (where its two equilibria exist) rests on none of the branches through it. A label is a
+ * function of the start state, its exit saddles and their destinations (docs/regimes.md, "The rule");
+ * a saddle-node that takes away or brings two other equilibria leaves all of these in place and
+ * moving smoothly, so the label is the same on both sides (docs/regimes.md, "Cuts that cannot change
+ * a label", for the non-generic cases this passes over).
+ */
+function passable(c: Cut, sides: ReadonlyMap<string, -1 | 1>, beside: (sp: SpecialPoint) => PointLabel | undefined): boolean {
+  if (c.points.length === 0) return false;
+  for (const sp of c.points) {
+    if (sp.type !== 'saddle-node' || !sides.has(sp.id)) return false;
+    const l = beside(sp);
+    if (!l || l.regime === null || !l.restsOn) return false;
+    if (sp.branches.some((id) => l.restsOn!.includes(id))) return false;
+  }
+  return true;
+}
+
+/**
+ * Sample, refine and bisect one interval between cuts (see labelRegimes). `merged`: the interval
+ * runs over cuts that cannot change the label; each label is asked for with the span between cuts
+ * that holds it, and the interval is first cut into pieces of at most maxSampleSpacing of the range.
+ */
+function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState, merged?: { spanOf: (p: number) => readonly [number, number]; range: number; intervals: number; interior?: readonly number[] }): { pieces: Piece[]; crossovers: LocatedCrossover[]; seen: PointLabel[]; interior: number[] } {
   const o = labeller.options;
   const w = b.p - a.p;
   const span = [a.p, b.p] as const;
   const seen: PointLabel[] = [];
   const at = (p: number) => {
-    const l = labeller.labelAt(p, start, span);
+    const l = labeller.labelAt(p, start, merged ? merged.spanOf(p) : span);
     if (l.truncated) throw new BudgetExhausted();
     seen.push(l);
     return l;
@@ -166,10 +282,16 @@ function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState): 
   const inA = a.p + Math.min(o.cutOffset * (1 + Math.abs(a.p)), 0.01 * w);
   const inB = b.p - Math.min(o.cutOffset * (1 + Math.abs(b.p)), 0.01 * w);
   const grid = [inA];
-  for (let k = 1; k < o.initialSamples; k++) grid.push(a.p + (w * k) / o.initialSamples);
+  if (merged?.interior) grid.push(...merged.interior.filter((q) => q > inA && q < inB));
+  else {
+    // Merged: never more samples than the intervals would have had one by one.
+    const spacing = merged && merged.intervals > 1 ? o.maxSampleSpacing * merged.range : Infinity;
+    const count = Math.min(o.initialSamples * (merged?.intervals ?? 1), Math.max(o.initialSamples, Math.ceil(w / spacing)));
+    for (let k = 1; k < count; k++) grid.push(a.p + (w * k) / count);
+  }
   grid.push(inB);
   const samples = grid.map(at);
-  const finest = o.finestFraction * w;
+  const finest = o.finestFraction * w / (merged?.intervals ?? 1);
   const events: { left: PointLabel; right: PointLabel }[] = [];
 
   const midLabel = (l: PointLabel, r: PointLabel): PointLabel => {
@@ -228,7 +350,7 @@ function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState): 
     loBound = c.description;
   }
   pieces.push({ from: lo, to: b.p, fromBound: loBound, toBound: cutName(b), label: central(lo, b.p, events.length ? events[events.length - 1].right : samples[0]) });
-  return { pieces, crossovers };
+  return { pieces, crossovers, seen, interior: grid.slice(1, -1) };
 }
 
 /**

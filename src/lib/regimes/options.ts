@@ -73,6 +73,14 @@ export interface RegimeOptions {
   readonly cutOffset: number;
   /** Build the full escape graph (every saddle, both branches) at the middle of every piece of constant label reasons. */
   readonly escapeGraphs: boolean;
+  /**
+   * Sample across cuts that cannot change the start's label (saddle-nodes whose two equilibria are
+   * neither the start state, an exit saddle nor an exit's destination; docs/regimes.md, "Cuts that
+   * cannot change a label"). false: every cut starts a new sampled interval, as before engine 1.5.
+   */
+  readonly mergeCuts: boolean;
+  /** Sampling across merged cuts: pieces of at most this fraction of the sweep range. */
+  readonly maxSampleSpacing: number;
 }
 
 export const defaultRegimeOptions: RegimeOptions = {
@@ -106,6 +114,8 @@ export const defaultRegimeOptions: RegimeOptions = {
   locateTolerance: 1e-9,
   cutOffset: 1e-7,
   escapeGraphs: true,
+  mergeCuts: true,
+  maxSampleSpacing: 1 / 32,
 };
 
 export function resolveOptions(options: Partial<RegimeOptions> | undefined): RegimeOptions {

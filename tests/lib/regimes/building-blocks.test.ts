@@ -71,9 +71,11 @@ describe('cutPoints and mergeBands', () => {
 
   it('cutPoints merges coincident special points and keeps the ends', () => {
     const cuts = cutPoints(diagram([sp(0.5, 'pitchfork'), sp(0.2, 'saddle-node'), sp(0.2 + 1e-12, 'saddle-node'), sp(2, 'hopf')]), 0, 1);
-    expect(cuts).toEqual([
+    expect(cuts.map((c) => ({ p: c.p, types: c.types }))).toEqual([
       { p: 0, types: ['sweep-bound'] }, { p: 0.2, types: ['saddle-node'] }, { p: 0.5, types: ['pitchfork'] }, { p: 1, types: ['sweep-bound'] },
     ]);
+    // Each cut carries the special points it was made of (the two saddle-nodes 1e-12 apart are one cut).
+    expect(cuts.map((c) => c.points.map((q) => q.p))).toEqual([[], [0.2, 0.2 + 1e-12], [0.5], []]);
   });
 
   it('mergeBands joins adjacent equal labels and breaks at unlabelled intervals', () => {
