@@ -60,6 +60,11 @@ export interface ChartInput {
   readonly caption?: string;
   /** Footer lines (provenance), printed small under the legend with the indicative note. */
   readonly footer?: readonly string[];
+  /**
+   * Pixels between the points of neighbouring series at one x, so that points and intervals of
+   * several series at the same parameter value stay apart (the readout keeps the exact x). Default 0.
+   */
+  readonly dodge?: number;
   /** A note printed under the legend (what points and lines are; orders not drawn). */
   readonly note?: string;
 }
@@ -185,8 +190,9 @@ export function buildChart(input: ChartInput): ChartFigure {
       const d = [...s.points].sort((a, b) => a.x - b.x).map((p, i) => `${i ? 'L' : 'M'}${r2(X(p.x))},${r2(Y(p.y))}`).join('');
       items.push({ t: 'path', d, stroke: colour, strokeWidth: 1.3, fill: 'none', clip: true, linecap: 'round', data: { layer: 'join', series: s.label } });
     }
+    const shift = (input.dodge ?? 0) * (si - (input.series.length - 1) / 2);
     for (const [pi, p] of s.points.entries()) {
-      const cx = r2(X(p.x)), cy = r2(yClamp(p.y));
+      const cx = r2(X(p.x) + shift), cy = r2(yClamp(p.y));
       if (p.low != null && p.high != null) {
         const y0 = r2(yClamp(p.low)), y1 = r2(yClamp(p.high));
         items.push({ t: 'path', d: `M${cx},${y0}V${y1}M${cx - 3.5},${y0}h7M${cx - 3.5},${y1}h7`, stroke: colour, strokeWidth: 1.2, fill: 'none', clip: true, data: { layer: 'interval', series: s.label } });

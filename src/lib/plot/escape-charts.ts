@@ -127,7 +127,7 @@ export function sequenceChart(v: EscapeStudyView, o: EscapeChartOptions = {}): C
   return buildChart({
     title: `Probability of each escape order against ${par}`,
     xLabel: o.xLabel ?? `parameter ${par}`, yLabel: o.yLabel ?? 'probability of the order',
-    series, yDomain: [0, 1], bands: bandsFromEdges(v.study?.bandEdges ?? []),
+    series, yDomain: [0, 1], bands: bandsFromEdges(v.study?.bandEdges ?? []), dodge: 5,
     note: `Points: Monte Carlo share of paths with 95 % Wilson intervals; dashed lines: weak-noise prediction.${rest.length ? ` ${rest.length} rarer order${rest.length === 1 ? '' : 's'} not drawn (${rest.slice(0, 4).map((s) => s.label).join('; ')}${rest.length > 4 ? '; …' : ''}); the CSV and JSON hold all.` : ''}`,
     ...common(o, v),
   });
@@ -157,7 +157,7 @@ export function timingChart(v: EscapeStudyView, o: EscapeChartOptions = {}): Cha
     title: `Mean escape times against ${par}`,
     xLabel: o.xLabel ?? `parameter ${par}`, yLabel: o.yLabel ?? 'mean time (log scale)',
     note: 'Points: Monte Carlo means with the 95 % interval of the mean; dashed lines: weak-noise prediction of the mean k-th escape time.',
-    series, yLog: true, bands: bandsFromEdges(v.study?.bandEdges ?? []), ...common(o, v),
+    series, yLog: true, dodge: 5, bands: bandsFromEdges(v.study?.bandEdges ?? []), ...common(o, v),
   });
 }
 

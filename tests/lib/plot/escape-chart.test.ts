@@ -84,3 +84,15 @@ describe('series colours', () => {
     for (const c of SERIES_DARK) expect(contrastRatio(c, NIGHT_PALETTE.paper)).toBeGreaterThanOrEqual(3);
   });
 });
+
+describe('buildChart({ dodge })', () => {
+  it('moves the points of neighbouring series apart by dodge pixels at the same x, symmetric about x', () => {
+    const pts = (y: number) => [{ x: 1, y, readout: [] }];
+    const base = { title: 't', xLabel: 'x', yLabel: 'y', xDomain: [0, 2] as const, yDomain: [0, 1] as const };
+    const series = [0, 1, 2].map((i) => ({ label: `s${i}`, colour: i, shape: 'circle' as const, points: pts(0.5) }));
+    const plain = buildChart({ ...base, series });
+    const dodged = buildChart({ ...base, series, dodge: 5 });
+    expect(dodged.marks.map((m) => Math.round((m.cx - plain.marks[0].cx) * 100) / 100)).toEqual([-5, 0, 5]);
+    expect(dodged.marks.map((m) => m.x)).toEqual([1, 1, 1]);
+  });
+});
