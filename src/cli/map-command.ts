@@ -9,22 +9,24 @@ const HELP = `Usage: npm run --silent atlas -- map MODEL.json --second NAME --fr
 
 The two-parameter map: the document's swept parameter (first) against a second model parameter
 NAME varied from A to B. One-parameter diagrams are traced at a few values of NAME; from each of
-their saddle-nodes the curve of saddle-nodes is continued in both parameters, and from each
-pitchfork of a symmetric network the curve of symmetry-breaking points. Cusp points (where a
-saddle-node curve turns back and the fold's quadratic coefficient vanishes) are located on the
-curves. The coupling regime (weak, intermediate, strong) is sampled on a coarse grid only to say
+their saddle-nodes the curve of saddle-nodes is continued in both parameters, from each Hopf point
+the Hopf curve, and from each pitchfork of a symmetric network the curve of symmetry-breaking
+points. Cusp points (a saddle-node curve turns back, the fold's quadratic coefficient vanishes) and
+Bogdanov-Takens points (a double zero eigenvalue, where a Hopf curve ends on a saddle-node curve)
+are located on the curves. The coupling regime (weak, intermediate, strong) is sampled on a coarse grid only to say
 which curves bound which region. Method: docs/maps.md.
 
 Prints JSON (or writes it to FILE):
   { "parameters": ["beta", "r"], "ranges": { "first": [0, 1], "second": [A, B] },
     "curves": [ { "id": "sn1", "type": "saddle-node", "points": [ { "p": [beta, r], "x": [..] } ],
                   "ends": ["parameter-bound", "parameter-bound"], "seed": { "second": .., "p": .., "x": [..] } } ],
-    "points": [ { "id": "c1", "type": "cusp", "p": [beta, r], "x": [..], "curve": "sn1",
+    "points": [ { "id": "cusp1", "type": "cusp", "p": [beta, r], "x": [..], "curves": ["sn1"],
                   "evidence": { "reason": "..", "before": .., "after": .. } } ],
     "regions": [ { "id": "r1", "regime": "weak", "samples": [[beta, r], ..], "boundedBy": ["sn1"],
                    "unlocatedEdges": 0 } ],
     "diagnostics": [ { "level": "info", "code": "..", "message": ".." } ] }
-Curve types: "saddle-node", "pitchfork". Point types: "cusp".
+Curve types: "saddle-node", "hopf" (points add "frequency"), "pitchfork". Point types: "cusp",
+"bogdanov-takens" (a saddle-node curve meets a Hopf curve; listed once with both curves).
 
 Options:
   --second NAME    the second parameter (required): the coupling parameter or an element
@@ -50,7 +52,7 @@ function integerOption(name: string, value: string | undefined, min: number, max
 }
 
 export const mapCommand: Command = {
-  summary: 'two-parameter map: saddle-node and pitchfork curves, cusp points, regime regions',
+  summary: 'two-parameter map: saddle-node, Hopf and pitchfork curves, cusp and Bogdanov-Takens points, regime regions',
   help: HELP,
   run(argv) {
     const args = parseModelCommand(argv, HELP, {

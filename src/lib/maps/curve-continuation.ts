@@ -51,7 +51,9 @@ export interface CurveOptions {
   readonly maxCorrectorIterations: number;
 }
 
-export type CurveEnd = 'parameter-bound' | 'closed-loop' | 'point-cap' | 'step-collapse' | 'newton-failure' | 'state-bound' | 'cancelled';
+export type CurveEnd = 'parameter-bound' | 'closed-loop' | 'point-cap' | 'step-collapse' | 'newton-failure' | 'state-bound' | 'cancelled'
+  /** Stopped by the caller's test (a Hopf curve at a Bogdanov-Takens point, where it turns into neutral saddles). */
+  | 'bogdanov-takens';
 
 export interface CurvePoint {
   readonly y: Float64Array;
@@ -62,6 +64,8 @@ export interface CurvePoint {
 export interface CurveHooks {
   /** Every accepted step (a previous, b new). */
   onStep?: (a: CurvePoint, b: CurvePoint) => void;
+  /** After every accepted step: true ends the direction at b with end 'bogdanov-takens'. */
+  stopAfter?: (a: CurvePoint, b: CurvePoint) => boolean;
   isCancelled?: () => boolean;
 }
 
@@ -266,6 +270,7 @@ export function continueCurve(sys: ExtendedSystem, y0: Float64Array, t0: Float64
     points.push(pt);
     cur = pt;
     if (end !== null) return finish(end);
+    if (hooks.stopAfter?.(points[points.length - 2], pt)) return finish('bogdanov-takens');
     let big = 0;
     for (const i of sys.stateIndex) big = Math.max(big, Math.abs(y[i]));
     if (big > o.stateBound) return finish('state-bound');

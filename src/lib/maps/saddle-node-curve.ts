@@ -13,9 +13,10 @@
  * |v| grows past 2 (v more than 60 degrees from c), v is rescaled to unit length and c set to it
  * (the point stays on the curve, since J v = 0 is homogeneous), so the system stays well scaled.
  *
- * Cusp test (Kuznetsov §8.2, (8.14) and §10.2.2): the quadratic coefficient of the fold's normal
- * form, a2 = (1/2) w^T B(v, v), with J v = 0, J^T w = 0, w^T v = 1 and B(v, v)_i = sum_jk
- * d^2F_i/dx_j dx_k v_j v_k; a cusp is a simple zero of a2 along the curve.
+ * Cusp test (Kuznetsov §8.2 and §10.2.2): the quadratic coefficient of the fold's normal form,
+ * a2 = (1/2) w^T B(v, v), with J v = 0, J^T w = 0, w^T v = 1 and B(v, v)_i = sum_jk
+ * d^2F_i/dx_j dx_k v_j v_k; a cusp is a simple zero of a2 along the curve. Bogdanov-Takens test:
+ * w . v with unnormalized null vectors (foldTests).
  */
 import type { ExtendedSystem } from './curve-continuation.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
@@ -125,12 +126,18 @@ export class SaddleNodeSystem implements ExtendedSystem {
   }
 
   /**
-   * The cusp test a2 = (1/2) w^T B(v, v) at y (w from the bordered system [J^T v; v^T 0] (w, s) =
-   * (0, 1), regular at a fold with a simple zero eigenvalue), with the normalization w . v = 1 and
-   * v scaled to unit length so that the value does not depend on the normalization c. NaN when the
-   * bordered matrix is singular (w . v = 0: a double zero eigenvalue, Bogdanov-Takens).
+   * Test functions of the codimension-two points on the fold curve at y, with v̂ = v/|v| and p the
+   * left null vector of J from the bordered system [J w0; v̂ᵀ 0] (p, s) = (0, 1), i.e. Jᵀp = 0 with
+   * the normalization w0 . p = 1 (Govaerts 2000, ch. 3, bordered systems; regular at a fold and at a
+   * Bogdanov-Takens point as long as w0 . p != 0). w0 is carried along the curve (the previous
+   * point's p, normalized), so the sign of p is continuous.
+   *   cusp: p . B(v̂, v̂) / 2, zero where the fold's quadratic coefficient vanishes (Kuznetsov §8.2,
+   *         §10.2.2); a2 = (p . B(v̂, v̂)/2) / (p . v̂) is Kuznetsov's coefficient with <p, q> = 1.
+   *   bt:   p . v̂, zero where the left and right null vectors become orthogonal, i.e. the zero
+   *         eigenvalue becomes double (Bogdanov-Takens; Kuznetsov §10.2.2).
+   * Null when the bordered matrix is singular.
    */
-  quadraticCoefficient(y: Float64Array): number {
+  foldTests(y: Float64Array, w0: Float64Array): { cusp: number; bt: number; a2: number; p: Float64Array } | null {
     const n = this.n;
     this.load(y);
     const a = y[2 * n];
@@ -141,23 +148,27 @@ export class SaddleNodeSystem implements ExtendedSystem {
     for (let i = 0; i < n; i++) this.v[i] /= nv;
     this.sys.jacobian(this.x, a, b, this.j);
     const m = n + 1;
+    // Transposed bordered system: rows i < n: sum_k J_ki p_k + s v̂_i = 0; last row: w0 . p = 1.
     const A = new Float64Array(m * m);
     for (let i = 0; i < n; i++) {
       for (let k = 0; k < n; k++) A[i * m + k] = this.j[k * n + i];
       A[i * m + n] = this.v[i];
-      A[n * m + i] = this.v[i];
+      A[n * m + i] = w0[i];
     }
     const rhs = new Float64Array(m);
     rhs[n] = 1;
-    const ws = new DenseLu(A, m).solve(rhs);
-    if (ws === null) return Number.NaN;
+    const sol = new DenseLu(A, m).solve(rhs);
+    if (sol === null) return null;
+    const p = sol.subarray(0, n);
     this.sys.secondState(this.x, a, b, this.v, this.h);
     let q = 0;
+    let pv = 0;
     for (let i = 0; i < n; i++) {
       let bi = 0;
       for (let j = 0; j < n; j++) bi += this.h[i * n + j] * this.v[j];
-      q += ws[i] * bi;
+      q += p[i] * bi;
+      pv += p[i] * this.v[i];
     }
-    return 0.5 * q;
+    return { cusp: 0.5 * q, bt: pv, a2: (0.5 * q) / pv, p: Float64Array.from(p) };
   }
 }

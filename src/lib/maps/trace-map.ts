@@ -13,7 +13,8 @@ import { labelAt } from '../regimes/label-at.js';
 import type { Regime } from '../regimes/types.js';
 import { dot } from '../numerics/vector.js';
 import { findSymmetry, SymmetricBranchPointSystem } from './branch-point-curve.js';
-import { continueCurve, correctOn, startTangent, type CurveDirection, type CurveEnd, type CurveOptions, type CurvePoint, type ExtendedSystem } from './curve-continuation.js';
+import { continueCurve, correctOn, startTangent, type CurveDirection, type CurveEnd, type CurveHooks, type CurveOptions, type CurvePoint, type ExtendedSystem } from './curve-continuation.js';
+import { HopfSystem } from './hopf-curve.js';
 import { SaddleNodeSystem } from './saddle-node-curve.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 
@@ -63,12 +64,14 @@ export const defaultMapSettings = Object.freeze({
   stateBound: 1e6,
 });
 
-export type MapCurveType = 'saddle-node' | 'pitchfork';
+export type MapCurveType = 'saddle-node' | 'pitchfork' | 'hopf';
 
 export interface MapCurvePoint {
   /** [first, second] parameter values. */
   readonly p: [number, number];
   readonly x: number[];
+  /** Hopf curves: the imaginary part ω of the critical pair ±iω. */
+  readonly frequency?: number;
 }
 
 export interface MapCurve {
@@ -80,12 +83,15 @@ export interface MapCurve {
   readonly seed: { readonly second: number; readonly p: number; readonly x: number[] };
 }
 
+export type MapPointType = 'cusp' | 'bogdanov-takens';
+
 export interface MapPoint {
   readonly id: string;
-  readonly type: 'cusp';
+  readonly type: MapPointType;
   readonly p: [number, number];
   readonly x: number[];
-  readonly curve: string;
+  /** The curves it was found on (a Bogdanov-Takens point lies on a saddle-node and a Hopf curve). */
+  readonly curves: string[];
   readonly evidence: { readonly reason: string; readonly [key: string]: unknown };
 }
 
@@ -190,18 +196,20 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
     for (const sp of diagram.bifurcations) {
       if (isCancelled()) break;
       hooks.onProgress?.(0.4 + (0.4 * k) / diagrams.size, 'continuing curves');
-      const type: MapCurveType | null = sp.type === 'saddle-node' ? 'saddle-node' : sp.type === 'pitchfork' || sp.type === 'transcritical' ? 'pitchfork' : null;
+      const type: MapCurveType | null = sp.type === 'saddle-node' ? 'saddle-node' : sp.type === 'hopf' ? 'hopf' : sp.type === 'pitchfork' || sp.type === 'transcritical' ? 'pitchfork' : null;
       if (type === null) continue;
       if (onTraced(traced, type, sp.x, sp.p, b)) continue;
       if (traced.length >= s.maxCurves) {
         diagnostics.push({ level: 'warning', code: 'curve-cap', message: `stopped at ${s.maxCurves} curves (maxCurves); special points of the seed diagrams were left out` });
         break;
       }
-      const t = type === 'saddle-node' ? saddleNodeCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled) : branchPointCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled);
+      const t = type === 'saddle-node' ? saddleNodeCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled)
+        : type === 'hopf' ? hopfCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled)
+          : branchPointCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled);
       if (t === 'no-symmetry') noSymmetry++;
       else if (t) {
         traced.push(t.traced);
-        for (const c of t.cusps) points.push({ id: `c${points.length + 1}`, ...c });
+        for (const c of t.found) addPoint(points, c);
       }
     }
     if (traced.length >= s.maxCurves) break;
@@ -264,21 +272,128 @@ function onTraced(traced: readonly Traced[], type: MapCurveType, x: readonly num
 }
 
 /** Trace a curve both ways from y0 and join the halves: [minus reversed, y0, plus]. */
-function bothWays(ext: ExtendedSystem, y0: Float64Array, t0: Float64Array, o: CurveOptions, isCancelled: () => boolean): { pts: CurvePoint[]; ends: [CurveEnd, CurveEnd] } {
-  const c0 = 'c' in ext ? Float64Array.from((ext as unknown as { c: Float64Array }).c) : null;
-  const plus = continueCurve(ext, y0, t0, o, { isCancelled });
+function bothWays(
+  ext: ExtendedSystem & { c: Float64Array }, y0: Float64Array, t0: Float64Array, o: CurveOptions, hooks: CurveHooks,
+): { pts: CurvePoint[]; ends: [CurveEnd, CurveEnd] } {
+  const c0 = Float64Array.from(ext.c);
+  const plus = continueCurve(ext, y0, t0, o, hooks);
   let minus: CurveDirection;
   if (plus.end === 'closed-loop') minus = { points: [plus.points[0]], end: 'closed-loop', rejectedSteps: 0, newtonIterations: 0 };
   else {
-    if (c0) (ext as unknown as { c: Float64Array }).c.set(c0);
-    minus = continueCurve(ext, y0, Float64Array.from(t0, (v) => -v), o, { isCancelled });
+    ext.c.set(c0);
+    minus = continueCurve(ext, y0, Float64Array.from(t0, (v) => -v), o, hooks);
   }
   return { pts: [...minus.points.slice(1).reverse(), ...plus.points], ends: [minus.end, plus.end] };
 }
 
+function noteEnd(end: CurveEnd, id: string, diagnostics: Diagnostic[]): void {
+  if (end === 'parameter-bound' || end === 'closed-loop' || end === 'cancelled' || end === 'bogdanov-takens') return;
+  diagnostics.push({ level: 'warning', code: end, message: `curve ${id} ended early (${end}); it may continue beyond the last point shown` });
+}
+
+/** Polish a seed on an extended system with the second parameter fixed, then its tangent; null (with a diagnostic) when singular. */
+function startOn(
+  ext: ExtendedSystem, y0: Float64Array, b: number, what: string, diagnostics: Diagnostic[], sp: SpecialPoint, sys: TwoParameterSystem,
+): { y: Float64Array; t: Float64Array } | null {
+  const N = ext.size;
+  const e = new Float64Array(N);
+  e[N - 1] = 1;
+  const polished = correctOn(ext, y0, e, b, { residualTolerance: 1e-12, stepTolerance: 1e-12, maxIterations: 20, earlyStep: 1e-12 });
+  const start = polished.converged || polished.residual < 1e-10 ? polished.y : null;
+  const tangent = start ? startTangent(ext, start) : null;
+  if (!start || !tangent || !(tangent.next > 1e-8 * tangent.largest)) {
+    diagnostics.push({ level: 'warning', code: 'curve-start-failed', p: sp.p, message: `${what} at ${sys.parameters[0]} = ${sp.p}, ${sys.parameters[1]} = ${b}: its extended system is ${start ? 'singular there (a degenerate point)' : 'not solved there'}; no curve continued` });
+    return null;
+  }
+  // Orient the first direction towards increasing second parameter (then first), for reproducible output.
+  const t = tangent.t;
+  if (t[N - 1] < 0 || (t[N - 1] === 0 && t[N - 2] < 0)) for (let i = 0; i < N; i++) t[i] = -t[i];
+  return { y: start, t };
+}
+
+interface Located {
+  readonly y: Float64Array;
+  readonly value: number;
+  readonly converged: boolean;
+}
+
+/**
+ * Zero of a test function between two consecutive curve points ya, yb (values fa, fb of opposite
+ * sign): the Illinois variant of regula falsi (Dahlquist & Björck, Numerical Methods, §6.2) on the
+ * chord parameter u in [0, 1]; the trial point solves the extended system with
+ * d . (y - (ya + u (yb - ya))) = 0, d the unit chord (residual 1e-12). Stops when the bracket is
+ * shorter than 1e-13 (1 + |y|) along the chord or the value is exactly 0; cap 100 iterations.
+ */
+function locateOnChord(ext: ExtendedSystem, ya: Float64Array, yb: Float64Array, fa: number, fb: number, test: (y: Float64Array) => number): Located | null {
+  const N = ya.length;
+  const chord = new Float64Array(N);
+  let len = 0;
+  for (let k = 0; k < N; k++) {
+    chord[k] = yb[k] - ya[k];
+    len += chord[k] ** 2;
+  }
+  len = Math.sqrt(len);
+  if (!(len > 0)) return null;
+  for (let k = 0; k < N; k++) chord[k] /= len;
+  let size = 1;
+  for (let k = 0; k < N; k++) size = Math.max(size, 1 + Math.abs(ya[k]));
+  let lo = 0;
+  let hi = 1;
+  let flo = fa;
+  let fhi = fb;
+  let side = 0;
+  let best: Located | null = null;
+  for (let it = 0; it < 100; it++) {
+    const u = (lo * fhi - hi * flo) / (fhi - flo);
+    const g = new Float64Array(N);
+    for (let k = 0; k < N; k++) g[k] = ya[k] + u * (yb[k] - ya[k]);
+    const r = correctOn(ext, g, chord, dot(chord, g), { residualTolerance: 1e-12, stepTolerance: 1e-13, maxIterations: 20, earlyStep: 1e-13, maxDisplacement: len });
+    if (!r.converged && !(r.residual < 1e-11)) break;
+    const value = test(r.y);
+    if (!Number.isFinite(value)) break;
+    best = { y: r.y, value, converged: false };
+    if (value === 0 || (hi - lo) * len < 1e-13 * size) return { ...best, converged: true };
+    if (Math.sign(value) === Math.sign(flo)) {
+      lo = u;
+      flo = value;
+      if (side === -1) fhi /= 2;
+      side = -1;
+    } else {
+      hi = u;
+      fhi = value;
+      if (side === 1) flo /= 2;
+      side = 1;
+    }
+  }
+  return best;
+}
+
+/** Add a codimension-two point, or merge it into one of the same type at the same place (|Δp| < 1e-6 (1 + |p|), |Δx| < 1e-5). */
+function addPoint(points: MapPoint[], c: Omit<MapPoint, 'id'>): void {
+  const same = points.find((q) => q.type === c.type
+    && Math.max(Math.abs(q.p[0] - c.p[0]), Math.abs(q.p[1] - c.p[1])) < 1e-6 * (1 + Math.abs(c.p[0]) + Math.abs(c.p[1]))
+    && q.x.every((v, i) => Math.abs(v - c.x[i]) < 1e-5));
+  if (same) {
+    for (const id of c.curves) if (!same.curves.includes(id)) same.curves.push(id);
+    const ev = same.evidence as Record<string, unknown>;
+    const also = (ev.alsoOn as unknown[] | undefined) ?? [];
+    ev.alsoOn = [...also, { curves: c.curves, ...c.evidence }];
+    return;
+  }
+  const prefix = c.type === 'cusp' ? 'cusp' : 'bt';
+  points.push({ id: `${prefix}${points.filter((q) => q.type === c.type).length + 1}`, ...c });
+}
+
+/** Left null vector of J (unit), from the SVD of J^T. */
+function leftNullVector(j: Float64Array, n: number): Float64Array {
+  const t = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) for (let k = 0; k < n; k++) t[k * n + i] = j[i * n + k];
+  return nullVector(t, n);
+}
+
 function saddleNodeCurve(
   sys: TwoParameterSystem, sp: SpecialPoint, b: number, o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
-): { traced: Traced; cusps: Omit<MapPoint, 'id'>[] } | null {
+): { traced: Traced; found: Omit<MapPoint, 'id'>[] } | null {
   const n = sys.dimension;
   const x = Float64Array.from(sp.x);
   const j = sys.jacobian(x, sp.p, b, new Float64Array(n * n));
@@ -289,19 +404,9 @@ function saddleNodeCurve(
   y0.set(v0, n);
   y0[2 * n] = sp.p;
   y0[2 * n + 1] = b;
-  const e = new Float64Array(2 * n + 2);
-  e[2 * n + 1] = 1;
-  const polished = correctOn(ext, y0, e, b, { residualTolerance: 1e-12, stepTolerance: 1e-12, maxIterations: 20, earlyStep: 1e-12 });
-  const start = polished.converged || polished.residual < 1e-10 ? polished.y : null;
-  const tangent = start ? startTangent(ext, start) : null;
-  if (!start || !tangent || !(tangent.next > 1e-8 * tangent.largest)) {
-    diagnostics.push({ level: 'warning', code: 'curve-start-failed', p: sp.p, message: `saddle-node at ${sys.parameters[0]} = ${sp.p}, ${sys.parameters[1]} = ${b}: the fold system is ${start ? 'singular there (degenerate fold)' : 'not solved there'}; no curve continued` });
-    return null;
-  }
-  // Orient the first direction towards increasing second parameter (then first), for reproducible ids.
-  const t0 = tangent.t;
-  if (t0[2 * n + 1] < 0 || (t0[2 * n + 1] === 0 && t0[2 * n] < 0)) for (let i = 0; i < t0.length; i++) t0[i] = -t0[i];
-  const { pts, ends } = bothWays(ext, start, t0, o, isCancelled);
+  const start = startOn(ext, y0, b, 'saddle-node', diagnostics, sp, sys);
+  if (!start) return null;
+  const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled });
   const id = `sn${index + 1}`;
   const ys = pts.map((p) => p.y);
   const curve: MapCurve = {
@@ -312,108 +417,151 @@ function saddleNodeCurve(
     seed: { second: b, p: sp.p, x: [...sp.x] },
   };
   for (const end of ends) noteEnd(end, id, diagnostics);
-  return { traced: { curve, ys }, cusps: locateCusps(ext, ys, id, diagnostics) };
-}
-
-function noteEnd(end: CurveEnd, id: string, diagnostics: Diagnostic[]): void {
-  if (end === 'parameter-bound' || end === 'closed-loop' || end === 'cancelled') return;
-  diagnostics.push({ level: 'warning', code: end, message: `curve ${id} ended early (${end}); it may continue beyond the last point shown` });
+  return { traced: { curve, ys }, found: foldPoints(ext, ys, id, diagnostics) };
 }
 
 /**
- * Cusp points: sign changes of a2 = w^T B(v, v)/2 between consecutive curve points, refined by the
- * Illinois variant of regula falsi (Dahlquist & Björck, Numerical Methods, §6.2) on the chord
- * parameter u in [0, 1]: the trial point solves the fold system with d . (y - (y_a + u (y_b - y_a)))
- * = 0, d the unit chord. Stops when the bracket is shorter than 1e-13 (1 + |y|) along the chord.
+ * Cusp and Bogdanov-Takens points on a saddle-node curve: sign changes of the two test functions of
+ * SaddleNodeSystem.foldTests between consecutive points (evaluated in curve order, carrying the
+ * border w0 along so that their signs are continuous), located by locateOnChord.
  */
-function locateCusps(ext: SaddleNodeSystem, ys: readonly Float64Array[], curve: string, diagnostics: Diagnostic[]): Omit<MapPoint, 'id'>[] {
+function foldPoints(ext: SaddleNodeSystem, ys: readonly Float64Array[], curve: string, diagnostics: Diagnostic[]): Omit<MapPoint, 'id'>[] {
   const n = ext.n;
-  const cusps: Omit<MapPoint, 'id'>[] = [];
-  const tau = ys.map((y) => ext.quadraticCoefficient(y));
-  for (let i = 0; i + 1 < ys.length; i++) {
-    const ta = tau[i];
-    const tb = tau[i + 1];
-    if (!(Number.isFinite(ta) && Number.isFinite(tb)) || ta === 0 || Math.sign(ta) === Math.sign(tb)) continue;
-    const ya = Float64Array.from(ys[i]);
-    const yb = ys[i + 1];
-    // Put c on the first point's null vector so that both ends satisfy c . v ~ 1.
-    let sq = 0;
-    for (let k = 0; k < n; k++) sq += ya[n + k] * ya[n + k];
-    for (let k = 0; k < n; k++) ext.c[k] = ya[n + k] / sq;
-    const chord = new Float64Array(ya.length);
-    let len = 0;
-    for (let k = 0; k < ya.length; k++) {
-      chord[k] = yb[k] - ya[k];
-      len += chord[k] ** 2;
+  if (ys.length < 2) return [];
+  const found: Omit<MapPoint, 'id'>[] = [];
+  const j0 = ext.sys.jacobian(ys[0].slice(0, n), ys[0][2 * n], ys[0][2 * n + 1], new Float64Array(n * n));
+  let w0 = leftNullVector(j0, n);
+  const tests: ({ cusp: number; bt: number; a2: number } | null)[] = [];
+  const borders: Float64Array[] = [];
+  for (const y of ys) {
+    borders.push(w0);
+    const t = ext.foldTests(y, w0);
+    tests.push(t);
+    if (t) {
+      const norm = Math.hypot(...t.p);
+      w0 = Float64Array.from(t.p, (v) => v / norm);
     }
-    len = Math.sqrt(len);
-    for (let k = 0; k < ya.length; k++) chord[k] /= len;
-    const trial = (u: number): { y: Float64Array; tau: number } | null => {
-      const g = new Float64Array(ya.length);
-      for (let k = 0; k < ya.length; k++) g[k] = ya[k] + u * (yb[k] - ya[k]);
-      const r = correctOn(ext, g, chord, dot(chord, g), { residualTolerance: 1e-12, stepTolerance: 1e-13, maxIterations: 20, earlyStep: 1e-13, maxDisplacement: len });
-      if (!r.converged && !(r.residual < 1e-11)) return null;
-      return { y: r.y, tau: ext.quadraticCoefficient(r.y) };
-    };
-    let lo = 0;
-    let hi = 1;
-    let flo = ta;
-    let fhi = tb;
-    let side = 0;
-    let best: { y: Float64Array; tau: number } | null = null;
-    let converged = false;
-    for (let it = 0; it < 100; it++) {
-      const u = (lo * fhi - hi * flo) / (fhi - flo);
-      const r = trial(u);
-      if (!r) break;
-      best = r;
-      if (r.tau === 0 || (hi - lo) * len < 1e-13 * (1 + Math.abs(r.y[2 * n]) + Math.abs(r.y[2 * n + 1]))) {
-        converged = true;
-        break;
-      }
-      if (Math.sign(r.tau) === Math.sign(flo)) {
-        lo = u;
-        flo = r.tau;
-        if (side === -1) fhi /= 2;
-        side = -1;
-      } else {
-        hi = u;
-        fhi = r.tau;
-        if (side === 1) flo /= 2;
-        side = 1;
-      }
-      if (Math.abs(r.tau) < 1e-15) {
-        converged = true;
-        break;
-      }
-    }
-    if (!best) {
-      diagnostics.push({ level: 'warning', code: 'locate-failed', message: `curve ${curve}: the quadratic coefficient changes sign between two points but no point between them could be computed; cusp not reported` });
-      continue;
-    }
-    if (!converged) diagnostics.push({ level: 'warning', code: 'locate-not-converged', message: `curve ${curve}: cusp location stopped before the bracket was below tolerance` });
-    const y = best.y;
-    cusps.push({
-      type: 'cusp',
-      p: [y[2 * n], y[2 * n + 1]],
-      x: Array.from(y.subarray(0, n)),
-      curve,
-      evidence: {
-        reason: `the quadratic coefficient a2 = w·B(v,v)/2 of the fold changes sign along the saddle-node curve (${ta.toPrecision(3)} before, ${tb.toPrecision(3)} after): the curve turns back in the parameter plane and two fold branches meet in a cusp`,
-        testFunction: 'a2 = w·B(v,v)/2 (J v = 0, Jᵀw = 0, w·v = 1, |v| = 1)',
-        before: ta,
-        after: tb,
-        atPoint: best.tau,
-        converged,
-      },
-    });
   }
-  return cusps;
+  for (let i = 0; i + 1 < ys.length; i++) {
+    const ta = tests[i];
+    const tb = tests[i + 1];
+    if (!ta || !tb) continue;
+    for (const kind of ['cusp', 'bt'] as const) {
+      if (ta[kind] === 0 || Math.sign(ta[kind]) === Math.sign(tb[kind])) continue;
+      // c on the first point's null vector so that both ends satisfy c . v ~ 1.
+      const ya = Float64Array.from(ys[i]);
+      let sq = 0;
+      for (let k = 0; k < n; k++) sq += ya[n + k] * ya[n + k];
+      for (let k = 0; k < n; k++) ext.c[k] = ya[n + k] / sq;
+      const w = borders[i];
+      const hit = locateOnChord(ext, ya, ys[i + 1], ta[kind], tb[kind], (y) => ext.foldTests(y, w)?.[kind] ?? Number.NaN);
+      if (!hit) {
+        diagnostics.push({ level: 'warning', code: 'locate-failed', message: `curve ${curve}: a ${kind === 'cusp' ? 'cusp' : 'Bogdanov–Takens'} test function changes sign between two points but no point between them could be computed; not reported` });
+        continue;
+      }
+      if (!hit.converged) diagnostics.push({ level: 'warning', code: 'locate-not-converged', message: `curve ${curve}: the location stopped before the bracket was below tolerance` });
+      const y = hit.y;
+      found.push(kind === 'cusp'
+        ? {
+          type: 'cusp', p: [y[2 * n], y[2 * n + 1]], x: Array.from(y.subarray(0, n)), curves: [curve],
+          evidence: {
+            reason: `the fold's quadratic coefficient a2 = w·B(v,v)/2 changes sign along the saddle-node curve (${ta.a2.toPrecision(3)} before, ${tb.a2.toPrecision(3)} after): the curve turns back in the parameter plane, where two fold branches meet`,
+            testFunction: 'p·B(v,v)/2 with J v = 0, |v| = 1, Jᵀp = 0 (a2 = that / p·v)',
+            before: ta.a2, after: tb.a2, atPoint: hit.value, converged: hit.converged,
+          },
+        }
+        : {
+          type: 'bogdanov-takens', p: [y[2 * n], y[2 * n + 1]], x: Array.from(y.subarray(0, n)), curves: [curve],
+          evidence: {
+            reason: `the left and right null vectors of the Jacobian become orthogonal along the saddle-node curve (w·v = ${ta.bt.toPrecision(3)} before, ${tb.bt.toPrecision(3)} after): the zero eigenvalue becomes double (a Jordan block), where a Hopf curve ends on the fold curve`,
+            testFunction: 'w·v with J v = 0, Jᵀw = 0, |v| = 1',
+            before: ta.bt, after: tb.bt, atPoint: hit.value, converged: hit.converged,
+          },
+        });
+    }
+  }
+  return found;
+}
+
+/**
+ * Hopf curve from a Hopf point of a seed diagram (frequency ω): v and c span the null space of
+ * J² + ω² I (the two smallest right singular vectors, ml-matrix SVD), κ = ω². Each direction stops
+ * where κ changes sign (the Hopf curve ends in a Bogdanov-Takens point and goes on as neutral
+ * saddles, which are not Hopf points); that point is located (test κ) and the κ < 0 end point dropped.
+ */
+function hopfCurve(
+  sys: TwoParameterSystem, sp: SpecialPoint, b: number, o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
+): { traced: Traced; found: Omit<MapPoint, 'id'>[] } | null {
+  const n = sys.dimension;
+  const omega = sp.frequency;
+  if (omega === undefined || !(omega > 0)) return null;
+  const x = Float64Array.from(sp.x);
+  const j = sys.jacobian(x, sp.p, b, new Float64Array(n * n));
+  const m = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) {
+    for (let k = 0; k < n; k++) {
+      let s = 0;
+      for (let l = 0; l < n; l++) s += j[i * n + l] * j[l * n + k];
+      m[i * n + k] = s + (i === k ? omega * omega : 0);
+    }
+  }
+  const svd = new SingularValueDecomposition(Matrix.from1DArray(n, n, m), { computeLeftSingularVectors: false });
+  const order = svd.diagonal.map((_, i) => i).sort((p, q) => svd.diagonal[p] - svd.diagonal[q]);
+  const v0 = Float64Array.from({ length: n }, (_, r) => svd.rightSingularVectors.get(r, order[0]));
+  const c0 = Float64Array.from({ length: n }, (_, r) => svd.rightSingularVectors.get(r, order[1]));
+  const ext = new HopfSystem(sys, c0);
+  const y0 = new Float64Array(2 * n + 3);
+  y0.set(x, 0);
+  y0.set(v0, n);
+  y0[2 * n] = omega * omega;
+  y0[2 * n + 1] = sp.p;
+  y0[2 * n + 2] = b;
+  ext.rebase(y0);
+  const start = startOn(ext, y0, b, 'Hopf point', diagnostics, sp, sys);
+  if (!start) return null;
+  const stopAfter = (pa: CurvePoint, pb: CurvePoint) => pa.y[2 * n] > 0 && !(pb.y[2 * n] > 0);
+  const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled, stopAfter });
+  const id = `h${index + 1}`;
+  const found: Omit<MapPoint, 'id'>[] = [];
+  const ys = pts.map((p) => p.y);
+  // Replace each stopped end (κ <= 0) by the located Bogdanov-Takens point.
+  for (const [side, end] of ends.entries()) {
+    if (end !== 'bogdanov-takens') continue;
+    const outer = side === 0 ? 0 : ys.length - 1;
+    const inner = side === 0 ? 1 : ys.length - 2;
+    const ya = ys[inner];
+    const yb = ys[outer];
+    ext.rebase(ya);
+    const hit = locateOnChord(ext, ya, yb, ya[2 * n], yb[2 * n], (y) => y[2 * n]);
+    if (hit) {
+      ys[outer] = hit.y;
+      found.push({
+        type: 'bogdanov-takens', p: [hit.y[2 * n + 1], hit.y[2 * n + 2]], x: Array.from(hit.y.subarray(0, n)), curves: [id],
+        evidence: {
+          reason: `ω² of the critical pair reaches zero along the Hopf curve (${ya[2 * n].toPrecision(3)} before, ${yb[2 * n].toPrecision(3)} after): the pair ±iω merges into a double zero eigenvalue, where the Hopf curve ends on a saddle-node curve`,
+          testFunction: 'κ = ω² in (J² + κ I) v = 0',
+          before: ya[2 * n], after: yb[2 * n], atPoint: hit.value, converged: hit.converged,
+        },
+      });
+    } else {
+      ys.splice(outer, 1);
+      diagnostics.push({ level: 'warning', code: 'locate-failed', message: `curve ${id}: ω² changes sign at its end but the Bogdanov–Takens point could not be computed; not reported` });
+    }
+  }
+  const curve: MapCurve = {
+    id,
+    type: 'hopf',
+    points: ys.map((y) => ({ p: [y[2 * n + 1], y[2 * n + 2]], x: Array.from(y.subarray(0, n)), frequency: Math.sqrt(Math.max(0, y[2 * n])) })),
+    ends,
+    seed: { second: b, p: sp.p, x: [...sp.x] },
+  };
+  for (const end of ends) noteEnd(end, id, diagnostics);
+  return { traced: { curve, ys }, found };
 }
 
 function branchPointCurve(
   sys: TwoParameterSystem, sp: SpecialPoint, b: number, o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
-): { traced: Traced; cusps: [] } | 'no-symmetry' | null {
+): { traced: Traced; found: [] } | 'no-symmetry' | null {
   const n = sys.dimension;
   const x = Float64Array.from(sp.x);
   const j = sys.jacobian(x, sp.p, b, new Float64Array(n * n));
@@ -430,18 +578,9 @@ function branchPointCurve(
   const ext = new SymmetricBranchPointSystem(sys, symmetry, u0);
   const y0 = ext.reduce(x, phi.map((v) => v / nu), sp.p, b);
   const N = ext.size;
-  const e = new Float64Array(N);
-  e[N - 1] = 1;
-  const polished = correctOn(ext, y0, e, b, { residualTolerance: 1e-12, stepTolerance: 1e-12, maxIterations: 20, earlyStep: 1e-12 });
-  const start = polished.converged || polished.residual < 1e-10 ? polished.y : null;
-  const tangent = start ? startTangent(ext, start) : null;
-  if (!start || !tangent || !(tangent.next > 1e-8 * tangent.largest)) {
-    diagnostics.push({ level: 'warning', code: 'curve-start-failed', p: sp.p, message: `branch point at ${sys.parameters[0]} = ${sp.p}, ${sys.parameters[1]} = ${b}: the restricted fold system is ${start ? 'singular there' : 'not solved there'}; no curve continued` });
-    return null;
-  }
-  const t0 = tangent.t;
-  if (t0[N - 1] < 0 || (t0[N - 1] === 0 && t0[N - 2] < 0)) for (let i = 0; i < N; i++) t0[i] = -t0[i];
-  const { pts, ends } = bothWays(ext, start, t0, o, isCancelled);
+  const start = startOn(ext, y0, b, 'branch point (restricted to the symmetric subspace)', diagnostics, sp, sys);
+  if (!start) return null;
+  const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled });
   const id = `bp${index + 1}`;
   const ys = pts.map((p) => p.y);
   const curve: MapCurve = {
@@ -452,7 +591,7 @@ function branchPointCurve(
     seed: { second: b, p: sp.p, x: [...sp.x] },
   };
   for (const end of ends) noteEnd(end, id, diagnostics);
-  return { traced: { curve, ys }, cusps: [] };
+  return { traced: { curve, ys }, found: [] };
 }
 
 /** Does the polyline of a curve cross the segment u-w in the parameter plane? */

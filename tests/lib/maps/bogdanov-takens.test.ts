@@ -1,0 +1,56 @@
+import { describe, expect, it } from 'vitest';
+import { compileTwoParameter, traceMap } from '../../../src/lib/maps/index';
+
+/**
+ * Bogdanov-Takens normal form x' = y, y' = b1 + b2 x + x^2 + s x y, s = ±1 (Kuznetsov, Elements of
+ * Applied Bifurcation Theory, 3rd ed., §8.4: saddle-node curve b1 = b2^2/4, Hopf curve b1 = 0 with
+ * b2 < 0, both ending at the Bogdanov-Takens point b = 0). Derivation used below: equilibria have
+ * y = 0 and b1 + b2 x + x^2 = 0; J = [[0, 1], [b2 + 2x, s x]]. Fold: det J = -(b2 + 2x) = 0, so
+ * x = -b2/2 and b1 = b2^2/4. Hopf: trace J = s x = 0, so x = 0, b1 = 0, and det J = -b2 = ω^2 > 0.
+ * Both at once: b1 = b2 = 0, x = 0 (a double zero eigenvalue, J = [[0, 1], [0, 0]]).
+ */
+for (const s of [-1, 1]) {
+  describe(`map of the Bogdanov-Takens normal form, s = ${s} (Kuznetsov §8.4)`, () => {
+    const doc = {
+      format: 'brinkmap/ode-1', name: 'Bogdanov-Takens normal form', variables: ['x', 'y'],
+      rates: { x: 'y', y: `b1 + b2 * x + x^2 + ${s} * x * y` }, parameters: { b1: 0, b2: -0.5 }, sweep: { parameter: 'b1', from: -1, to: 1 },
+    };
+    const sys = compileTwoParameter(doc, { second: 'b2' });
+    const map = traceMap(sys, { secondFrom: -1, secondTo: 1, regionColumns: 0, regionRows: 0 });
+    const hopf = map.curves.filter((c) => c.type === 'hopf');
+    const folds = map.curves.filter((c) => c.type === 'saddle-node');
+
+    it('finds one Hopf curve b1 = 0, ω² = -b2 to 1e-9, from the bound b2 = -1 to the Bogdanov-Takens point', () => {
+      expect(hopf).toHaveLength(1);
+      expect(hopf[0].ends).toEqual(['parameter-bound', 'bogdanov-takens']);
+      for (const q of hopf[0].points) {
+        expect(Math.abs(q.p[0])).toBeLessThan(1e-9);
+        expect(Math.abs(q.frequency! ** 2 + q.p[1])).toBeLessThan(1e-9);
+        expect(Math.abs(q.x[0]) + Math.abs(q.x[1])).toBeLessThan(1e-9);
+      }
+      expect(hopf[0].points[0].p[1]).toBeCloseTo(-1, 12);
+    });
+
+    it('finds one saddle-node curve b1 = b2²/4 to 1e-9 across the whole range', () => {
+      expect(folds).toHaveLength(1);
+      expect(folds[0].ends).toEqual(['parameter-bound', 'parameter-bound']);
+      for (const q of folds[0].points) {
+        expect(Math.abs(q.p[0] - q.p[1] ** 2 / 4)).toBeLessThan(1e-9);
+        expect(Math.abs(q.x[0] + q.p[1] / 2)).toBeLessThan(1e-9);
+      }
+    });
+
+    it('locates one Bogdanov-Takens point at the origin to 1e-9, on both curves, with test functions of opposite sign on both sides', () => {
+      const bt = map.points.filter((q) => q.type === 'bogdanov-takens');
+      expect(bt).toHaveLength(1);
+      expect(map.points.filter((q) => q.type === 'cusp')).toEqual([]);
+      for (const v of [...bt[0].p, ...bt[0].x]) expect(Math.abs(v)).toBeLessThan(1e-9);
+      expect(bt[0].curves.sort()).toEqual([folds[0].id, hopf[0].id].sort());
+      const ev = bt[0].evidence as { before: number; after: number; alsoOn: { before: number; after: number }[] };
+      expect(Math.sign(ev.before)).toBe(-Math.sign(ev.after));
+      expect(ev.alsoOn).toHaveLength(1);
+      expect(Math.sign(ev.alsoOn[0].before)).toBe(-Math.sign(ev.alsoOn[0].after));
+      expect(map.diagnostics).toEqual([]);
+    });
+  });
+}
