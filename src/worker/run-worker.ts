@@ -81,7 +81,10 @@ export class RunWorker {
   constructor(private readonly opts: WorkerOptions) {
     this.pool = new Piscina({
       filename: new URL('./compute-task.ts', import.meta.url).href,
-      minThreads: 0,
+      // Threads start with the worker and load the engine then (piscina imports `filename` on thread
+      // start): a thread started on demand made the first run of a worker wait 2-3 s for module
+      // loading (docs/architecture.md, "Storing results").
+      minThreads: opts.concurrency,
       maxThreads: opts.concurrency,
       idleTimeout: 60_000,
       // Inherit `--import tsx` so the thread can load TypeScript.
