@@ -46,7 +46,7 @@ for (const s of [-1, 1]) {
       expect(map.points.filter((q) => q.type === 'cusp')).toEqual([]);
       for (const v of [...bt[0].p, ...bt[0].x]) expect(Math.abs(v)).toBeLessThan(1e-9);
       expect(bt[0].curves.sort()).toEqual([folds[0].id, hopf[0].id].sort());
-      const ev = bt[0].evidence as { before: number; after: number; alsoOn: { before: number; after: number }[] };
+      const ev = bt[0].evidence as unknown as { before: number; after: number; alsoOn: { before: number; after: number }[] };
       expect(Math.sign(ev.before)).toBe(-Math.sign(ev.after));
       expect(ev.alsoOn).toHaveLength(1);
       expect(Math.sign(ev.alsoOn[0].before)).toBe(-Math.sign(ev.alsoOn[0].after));
