@@ -14,6 +14,14 @@ import { linearAxis, type Tick } from './ticks';
 export type MarkerShape = 'circle' | 'square' | 'triangle' | 'diamond' | 'down' | 'hexagon';
 export const MARKER_SHAPES: readonly MarkerShape[] = ['circle', 'square', 'triangle', 'diamond', 'down', 'hexagon'];
 
+/**
+ * Colour and marker of the i-th series: six colours, six shapes, the shape shifted by one every six
+ * series, so that the first 36 series all differ in colour or shape.
+ */
+export function seriesStyle(i: number): { colour: number; shape: MarkerShape } {
+  return { colour: i % 6, shape: MARKER_SHAPES[(i + Math.floor(i / 6)) % MARKER_SHAPES.length] };
+}
+
 /** Series colours of the charts (invented; light on the paper set, dark on the night set). */
 export const SERIES_LIGHT = ['#1f5f8b', '#b0243f', '#1f6f5c', '#7a4d06', '#5a3f9e', '#4a4f57'] as const;
 export const SERIES_DARK = ['#8fc6ea', '#ff7d93', '#5fd3b4', '#f1c97a', '#b9a5ff', '#c5cad1'] as const;

@@ -5,7 +5,7 @@
  * readout states the exact stored numbers (docs/noise.md, "Views of an escape study").
  */
 import type { EscapePoint } from '../server/escapes/rows';
-import { buildChart, MARKER_SHAPES, type ChartFigure, type ChartSeries } from './escape-chart';
+import { buildChart, seriesStyle, type ChartFigure, type ChartSeries } from './escape-chart';
 import {
   barrierSeries, exitSwitchMarks, sequenceSeries, survivalFromHistogram, timingSeries, type EscapeStudyInfo,
 } from './escape-series';
@@ -80,7 +80,7 @@ export interface EscapeStudyView {
 export function barrierChart(v: EscapeStudyView, o: EscapeChartOptions = {}): ChartFigure {
   const par = v.parameter;
   const series: ChartSeries[] = barrierSeries(v.points, v.start).map((s, i) => ({
-    label: `to ${s.label}`, colour: i, shape: MARKER_SHAPES[i % MARKER_SHAPES.length], joinPoints: true,
+    label: `to ${s.label}`, ...seriesStyle(i), joinPoints: true,
     points: s.points.map((q) => ({
       x: q.p, y: q.barrier,
       readout: [
@@ -109,7 +109,7 @@ export function sequenceChart(v: EscapeStudyView, o: EscapeChartOptions = {}): C
   const drawn = all.slice(0, MAX_DRAWN_ORDERS);
   const rest = all.slice(MAX_DRAWN_ORDERS);
   const series: ChartSeries[] = drawn.map((s, i) => ({
-    label: s.label, colour: i, shape: MARKER_SHAPES[i % MARKER_SHAPES.length], dashed: true,
+    label: s.label, ...seriesStyle(i), dashed: true,
     line: s.predicted.map((q) => ({ x: q.p, y: q.probability })),
     points: s.estimates.map((e) => {
       const pr = s.predicted.find((q) => q.p === e.p);
@@ -137,7 +137,7 @@ export function timingChart(v: EscapeStudyView, o: EscapeChartOptions = {}): Cha
   const par = v.parameter;
   const series: ChartSeries[] = timingSeries(v.points).map((s, i) => ({
     label: s.kind === 'kth' ? `mean time to the ${s.label}` : `mean time from the ${s.label}`,
-    colour: i, shape: MARKER_SHAPES[i % MARKER_SHAPES.length], dashed: true,
+    ...seriesStyle(i), dashed: true,
     line: s.predicted.map((q) => ({ x: q.p, y: q.mean })),
     points: s.estimates.map((e) => {
       const pr = s.predicted.find((q) => q.p === e.p);
@@ -176,7 +176,7 @@ export function survivalChart(v: EscapeStudyView, o: EscapeChartOptions = {}): C
   const series: ChartSeries[] = pt.escapeTimes.map((t, i) => {
     const curve = curves[i].filter((c) => c.t <= tEnd);
     return {
-      label: `before escape ${t.k}`, colour: i, shape: MARKER_SHAPES[i % MARKER_SHAPES.length], joinPoints: true,
+      label: `before escape ${t.k}`, ...seriesStyle(i), joinPoints: true,
       points: curve.map((c) => ({ x: c.t, y: c.survival, readout: [`at ${par} = ${formatValue(pt.p)}, t = ${formatValue(c.t, 4)}`, `share of paths before escape ${t.k}: ${formatValue(c.survival, 4)}`, `${pt.paths} paths, bins of ${formatValue(pt.tMax! / Math.max(1, t.histogram.length), 4)}`] })),
     };
   });

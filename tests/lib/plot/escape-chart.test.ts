@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { buildChart, logAxis, SERIES_DARK, SERIES_LIGHT, shapePath, MARKER_SHAPES } from '../../../src/lib/plot/escape-chart';
+import { buildChart, logAxis, SERIES_DARK, SERIES_LIGHT, seriesStyle, shapePath, MARKER_SHAPES } from '../../../src/lib/plot/escape-chart';
 import { contrastRatio, NIGHT_PALETTE, PAPER_PALETTE } from '../../../src/lib/plot/palette';
 import { figureToSvg } from '../../../src/lib/plot/svg';
 
@@ -94,5 +94,12 @@ describe('buildChart({ dodge })', () => {
     const dodged = buildChart({ ...base, series, dodge: 5 });
     expect(dodged.marks.map((m) => Math.round((m.cx - plain.marks[0].cx) * 100) / 100)).toEqual([-5, 0, 5]);
     expect(dodged.marks.map((m) => m.x)).toEqual([1, 1, 1]);
+  });
+});
+
+describe('seriesStyle(i)', () => {
+  it('the first 36 series differ in colour or shape', () => {
+    const keys = new Set(Array.from({ length: 36 }, (_, i) => { const s = seriesStyle(i); return `${s.colour}/${s.shape}`; }));
+    expect(keys.size).toBe(36);
   });
 });
