@@ -24,6 +24,7 @@ import { labelRegimesByMidpoint } from '../src/lib/regimes/midpoint-labeller.js'
 import { onsetSection } from './bench-onset.js';
 import { barriersSection } from './bench-barriers.js';
 import { noiseSection } from './bench-noise.js';
+import { mapsSection } from './bench-maps.js';
 import { storageSection } from './bench-storage.js';
 
 export interface BenchSection {
@@ -482,6 +483,7 @@ export const sections: BenchSection[] = [engineSection, goalsSection, regimesSec
 sections.push(onsetSection);
 sections.push(barriersSection);
 sections.push(noiseSection);
+sections.push(mapsSection);
 sections.push(storageSection(() => cubicDoc('6 nodes two-way chain (invented)', 6, chain(6, true))));
 
 // BENCH_ONLY=regimes (a word of the title) runs only the matching sections.
