@@ -133,6 +133,16 @@ describe('escape study views', () => {
     await expect.poll(paper).toBe('#fbfaf6');
   });
 
+  it('the printable report of the diagram run shows the study of the same version as three charts', async () => {
+    await page.goto(`${BASE_URL}/report?runs=${traceRunId}`);
+    await hydrated(page);
+    const section = page.getByTestId('report-escapes');
+    expect(await section.count()).toBe(1);
+    expect(await section.getByTestId('report-escape-figure').count()).toBe(3);
+    expect(await section.textContent()).toContain('paths per value');
+    await section.screenshot({ path: screenshotPath('escape-study-views-report') });
+  });
+
   it('a reviewer sees no Study escapes button on the diagram run or the model page', async () => {
     const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const rp = await ctx.newPage();

@@ -11,6 +11,7 @@ import { modelDocumentSchema } from '../../model/schema.ts';
 import type { Diagram } from '../../atlas/types.ts';
 import type { RegimeBand } from '../../regimes/types.ts';
 import { describeModel, type ModelDescription } from './model-description.ts';
+import { getRunEscapes, type StoredEscapeStudy } from '../escapes/repository.ts';
 
 /** At most this many runs in one report. */
 export const REPORT_MAX_RUNS = 8;
@@ -27,6 +28,8 @@ export interface ReportRun {
   /** Names of the state components in the order of a special point's state: node ids for a network. */
   stateNames: string[];
   openComments: StoredComment[];
+  /** The newest finished escape study of the same model version (docs/noise.md, "Views of an escape study"), or null. */
+  escapes: StoredEscapeStudy | null;
 }
 
 export interface ReportChoice { id: number; modelId: number; modelName: string; versionNumber: number; finishedAt: string | null }
@@ -60,7 +63,11 @@ export async function gatherReport(workspaceId: string, runIds: readonly number[
       const parsed = version ? modelDocumentSchema.safeParse(version.document) : null;
       const model = parsed?.success ? describeModel(parsed.data, diagram.settings) : null;
       const openComments = (await listComments(workspaceId, { runId: id, open: true })).sort((a, b) => a.createdAt.localeCompare(b.createdAt) || a.id - b.id);
+      const studies = await listRuns(workspaceId, { modelId: stored.run.modelId, kind: 'escapes', status: 'done', pageSize: 50 });
+      const study = studies.items.find((r) => r.versionId === stored.run.versionId);
+      const escapes = study ? await getRunEscapes(workspaceId, study.id) : null;
       runs.push({
+        escapes,
         run: stored.run, engineVersion: stored.engineVersion, resultCreatedAt: stored.createdAt, diagram, regimes, tags, model,
         stateNames: diagram.variables?.length ? diagram.variables : (diagram.bifurcations[0]?.x ?? []).map((_, k) => `component ${k + 1}`),
         openComments,
