@@ -4,3 +4,4 @@ export { SaddleNodeSystem } from './saddle-node-curve.js';
 export { SymmetricBranchPointSystem, findSymmetry, type Symmetry } from './branch-point-curve.js';
 export { traceMap, defaultMapSettings, type MapSettings, type MapCurve, type MapCurvePoint, type MapPoint, type MapRegion, type TwoParameterMap, type MapHooks } from './trace-map.js';
 export { saddleNodesAt, type SlicePoint } from './slice.js';
+export { EquilibriumSystem } from './equilibrium-system.js';
