@@ -128,7 +128,7 @@ export class SaddleNodeSystem implements ExtendedSystem {
   /**
    * Test functions of the codimension-two points on the fold curve at y, with v̂ = v/|v| and p the
    * left null vector of J from the bordered system [J w0; v̂ᵀ 0] (p, s) = (0, 1), i.e. Jᵀp = 0 with
-   * the normalization w0 . p = 1 (Govaerts 2000, ch. 3, bordered systems; regular at a fold and at a
+   * the normalization w0 . p = 1 (a bordered system, Govaerts 2000; regular at a fold and at a
    * Bogdanov-Takens point as long as w0 . p != 0). w0 is carried along the curve (the previous
    * point's p, normalized), so the sign of p is continuous.
    *   cusp: p . B(v̂, v̂) / 2, zero where the fold's quadratic coefficient vanishes (Kuznetsov §8.2,
