@@ -24,8 +24,8 @@ Prints JSON (or writes it to FILE):
     "diagnostics": [ { "level": "info", "code": "..", "message": ".." } ] }
 "unstable" counts eigenvalues with positive real part; Hopf points add "frequency".
 Beyond 3^8 patterns (more than eight three-root nodes) only a restricted set of starting patterns is
-traced, and "coverage": { "mode": "restricted", "maxTipped": k, "starts": .., "of": "3^20",
-"text": "branches through patterns with at most k tipped nodes: .." } says which (docs/numerics.md §12).
+traced, and "coverage": { "mode": "restricted", "maxOffBase": k, "starts": .., "of": "3^20",
+"text": "branches through patterns with at most k nodes off base: .." } says which (docs/numerics.md §12).
 It also carries the coupling regimes (docs/regimes.md):
     "regimes": [ { "from": 0, "to": 0.03, "regime": "weak", "bounds": ["sweep-bound", "saddle-node"],
                    "reason": "..." } ],

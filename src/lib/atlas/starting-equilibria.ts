@@ -4,12 +4,27 @@ import { newton } from '../numerics/newton.js';
 import { distInf, normInf } from '../numerics/vector.js';
 import type { Diagnostic } from './types.js';
 import type { ResolvedTraceSettings } from './trace-settings.js';
+import { patternCount, patternSpace, selectRestricted, type RestrictedCounts } from './start-selection.js';
+
+/** How the combinations of element equilibria were restricted (absent: all were used). */
+export interface StartRestriction {
+  readonly maxOffBase: number;
+  readonly counts: RestrictedCounts;
+  /** Patterns used (the restricted set, capped at the budget). */
+  readonly patterns: number;
+  /** Roots per node of the uncoupled elements at p = from, and the pattern space they span ("3^20"). */
+  readonly rootCounts: readonly number[];
+  readonly of: string;
+  readonly ofCount: number;
+}
 
 export interface StartingEquilibria {
   readonly points: Float64Array[];
   /** 'uncoupled' when built from per-node element equilibria, else 'multi-start'. */
   readonly method: 'uncoupled' | 'multi-start';
   readonly diagnostics: Diagnostic[];
+  /** Set when the patterns were restricted (docs/numerics.md §12). */
+  readonly restriction?: StartRestriction;
 }
 
 /** True when the network's coupling term vanishes at p = from (or the network has no links). */
@@ -25,8 +40,8 @@ export function isUncoupledAt(system: CompiledSystem, from: number): boolean {
  * Uncoupled network: node i's element equilibria are the roots of f_i(x; from) on
  * [-rootSearchBound, rootSearchBound] (sign-change scan, Newton with bisection fallback); every
  * combination is an equilibrium of the whole system because the coupling term vanishes. All
- * combinations are used up to maxStartCombinations (3^8); beyond that the all-base (each node's
- * lowest root), all-tipped (highest root) and every single-node-tipped pattern, with a diagnostic.
+ * combinations are used up to maxStartCombinations (3^8); beyond that (or with startSelection
+ * 'restricted') the restricted set of start-selection.ts for the budget startBudget, with a diagnostic.
  * Coupled network (a sweep that starts at nonzero coupling): the same combinations as Newton guesses,
  * plus the multi-start guesses below. Otherwise: damped Newton from the document's start guesses,
  * the origin and multiStartCount quasi-random guesses (Halton sequence) in [-box, box]^n. Every
@@ -38,7 +53,12 @@ export function findStartingEquilibria(system: CompiledSystem, from: number, s: 
   const guesses: Float64Array[] = [];
   const uncoupled = isUncoupledAt(system, from);
   const method: StartingEquilibria['method'] = uncoupled ? 'uncoupled' : 'multi-start';
-  if (system.network) guesses.push(...elementCombinations(system, from, s, uncoupled, diagnostics));
+  let restriction: StartRestriction | undefined;
+  if (system.network) {
+    const c = elementCombinations(system, from, s, uncoupled, diagnostics);
+    guesses.push(...c.guesses);
+    restriction = c.restriction;
+  }
   if (!uncoupled) {
     guesses.push(new Float64Array(n));
     const primes = firstPrimes(n);
@@ -68,7 +88,7 @@ export function findStartingEquilibria(system: CompiledSystem, from: number, s: 
     diagnostics.push({ level: 'warning', code: 'starting-points-capped', message: `${points.length} starting equilibria found; only the first ${s.maxStartingPoints} (maxStartingPoints) are traced` });
     points.length = s.maxStartingPoints;
   }
-  return { points, method, diagnostics };
+  return { points, method, diagnostics, ...(restriction ? { restriction } : {}) };
 }
 
 /**
@@ -133,14 +153,14 @@ function firstPrimes(count: number): number[] {
 
 /**
  * Every combination of per-node element equilibria at p = from (the roots of f_i(x; from) alone,
- * coupling left out), up to maxStartCombinations; beyond that the all-base, all-tipped and
- * single-node-tipped patterns, with a diagnostic. Exact equilibria of the network when the coupling
+ * coupling left out), up to maxStartCombinations; beyond that, or with startSelection 'restricted',
+ * the restricted set for startBudget (start-selection.ts), with a diagnostic. Exact equilibria of the network when the coupling
  * vanishes; when it does not, Newton guesses that converge for weak coupling, because a hyperbolic
  * equilibrium of the uncoupled system persists under small perturbation (implicit function theorem)
  * — without them, a sweep starting at a coupling of 1e-300 relied on quasi-random guesses alone and
  * could miss equilibria the sweep from 0 finds. Root-finding warnings only when `report` is set.
  */
-function elementCombinations(system: CompiledSystem, from: number, s: ResolvedTraceSettings, report: boolean, diagnostics: Diagnostic[]): Float64Array[] {
+function elementCombinations(system: CompiledSystem, from: number, s: ResolvedTraceSettings, report: boolean, diagnostics: Diagnostic[]): { guesses: Float64Array[]; restriction?: StartRestriction } {
   const net = system.network!;
   const n = system.dimension;
   const perNode: number[][] = [];
@@ -162,11 +182,11 @@ function elementCombinations(system: CompiledSystem, from: number, s: ResolvedTr
       diagnostics.push({ level: 'warning', code: 'element-root-doubtful', message: `node ${net.nodeIds[i] ?? i}: ${r.doubtful} element equilibria not refined to tolerance` });
     }
   }
-  if (!perNode.every((r) => r.length > 0)) return [];
+  if (!perNode.every((r) => r.length > 0)) return { guesses: [] };
   let combos = 1;
   for (const r of perNode) combos *= r.length;
   const guesses: Float64Array[] = [];
-  if (combos <= s.maxStartCombinations) {
+  if (combos <= s.maxStartCombinations && s.startSelection !== 'restricted') {
     const idx = new Array<number>(n).fill(0);
     for (let c = 0; c < combos; c++) {
       guesses.push(Float64Array.from(perNode.map((r, i) => r[idx[i]])));
@@ -176,20 +196,26 @@ function elementCombinations(system: CompiledSystem, from: number, s: ResolvedTr
         idx[i] = 0;
       }
     }
-    return guesses;
+    return { guesses };
   }
-  const base = perNode.map((r) => r[0]);
-  const tipped = perNode.map((r) => r[r.length - 1]);
-  guesses.push(Float64Array.from(base), Float64Array.from(tipped));
-  for (let i = 0; i < n; i++) {
-    const g = Float64Array.from(base);
-    g[i] = tipped[i];
-    guesses.push(g);
-  }
+  const rootCounts = perNode.map((r) => r.length);
+  // Room for up to n states grown from the start state's escape graph (trace-diagram.ts).
+  const sel = selectRestricted(rootCounts, s.startBudget, n);
+  for (const pat of sel.patterns) guesses.push(Float64Array.from(pat, (j, i) => perNode[i][j]));
+  const of = patternSpace(rootCounts);
   if (report) diagnostics.push({
     level: 'info',
     code: 'start-patterns-limited',
-    message: `${combos.toExponential(3)} combinations of element equilibria exceed the limit of ${s.maxStartCombinations}; starting from the all-base, all-tipped and the ${n} single-node-tipped patterns plus the document's start list only`,
+    message: `${combos <= s.maxStartCombinations ? `startSelection 'restricted'` : `${formatCount(combos)} combinations of element equilibria (${of}) exceed the limit of ${s.maxStartCombinations} (maxStartCombinations)`}; starting from the ${sel.patterns.length} patterns with at most ${sel.maxOffBase} node${sel.maxOffBase === 1 ? '' : 's'} off base (tipped or at a threshold), all-tipped and its neighbouring saddles (startBudget ${s.startBudget}), plus the document's start list`,
   });
-  return guesses;
+  return {
+    guesses,
+    restriction: { maxOffBase: sel.maxOffBase, counts: sel.counts, patterns: sel.patterns.length, rootCounts, of, ofCount: patternCount(rootCounts) },
+  };
+}
+
+/** A count in words for messages: grouped digits up to 10^15, else scientific. */
+export function formatCount(c: number): string {
+  if (!(c < 1e15)) return c.toExponential(3);
+  return String(Math.round(c)).replace(/\B(?=(\d{3})+(?!\d))/g, ',');
 }

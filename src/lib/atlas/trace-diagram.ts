@@ -9,9 +9,10 @@ import { dist2, normInf } from '../numerics/vector.js';
 import { BranchIndex } from './branch-index.js';
 import { ENGINE_VERSION } from './engine-version.js';
 import { SpecialPointRegistry, type SpecialPointDraft } from './special-point-registry.js';
-import { findStartingEquilibria } from './starting-equilibria.js';
+import { findStartingEquilibria, formatCount, type StartRestriction } from './starting-equilibria.js';
+import { growthRound } from './start-growth.js';
 import { defaultTraceSettings, type ResolvedTraceSettings, type TraceSettings } from './trace-settings.js';
-import type { Branch, BranchEnd, BranchPoint, Diagnostic, Diagram } from './types.js';
+import type { Branch, BranchEnd, BranchPoint, Diagnostic, Diagram, StartCoverage } from './types.js';
 
 export interface TraceHooks {
   /** Called often with the estimated fraction done (0..1, non-decreasing) and a short phrase. */
@@ -42,6 +43,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
   const branches: Branch[] = [];
   const registry = new SpecialPointRegistry();
   const n = system.dimension;
+  let coverage: StartCoverage | null = null;
   const result = (): Diagram => ({
     parameter: system.parameter,
     variables: [...system.variables],
@@ -50,6 +52,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     diagnostics,
     settings: { ...s },
     engineVersion: ENGINE_VERSION,
+    ...(coverage ? { coverage } : {}),
   });
   const bad = checkSettings(s);
   if (bad) {
@@ -111,7 +114,11 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
   let neutralSaddles = 0;
   const ws = new BorderedWorkspace(n);
   const locOpts = { parameterTolerance: s.locateParameterTolerance, maxIterations: s.locateMaxIterations };
+  const restriction = starts.restriction;
+  const growth = { values: 0, states: 0, integrations: 0, rounds: 0, stoppedBy: (restriction && s.growthIntegrations > 0 ? 'nothing-new' : 'off') as StartCoverage['grown']['stoppedBy'] };
+  let untracedStarts = 0;
 
+  for (;;) {
   while (tasks.length > 0) {
     if (isCancelled()) break;
     const task = tasks.shift()!;
@@ -119,6 +126,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     if (branches.length >= s.maxBranches) {
       if (!branchCapHit) diagnostics.push({ level: 'warning', code: 'branch-cap', message: `stopped at ${s.maxBranches} branches (maxBranches); ${tasks.length + 1} more were not traced` });
       branchCapHit = true;
+      untracedStarts = tasks.filter((t) => t.kind === 'start').length + (task.kind === 'start' ? 1 : 0);
       break;
     }
     const id = `b${branches.length + 1}`;
@@ -411,12 +419,103 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     done++;
     progress(frac(0), `traced branch ${id}`);
   }
+  // Restricted starts: grow the set from the start state's escape graph (docs/numerics.md §12).
+  if (!restriction || growth.stoppedBy === 'off') break;
+  if (branchCapHit) { growth.stoppedBy = 'branch-cap'; break; }
+  if (cancelled || isCancelled()) { growth.stoppedBy = 'cancelled'; break; }
+  if (tasks.length > 0) break;
+  if (growth.rounds >= 3) { growth.stoppedBy = 'round-cap'; break; }
+  const room = Math.min(s.startBudget, s.maxStartingPoints) - starts.points.length - growth.states;
+  const left = s.growthIntegrations - growth.integrations;
+  if (room <= 0) { growth.stoppedBy = 'start-budget'; break; }
+  if (left <= 0) { growth.stoppedBy = 'integration-cap'; break; }
+  progress(done / (done + 1), 'following the start state\'s escape graph');
+  let round;
+  try {
+    round = growthRound(system, result(), {
+      from: s.from,
+      to: s.to,
+      values: s.growthValues,
+      integrations: left,
+      maxStates: room,
+      isTraced: (x, p) => {
+        const y = new Float64Array(n + 1);
+        y.set(x);
+        y[n] = p;
+        return index.hasPoint(y, 1e-6 * (1 + normInf(y)));
+      },
+      isCancelled,
+    });
+  } catch (e) {
+    diagnostics.push({ level: 'warning', code: 'growth-failed', message: `following the start state's escape graph stopped by an unexpected error: ${errorText(e)}` });
+    growth.stoppedBy = 'nothing-new';
+    break;
+  }
+  growth.rounds++;
+  growth.values = Math.max(growth.values, round.values);
+  growth.integrations += round.integrations;
+  growth.states += round.found.length;
+  for (const f of round.found) {
+    const y = new Float64Array(n + 1);
+    y.set(f.x);
+    y[n] = f.p;
+    tasks.push({ kind: 'start', y });
+  }
+  if (round.found.length > 0) {
+    diagnostics.push({ level: 'info', code: 'start-grown', message: `the start state's escape graph reached ${round.found.length} stable state${round.found.length === 1 ? '' : 's'} no traced branch passed through (at ${system.parameter} = ${[...new Set(round.found.map((f) => fmt([f.p])))].join(', ')}); ${round.found.length === 1 ? 'its branch was' : 'their branches were'} traced too` });
+  }
+  if (round.stoppedBy !== 'found') {
+    growth.stoppedBy = round.stoppedBy;
+    if (round.found.length === 0) break;
+  }
+  }
+  if (restriction) {
+    coverage = coverageOf(restriction, starts.points.length, s.startBudget, growth, untracedStarts, system.parameter);
+    diagnostics.push({ level: 'info', code: 'start-coverage', message: coverage.text });
+  }
   if (neutralSaddles > 0) {
     diagnostics.push({ level: 'info', code: 'neutral-saddle', message: `${neutralSaddles} sign change(s) of the Hopf test function came from neutral saddles (two real eigenvalues summing to zero) and are not Hopf points` });
   }
   if (cancelled) diagnostics.push({ level: 'warning', code: 'cancelled', message: 'the trace was cancelled; the diagram is partial' });
   else progress(1, 'done');
   return result();
+}
+
+/** The plain statement of what a restricted trace started from (Diagram.coverage). */
+function coverageOf(r: StartRestriction, startCount: number, budget: number, grown: StartCoverage['grown'], untraced: number, parameter: string): StartCoverage {
+  const k = r.maxOffBase;
+  const c = r.counts;
+  const near = c.nearAllTipped > 1 ? `, all-tipped and its ${formatCount(c.nearAllTipped - 1)} neighbouring saddles` : c.nearAllTipped === 1 ? ', all-tipped' : '';
+  const capped = r.patterns < c.total ? ` (cut to the budget of ${formatCount(budget)})` : '';
+  let text = `branches through patterns with at most ${k} node${k === 1 ? '' : 's'} off base (tipped or at the threshold; ${formatCount(c.withinK)} patterns, ${formatCount(c.stable)} of them stable at zero coupling)${near}: ${formatCount(r.patterns)} of ${r.of} patterns${capped}`;
+  const why: Record<StartCoverage['grown']['stoppedBy'], string> = {
+    'nothing-new': 'nothing new was reached',
+    'start-budget': 'the start budget was spent',
+    'integration-cap': `the cap of integrations (growthIntegrations) was reached`,
+    'round-cap': 'three rounds were done',
+    'branch-cap': 'the branch cap was reached',
+    'not-bistable': 'not every element is bistable, so there is no start state',
+    'no-start-state': 'no all-base stable state was found',
+    cancelled: 'the trace was cancelled',
+    off: 'growth is off',
+  };
+  if (grown.stoppedBy === 'off') text += '; the start state\'s escape graph was not followed (growthIntegrations 0)';
+  else if (grown.rounds === 0 && grown.stoppedBy === 'start-budget') text += '; the start budget left no room for states from the start state\'s escape graph';
+  else text += `; following the start state's escape graph at ${grown.values} value${grown.values === 1 ? '' : 's'} of ${parameter} added ${grown.states} stable state${grown.states === 1 ? '' : 's'} (${grown.integrations} integrations; stopped because ${why[grown.stoppedBy]})`;
+  if (untraced > 0) text += `; ${formatCount(untraced)} starts were not traced (branch cap, maxBranches)`;
+  text += '. Branches through no selected pattern are missing unless switching or growth reached them.';
+  return {
+    mode: 'restricted',
+    maxOffBase: k,
+    patterns: { withinK: c.withinK, stable: c.stable, nearAllTipped: c.nearAllTipped },
+    starts: startCount,
+    of: r.of,
+    ofCount: r.ofCount,
+    budget,
+    grown: { ...grown },
+    untraced,
+    text,
+  };
 }
 
 function branchId(index: number): string {
@@ -471,6 +570,10 @@ function checkSettings(s: ResolvedTraceSettings): string | null {
   }
   if (!(s.minStep <= s.initialStep && s.initialStep <= s.maxStep)) return 'settings: need minStep <= initialStep <= maxStep';
   if (!Number.isInteger(s.multiStartCount) || s.multiStartCount < 0) return 'settings.multiStartCount must be a non-negative integer';
+  if (s.startSelection !== 'auto' && s.startSelection !== 'restricted') return "settings.startSelection must be 'auto' or 'restricted'";
+  if (!Number.isInteger(s.startBudget) || s.startBudget < 2) return 'settings.startBudget must be an integer of at least 2';
+  if (!Number.isInteger(s.growthIntegrations) || s.growthIntegrations < 0) return 'settings.growthIntegrations must be a non-negative integer';
+  if (!Number.isInteger(s.growthValues) || s.growthValues < 0) return 'settings.growthValues must be a non-negative integer';
   return null;
 }
 

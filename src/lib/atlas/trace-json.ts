@@ -1,4 +1,4 @@
-import type { Diagram } from './types.js';
+import type { Diagram, StartCoverage } from './types.js';
 
 /** The public JSON shape of a traced diagram (CLI output, issue 3). */
 export interface TraceJson {
@@ -6,6 +6,8 @@ export interface TraceJson {
   branches: { id: string; points: { p: number; x: number[]; unstable: number }[] }[];
   bifurcations: { type: string; p: number; x: number[]; branches: string[]; frequency?: number; note?: string }[];
   diagnostics: { level: string; code: string; message: string; branch?: string; p?: number }[];
+  /** Only when the starting patterns were restricted (docs/numerics.md §12). */
+  coverage?: StartCoverage;
 }
 
 /** Reduces a Diagram to the public JSON shape: branch points as {p, x, unstable}, special points without evidence. */
@@ -28,5 +30,6 @@ export function toTraceJson(d: Diagram): TraceJson {
       ...(g.branch !== undefined ? { branch: g.branch } : {}),
       ...(g.p !== undefined ? { p: g.p } : {}),
     })),
+    ...(d.coverage ? { coverage: d.coverage } : {}),
   };
 }

@@ -1,3 +1,5 @@
+import { z } from 'zod';
+
 /**
  * Settings of a diagram trace. Arclength steps (measured in the raw (x, p) coordinates) are fractions
  * of max(|to - from|, 1 + max |x| over the starting equilibria); the parameter step and the switch
@@ -25,6 +27,22 @@ export interface TraceSettings {
   maxBranches: number;
   /** Up to this many per-node combinations of element equilibria are all used as starts (default 3^8 = 6561). */
   maxStartCombinations: number;
+  /**
+   * 'auto' (default): every combination of element equilibria up to maxStartCombinations, the
+   * restricted set beyond; 'restricted': the restricted set whatever the count (docs/numerics.md §12).
+   */
+  startSelection: StartSelection;
+  /**
+   * Restricted set only: starts allowed in all, patterns at the sweep start plus stable states added
+   * from the start state's escape graph (default 1000: k = 2 nodes off base at 20 nodes, 822
+   * patterns). k, the largest number of nodes off base, is chosen so that the patterns leave room
+   * for n added states.
+   */
+  startBudget: number;
+  /** Restricted set only: cap on the manifold-branch integrations spent on growing it (default 4000; 0 turns growth off). */
+  growthIntegrations: number;
+  /** Restricted set only: evenly spaced interior parameter values where the start state's escape graph is followed (default 8), besides those next to the start branch's saddle-nodes. */
+  growthValues: number;
   /** Cap on starting equilibria traced (default 6561). */
   maxStartingPoints: number;
   /** Corrector: residual |F|_inf tolerance (default 1e-10), step tolerance relative to 1 + |y| (default 1e-10), iteration cap (default 8). */
@@ -59,6 +77,10 @@ export const defaultTraceSettings: Readonly<Required<Omit<TraceSettings, 'from' 
   maxPointsPerBranch: 20000,
   maxBranches: 400,
   maxStartCombinations: 6561,
+  startSelection: 'auto',
+  startBudget: 1000,
+  growthIntegrations: 4000,
+  growthValues: 8,
   maxStartingPoints: 6561,
   residualTolerance: 1e-10,
   stepTolerance: 1e-10,
@@ -75,3 +97,16 @@ export const defaultTraceSettings: Readonly<Required<Omit<TraceSettings, 'from' 
 });
 
 export type ResolvedTraceSettings = Required<TraceSettings>;
+
+export type StartSelection = 'auto' | 'restricted';
+
+/**
+ * The start-selection settings as a strict zod schema, for callers that take them from people
+ * (a run's settings, the CLI): the same names and limits the engine checks (checkSettings).
+ */
+export const startSelectionSettingsSchema = z.object({
+  startSelection: z.enum(['auto', 'restricted'], { message: "must be 'auto' or 'restricted'" }).optional(),
+  startBudget: z.number().int('must be a whole number').min(2, 'at least 2').max(100_000, 'at most 100000').optional(),
+  growthIntegrations: z.number().int('must be a whole number').min(0, 'at least 0').max(1_000_000, 'at most 1000000').optional(),
+  growthValues: z.number().int('must be a whole number').min(0, 'at least 0').max(1000, 'at most 1000').optional(),
+}).strict();

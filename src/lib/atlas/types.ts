@@ -54,6 +54,32 @@ export interface Diagnostic {
   readonly p?: number;
 }
 
+/**
+ * Which starting equilibria a network trace used (docs/numerics.md §12). Present only when the
+ * patterns were restricted: a diagram without it started from every combination of element
+ * equilibria (or is not a network at an uncoupled start).
+ */
+export interface StartCoverage {
+  readonly mode: 'restricted';
+  /** k: every pattern with at most this many nodes off base (tipped or at a threshold) was started from. */
+  readonly maxOffBase: number;
+  /** Patterns selected at the sweep start: within k (of them stable at zero coupling), all-tipped and its neighbouring saddles. */
+  readonly patterns: { readonly withinK: number; readonly stable: number; readonly nearAllTipped: number };
+  /** Starting equilibria (Newton-refined patterns, plus the document's start guesses) handed to the trace. */
+  readonly starts: number;
+  /** The whole pattern space, e.g. "3^20", and its size. */
+  readonly of: string;
+  readonly ofCount: number;
+  /** The start budget (TraceSettings.startBudget). */
+  readonly budget: number;
+  /** Growth from the start state's escape graph: parameter values examined, stable states added, integrations, whether a cap stopped it. */
+  readonly grown: { readonly values: number; readonly states: number; readonly integrations: number; readonly rounds: number; readonly stoppedBy: 'nothing-new' | 'start-budget' | 'integration-cap' | 'round-cap' | 'branch-cap' | 'not-bistable' | 'no-start-state' | 'cancelled' | 'off' };
+  /** Starts not traced because the branch cap (maxBranches) stopped the trace. */
+  readonly untraced: number;
+  /** The plain statement, e.g. "branches through patterns with at most 2 nodes off base (…): 822 of 3^20 patterns; …". */
+  readonly text: string;
+}
+
 export interface Diagram {
   readonly parameter: string;
   readonly variables: string[];
@@ -62,4 +88,6 @@ export interface Diagram {
   readonly diagnostics: Diagnostic[];
   readonly settings: Record<string, unknown>;
   readonly engineVersion: string;
+  /** Set when the starting patterns were restricted (more than maxStartCombinations, or startSelection 'restricted'). */
+  readonly coverage?: StartCoverage;
 }
