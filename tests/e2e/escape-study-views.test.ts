@@ -143,6 +143,26 @@ describe('escape study views', () => {
     await section.screenshot({ path: screenshotPath('escape-study-views-report') });
   });
 
+  it('compares two studies on one axis, and keeps a diagram run out of a comparison of studies', async () => {
+    const start = await page.request.post(`${BASE_URL}/api/runs`, { data: { modelId, kind: 'escapes', settings: { noise: 0.5, values: [0.05, 0.1], paths: 100, seed: 6 } } });
+    expect(start.status(), await start.text()).toBe(201);
+    const other = ((await start.json()) as { run: { id: number } }).run.id;
+    await expect.poll(async () => ((await (await page.request.get(`${BASE_URL}/api/runs/${other}`)).json()) as { run: { status: string } }).run.status,
+      { timeout: 150_000, interval: 1000 }).toBe('done');
+    await page.goto(`${BASE_URL}/compare?runs=${studyRunId},${other}`);
+    await hydrated(page);
+    const cmp = page.getByTestId('escape-compare');
+    await expect.poll(() => cmp.locator('[data-testid^=escape-chart-compare-]').count(), { timeout: 20_000 }).toBe(3);
+    // Two studies × two values for every order drawn in both.
+    const marks = await cmp.getByTestId('escape-chart-compare-sequences').getByTestId('escape-mark').count();
+    expect(marks % 4).toBe(0);
+    expect(marks).toBeGreaterThan(0);
+    await page.screenshot({ path: screenshotPath('escape-study-views-compare'), fullPage: true });
+    await page.goto(`${BASE_URL}/compare?runs=${studyRunId},${traceRunId}`);
+    expect(await page.getByTestId('compare-problems').textContent()).toContain('Escape studies and diagrams cannot share one comparison');
+    expect(await page.getByTestId('escape-compare').count()).toBe(0);
+  }, 200_000);
+
   it('a reviewer sees no Study escapes button on the diagram run or the model page', async () => {
     const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const rp = await ctx.newPage();

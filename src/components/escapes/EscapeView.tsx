@@ -55,7 +55,7 @@ function PrimNode({ p, clipId }: { p: Prim; clipId: string }) {
 }
 
 /** One chart: the figure, focusable marks over it, a readout that follows hover and focus. */
-function Chart({ name, fig, onPick, picked }: { name: string; fig: ChartFigure; onPick?: (m: ChartMark) => void; picked?: string | null }) {
+export function Chart({ name, fig, onPick, picked }: { name: string; fig: ChartFigure; onPick?: (m: ChartMark) => void; picked?: string | null }) {
   const [active, setActive] = useState<ChartMark | null>(null);
   const clipId = `es-clip-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
   const shown = active ?? fig.marks.find((m) => m.id === picked) ?? null;
