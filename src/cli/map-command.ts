@@ -31,7 +31,7 @@ Curve types: "saddle-node", "hopf" (points add "frequency"), "pitchfork". Point 
 Options:
   --second NAME    the second parameter (required): the coupling parameter or an element
                    parameter (network documents), any parameter (ode documents)
-  --from A         start of the second parameter's range (required)
+  --from A         start of the second parameter's range (required; negative: --from=-0.5)
   --to B           end of the second parameter's range (required)
   --sweep-from P   range of the swept parameter; default sweep.from
   --sweep-to P     default sweep.to

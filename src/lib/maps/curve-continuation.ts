@@ -240,24 +240,35 @@ export function continueCurve(sys: ExtendedSystem, y0: Float64Array, t0: Float64
     }
     let y = res.y;
     let end: CurveEnd | null = null;
-    for (let k = 0; k < P.length && end === null; k++) {
+    // Leaving the parameter box: the bound crossed first along the step (smallest fraction w) is the
+    // one the end point is put on, so a step across a corner does not end outside the other bound.
+    let first = -1;
+    let wFirst = Infinity;
+    for (let k = 0; k < P.length; k++) {
       const idx = P[k];
       if (y[idx] >= o.lo[k] && y[idx] <= o.hi[k]) continue;
       const bound = y[idx] < o.lo[k] ? o.lo[k] : o.hi[k];
       const w = (bound - cur.y[idx]) / (y[idx] - cur.y[idx]);
+      if (w < wFirst) {
+        wFirst = w;
+        first = k;
+      }
+    }
+    if (first >= 0) {
+      const idx = P[first];
+      const bound = y[idx] < o.lo[first] ? o.lo[first] : o.hi[first];
       const guess = new Float64Array(N);
-      for (let i = 0; i < N; i++) guess[i] = cur.y[i] + w * (y[i] - cur.y[i]);
+      for (let i = 0; i < N; i++) guess[i] = cur.y[i] + wFirst * (y[i] - cur.y[i]);
       guess[idx] = bound;
       const e = new Float64Array(N);
       e[idx] = 1;
       const b = correctOn(sys, guess, e, bound, { ...corr, maxIterations: Math.max(12, o.maxCorrectorIterations) });
-      if (b.converged) {
-        const bt = curveTangent(sys, b.y, cur.t);
-        if (bt) {
-          y = b.y;
-          t = bt;
-        }
-      }
+      const bt = b.converged ? curveTangent(sys, b.y, cur.t) : null;
+      // Not solvable on the bound (e.g. the curve's projection is tangent to it there): end at the
+      // last point inside rather than at one outside the box.
+      if (!bt) return finish('parameter-bound');
+      y = b.y;
+      t = bt;
       end = 'parameter-bound';
     }
     if (sys.rebase?.(y)) {

@@ -93,6 +93,8 @@ export interface MapPoint {
   /** The curves it was found on (a Bogdanov-Takens point lies on a saddle-node and a Hopf curve). */
   readonly curves: string[];
   readonly evidence: { readonly reason: string; readonly [key: string]: unknown };
+  /** Set for doubtful or degenerate cases. */
+  note?: string;
 }
 
 export interface MapRegion {
@@ -213,6 +215,14 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
       }
     }
     if (traced.length >= s.maxCurves) break;
+  }
+  // A double zero eigenvalue with no Hopf curve ending there: the generic Bogdanov-Takens unfolding
+  // (Kuznetsov §8.4) has one; without it the point may be degenerate (e.g. two folds of a one-way
+  // chain, whose triangular Jacobian has only real eigenvalues) or its Hopf curve was not seeded.
+  for (const q of points) {
+    if (q.type !== 'bogdanov-takens') continue;
+    const hopf = q.curves.some((id) => traced.find((t) => t.curve.id === id)?.curve.type === 'hopf');
+    if (!hopf) q.note = 'double zero eigenvalue, but no Hopf curve of this map ends here: either degenerate (e.g. a triangular Jacobian with real eigenvalues only) or the Hopf curve was not seeded';
   }
   if (noSymmetry > 0) {
     diagnostics.push({ level: 'info', code: 'branch-point-not-continued', message: `${noSymmetry} branch point(s) of the seed diagrams were not continued: no permutation symmetry of the variables explains them (only symmetry-breaking pitchforks are continued as curves)` });
