@@ -57,6 +57,9 @@ export default function StudyEscapesForm(props: StudyEscapesFormProps) {
   const [threads, setThreads] = useState(String(Math.min(2, props.cores)));
   const [notify, setNotify] = useState(false);
   const [touched, setTouched] = useState(false);
+  /** Fields edited so far: their problems show as they are typed, the others' after "Start". */
+  const [edited, setEdited] = useState<ReadonlySet<Field>>(new Set());
+  const edit = (key: Field) => setEdited((old) => (old.has(key) ? old : new Set([...old, key])));
   const [busy, setBusy] = useState(false);
   const [serverError, setServerError] = useState<{ field: Field | null; message: string } | null>(null);
 
@@ -127,13 +130,13 @@ export default function StudyEscapesForm(props: StudyEscapesFormProps) {
     window.location.assign(`/runs/${body.run.id}`);
   };
 
-  const err = (key: Field) => (touched || key === 'noise' || key === 'values' ? checked.errors[key] : undefined) ?? (serverError?.field === key ? serverError.message : undefined);
+  const err = (key: Field) => (touched || edited.has(key) ? checked.errors[key] : undefined) ?? (serverError?.field === key ? serverError.message : undefined);
   const field = (key: Field, label: string, value: string, set: (v: string) => void, hint?: string) => {
     const e = err(key);
     return (
       <div className="ed-field">
         <label className="ed-label" htmlFor={`es-${key}`}>{label}</label>
-        <input id={`es-${key}`} className="ed-input ed-mono" inputMode="decimal" value={value} onChange={(ev) => set(ev.target.value)}
+        <input id={`es-${key}`} className="ed-input ed-mono" inputMode="decimal" value={value} onChange={(ev) => { set(ev.target.value); edit(key); }}
           aria-invalid={e ? 'true' : undefined} aria-describedby={e ? `es-${key}-error` : hint ? `es-${key}-hint` : undefined} data-testid={`es-${key}`} />
         {hint && !e ? <p className="ed-hint" id={`es-${key}-hint`}>{hint}</p> : null}
         {e ? <ul className="ed-field-errors" id={`es-${key}-error`} data-testid={`es-${key}-error`}><li>{e}</li></ul> : null}
@@ -191,7 +194,7 @@ export default function StudyEscapesForm(props: StudyEscapesFormProps) {
         ) : (
           <div className="ed-field">
             <label className="ed-label" htmlFor="es-values">Values (commas or spaces)</label>
-            <input id="es-values" className="ed-input ed-mono" value={list} onChange={(e) => setList(e.target.value)} placeholder="0.05, 0.1, 0.2"
+            <input id="es-values" className="ed-input ed-mono" value={list} onChange={(e) => { setList(e.target.value); edit('values'); }} placeholder="0.05, 0.1, 0.2"
               aria-invalid={err('values') ? 'true' : undefined} aria-describedby={err('values') ? 'es-values-error' : undefined} data-testid="es-values" />
             {err('values') ? <ul className="ed-field-errors" id="es-values-error" data-testid="es-values-error"><li>{err('values')}</li></ul> : null}
           </div>
