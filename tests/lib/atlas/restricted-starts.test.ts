@@ -1,9 +1,9 @@
-import { describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { findStartingEquilibria, traceDiagram, defaultTraceSettings, type Diagram } from '../../../src/lib/atlas/index.js';
 import { binomial, chooseMaxOffBase, patternSpace, restrictedCounts, restrictedPatterns } from '../../../src/lib/atlas/start-selection.js';
 import { startSelectionSettingsSchema } from '../../../src/lib/atlas/trace-settings.js';
 import { compileModelJson } from '../../../src/lib/model/index.js';
-import { labelRegimes } from '../../../src/lib/regimes/index.js';
+import { labelRegimes, type RegimeResult } from '../../../src/lib/regimes/index.js';
 
 /**
  * Invented cubic-element networks, the builders of scripts/bench.ts (issue 12):
@@ -102,12 +102,51 @@ function segmentDistance(x: readonly number[], pa: number, a: readonly number[],
   return d;
 }
 
+/**
+ * Largest max-norm distance from every 5th point of `branches` to the nearest segment of `other`'s
+ * polylines (segments bucketed by cells of maxParameterStep = 1/600 in beta: no step is longer in p).
+ */
+function farthest(branches: readonly Diagram['branches'][number][], other: Diagram): { worst: number; checked: number } {
+  const cell = 1 / 600;
+  const segs = new Map<number, { pa: number; a: number[]; pb: number; b: number[] }[]>();
+  for (const b of other.branches) {
+    for (let j = 0; j + 1 < b.points.length; j++) {
+      const u = b.points[j];
+      const w = b.points[j + 1];
+      for (let c = Math.floor(Math.min(u.p, w.p) / cell); c <= Math.floor(Math.max(u.p, w.p) / cell); c++) {
+        let l = segs.get(c);
+        if (!l) segs.set(c, (l = []));
+        l.push({ pa: u.p, a: u.x, pb: w.p, b: w.x });
+      }
+    }
+  }
+  let worst = 0;
+  let checked = 0;
+  for (const b of branches) {
+    for (let j = 0; j < b.points.length; j += 5) {
+      const q = b.points[j];
+      let best = Infinity;
+      const c0 = Math.floor(q.p / cell);
+      for (let c = c0 - 1; c <= c0 + 1; c++) for (const s of segs.get(c) ?? []) best = Math.min(best, segmentDistance(q.x, s.pa, s.a, s.pb, s.b, q.p));
+      worst = Math.max(worst, best);
+      checked++;
+    }
+  }
+  return { worst, checked };
+}
+
 describe('traceDiagram with startSelection restricted', () => {
+  // The heavy traces run in hooks of their own: one synchronous block of tens of seconds on a loaded
+  // machine starves the test runner's messages (vitest "Timeout calling onTaskUpdate").
+  const chainSystem = compileModelJson(cubicDoc(6, chain(6, false)));
+  let full: Diagram;
+  let restricted: Diagram;
+  beforeAll(() => { full = traceDiagram(chainSystem); }, 300_000);
+  // k = 2 for n = 6: 80 patterns (derived above); the budget leaves 6 starts for growth.
+  beforeAll(() => { restricted = traceDiagram(chainSystem, { startSelection: 'restricted', startBudget: 86 }); }, 300_000);
+
   it('on a 6-node one-way chain finds every branch through the allowed patterns that the full trace finds', () => {
-    const system = compileModelJson(cubicDoc(6, chain(6, false)));
-    const full = traceDiagram(system);
-    // k = 2 for n = 6: 80 patterns (derived above); the budget leaves 6 starts for growth.
-    const restricted = traceDiagram(system, { startSelection: 'restricted', startBudget: 86 });
+    const system = chainSystem;
     expect(full.coverage).toBeUndefined();
     expect(full.diagnostics.map((d) => d.code)).not.toContain('branch-cap');
     expect(restricted.coverage).toMatchObject({ mode: 'restricted', maxOffBase: 2, of: '3^6', ofCount: 729, patterns: { withinK: 73, stable: 22, nearAllTipped: 7 } });
@@ -136,33 +175,14 @@ describe('traceDiagram with startSelection restricted', () => {
     //     arclength h whose tangents turn by theta deviates from the arc by at most about h theta / 8
     //     (sagitta of a circular arc), and h <= maxStep (0.02 of the arclength scale, here at most
     //     0.02 * 2.2) with theta <= maxTurn = 0.15 gives 8.3e-4.
-    const cell = 1 / 600;
-    const segs = new Map<number, { pa: number; a: number[]; pb: number; b: number[] }[]>();
-    for (const b of restricted.branches) {
-      for (let j = 0; j + 1 < b.points.length; j++) {
-        const u = b.points[j];
-        const w = b.points[j + 1];
-        for (let c = Math.floor(Math.min(u.p, w.p) / cell); c <= Math.floor(Math.max(u.p, w.p) / cell); c++) {
-          let l = segs.get(c);
-          if (!l) segs.set(c, (l = []));
-          l.push({ pa: u.p, a: u.x, pb: w.p, b: w.x });
-        }
-      }
-    }
-    let worst = 0;
-    let checked = 0;
-    for (const b of fullBranches) {
-      for (let j = 0; j < b.points.length; j += 5) {
-        const q = b.points[j];
-        let best = Infinity;
-        const c0 = Math.floor(q.p / cell);
-        for (let c = c0 - 1; c <= c0 + 1; c++) for (const s of segs.get(c) ?? []) best = Math.min(best, segmentDistance(q.x, s.pa, s.a, s.pb, s.b, q.p));
-        worst = Math.max(worst, best);
-        checked++;
-      }
-    }
+    const { worst, checked } = farthest(fullBranches, restricted);
     expect(checked).toBeGreaterThan(1000);
     expect(worst).toBeLessThan(1e-3);
+    // The other way round, by the same bound: everything the restricted trace found, the branches
+    // started from states that growth added included, is in the full trace.
+    expect(restricted.coverage!.grown.states, 'growth added a state (observed: one at beta = 0.1875, which no pattern within k = 2 leads to)').toBeGreaterThan(0);
+    const back = farthest(restricted.branches, full);
+    expect(back.worst).toBeLessThan(1e-3);
     // (3) Special points: every one on those branches is located again, to 1e-9 in beta (both traces
     //     locate to a bracket of 1e-11, locateParameterTolerance).
     const onThose = full.bifurcations.filter((s) => s.branches.some((id) => through.has(id)));
@@ -174,17 +194,25 @@ describe('traceDiagram with startSelection restricted', () => {
     expect(restricted.branches.length).toBeLessThan(full.branches.length);
   }, 180_000);
 
+  // Reference: the full trace of all 729 patterns and its bands, by the same engine and labeller.
+  // docs/numerics.md §12: the intermediate and strong exits run through saddles whose branches start
+  // at patterns with two or three threshold nodes, so k = 3 nodes off base is what this ring needs.
+  const ringSystem = compileModelJson(cubicDoc(6, Array.from({ length: 6 }, (_, i) => [{ from: i, to: (i + 1) % 6 }, { from: i, to: (i + 2) % 6 }]).flat()));
+  let ringFullDiagram: Diagram;
+  let ringFull: RegimeResult;
+  let ringRestrictedDiagram: Diagram;
+  let ringRestricted: RegimeResult;
+  beforeAll(() => { ringFullDiagram = traceDiagram(ringSystem); }, 300_000);
+  beforeAll(() => { ringFull = labelRegimes(ringSystem, ringFullDiagram); }, 300_000);
+  // k = 3: 233 + 7 = 240 patterns (derived above), 6 left for growth.
+  beforeAll(() => { ringRestrictedDiagram = traceDiagram(ringSystem, { startSelection: 'restricted', startBudget: 246 }); }, 300_000);
+  beforeAll(() => { ringRestricted = labelRegimes(ringSystem, ringRestrictedDiagram); }, 300_000);
+
   it('on a 6-node ring with chords, with k = 3, gives the bands of the full trace', () => {
-    // Reference: the full trace of all 729 patterns and its bands, by the same engine and labeller.
-    // docs/numerics.md §12: the intermediate and strong exits run through saddles whose branches start
-    // at patterns with two or three threshold nodes, so k = 3 nodes off base is what this ring needs.
-    const ring = Array.from({ length: 6 }, (_, i) => [{ from: i, to: (i + 1) % 6 }, { from: i, to: (i + 2) % 6 }]).flat();
-    const system = compileModelJson(cubicDoc(6, ring));
-    const full = labelRegimes(system, traceDiagram(system));
-    // k = 3: 233 + 7 = 240 patterns (derived above), 6 left for growth.
-    const d = traceDiagram(system, { startSelection: 'restricted', startBudget: 246 });
+    const full = ringFull;
+    const d = ringRestrictedDiagram;
     expect(d.coverage).toMatchObject({ maxOffBase: 3, starts: 240 });
-    const restricted = labelRegimes(system, d);
+    const restricted = ringRestricted;
     expect(full.regimes.map((b) => b.regime)).toContain('strong');
     expect(restricted.regimes.map((b) => b.regime)).toEqual(full.regimes.map((b) => b.regime));
     restricted.regimes.forEach((b, i) => {
