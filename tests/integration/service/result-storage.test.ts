@@ -10,6 +10,7 @@ import { startRun } from '../../../src/lib/server/runs/repository.ts';
 import { compileModelJson } from '../../../src/lib/model/index.ts';
 import { traceDiagram, type Diagram } from '../../../src/lib/atlas/index.ts';
 import { previewOf, PREVIEW_POINTS } from '../../../src/lib/server/results/preview.ts';
+import { thinDiagram } from '../../../src/lib/server/results/thin.ts';
 import { diagramToCsv } from '../../../src/lib/plot/data-export.ts';
 import { createModel, runRow, spawnWorker, until, ws, type SpawnedWorker } from './fixtures.ts';
 
@@ -63,6 +64,15 @@ function firstDifference(a: string, b: string): string {
   return i === a.length && i === b.length ? 'same' : `first difference at ${i} of ${a.length}/${b.length}: …${a.slice(Math.max(0, i - 80), i + 80)}… vs …${b.slice(Math.max(0, i - 80), i + 80)}…`;
 }
 
+/** The JSON text of ?points=budget as the route built it before the encoded form: the view thinned, `thinned.from` = all stored points. */
+function thinnedText(engine: Diagram, budget: number): string {
+  const all = engine.branches.reduce((n, b) => n + b.points.length, 0);
+  const view = budget <= PREVIEW_POINTS ? previewOf(engine) : engine;
+  if (view.branches.reduce((n, b) => n + b.points.length, 0) <= budget) return JSON.stringify(view);
+  const t = thinDiagram(view, budget);
+  return JSON.stringify({ ...t, thinned: { from: all, to: t.branches.reduce((n, b) => n + b.points.length, 0) } });
+}
+
 /** The bytes between `"diagram":` and `,"regimes":` in a response body. */
 function servedDiagram(text: string): string {
   const from = text.indexOf('"diagram":') + '"diagram":'.length;
@@ -92,9 +102,13 @@ describe('encoded results through the API', () => {
     expect(servedDiagram(preview.text)).toBe(previewText);
     expect(preview.body.result.viewPoints).toBe(previewOf(engine).branches.reduce((n, b) => n + b.points.length, 0));
 
-    const thin = await w.reviewer.get(ws(`/api/runs/${runId}/result?points=5000`, w.workspaceId));
-    expect(thin.body.result.diagram.thinned.from).toBe(points);
-    expect(thin.body.result.diagram.bifurcations).toEqual(JSON.parse(engineText).bifurcations);
+    for (const budget of [5000, 2000]) {
+      const thin = await w.reviewer.get(ws(`/api/runs/${runId}/result?points=${budget}`, w.workspaceId));
+      expect(thin.body.result.diagram.thinned.from).toBe(points);
+      expect(servedDiagram(thin.text)).toBe(thinnedText(engine, budget));
+      expect(thin.body.result.viewPoints).toBe(thin.body.result.diagram.thinned.to);
+      expect(thin.body.result.diagram.bifurcations).toEqual(JSON.parse(engineText).bifurcations);
+    }
 
     const download = await w.reviewer.get(ws(`/api/runs/${runId}/result.json`, w.workspaceId));
     expect(servedDiagram(download.text)).toBe(engineText);
@@ -115,6 +129,8 @@ describe('encoded results through the API', () => {
     expect(servedDiagram(full.text)).toBe(engineText);
     const preview = await w.reviewer.get(ws(`/api/runs/${runId}/result?view=preview`, w.workspaceId));
     expect(servedDiagram(preview.text)).toBe(previewText);
+    const thin = await w.reviewer.get(ws(`/api/runs/${runId}/result?points=5000`, w.workspaceId));
+    expect(servedDiagram(thin.text)).toBe(thinnedText(engine, 5000));
     const download = await w.reviewer.get(ws(`/api/runs/${runId}/result.json`, w.workspaceId));
     expect(servedDiagram(download.text)).toBe(engineText);
     const csv = await w.reviewer.get(ws(`/api/runs/${runId}/result.csv`, w.workspaceId));

@@ -11,6 +11,7 @@ import { runQuery, toRunInfo, type RunInfo } from '../runs/repository.ts';
 import { notFound, conflict } from '../models/service-error.ts';
 import { cachedBody, rememberBody } from './body-cache.ts';
 import { storedDiagram, storedDiagramText, type ResultView, type StoredDiagramColumns } from './stored-diagram.ts';
+import { thinDiagram } from './thin.ts';
 
 export interface StoredResult {
   run: RunInfo;
@@ -61,7 +62,7 @@ export async function getRunResult(workspaceId: string, runId: number, view: Res
     createdAt: new Date(row.res_created).toISOString(),
     pointCount: row.res_points,
     get diagramText() {
-      text ??= storedDiagramText(columns, view);
+      text ??= decodedText(run.resultId!, columns, view);
       return text;
     },
     diagram() {
@@ -72,19 +73,36 @@ export async function getRunResult(workspaceId: string, runId: number, view: Res
   };
 }
 
+/**
+ * The view's JSON text; for an encoded row, kept in the immutable-result cache as UTF-8 so that
+ * pages reading the same result again (the run page reads the preview) do not decode it again.
+ */
+function decodedText(resultId: number, columns: StoredDiagramColumns, view: ResultView): string {
+  if (!columns.blob) return storedDiagramText(columns, view);
+  const key = `text:${resultId}:${view}`;
+  const hit = cachedBody(key);
+  if (hit) return new TextDecoder().decode(hit);
+  const text = storedDiagramText(columns, view);
+  rememberBody(key, new TextEncoder().encode(text));
+  return text;
+}
+
 export interface EncodedResult {
   run: RunInfo;
-  head: { id: number; engineVersion: string; computeMs: number; createdAt: string; pointCount: number; viewPoints: number };
-  /** UTF-8 of `"diagram":<JSON text>,"regimes":<stored text>` (without braces), ready to splice. */
+  head: { id: number; engineVersion: string; computeMs: number; createdAt: string; pointCount: number };
+  /** UTF-8 of `"viewPoints":n,"diagram":<JSON text>,"regimes":<stored text>` (without braces), ready to splice after the head. */
   tail: Uint8Array;
 }
 
 /**
  * The run (checked against the workspace on every call) and its result's JSON text, UTF-8 encoded.
- * The run and the result's small columns come in one query; the large part comes from the
- * immutable-result cache, or from a second query (and decoding) on a miss.
+ * With `points` below the view's size the diagram is thinned to about that many points
+ * (thinDiagram; `thinned: { from: all stored points, to: kept }`), as GET /api/runs/:id/result?points=
+ * serves it. The run and the result's small columns come in one query; the large part comes from
+ * the immutable-result cache (one entry per view and budget), or from a second query (and decoding)
+ * on a miss.
  */
-export async function getEncodedRunResult(workspaceId: string, runId: number, view: ResultView): Promise<EncodedResult> {
+export async function getEncodedRunResult(workspaceId: string, runId: number, view: ResultView, points?: number): Promise<EncodedResult> {
   if (!Number.isSafeInteger(runId)) throw notFound('run');
   const row = await runQuery(db, workspaceId)
     .leftJoin('results as res', 'res.id', 'r.result_id')
@@ -94,7 +112,9 @@ export async function getEncodedRunResult(workspaceId: string, runId: number, vi
   if (!row) throw notFound('run');
   const run = toRunInfo(row);
   if (row.res_id == null) throw conflict(`run ${runId} has no result (it is ${run.status})`);
-  const key = `${row.res_id}:${view}`;
+  const viewPoints = Number(row.res_view_points);
+  const thin = points !== undefined && viewPoints > points;
+  const key = thin ? `${row.res_id}:${view}:${points}` : `${row.res_id}:${view}`;
   let tail = cachedBody(key);
   if (!tail) {
     const big = await db('results').where({ id: row.res_id }).first(
@@ -102,12 +122,19 @@ export async function getEncodedRunResult(workspaceId: string, runId: number, vi
         ? 'CASE WHEN diagram_blob IS NULL THEN COALESCE(preview, diagram) END as d'
         : 'CASE WHEN diagram_blob IS NULL THEN diagram END as d'),
       'diagram_blob as b', 'regimes as g');
-    tail = new TextEncoder().encode(`"diagram":${storedDiagramText({ blob: big.b, text: big.d }, view)},"regimes":${big.g}`);
+    const columns = { blob: big.b, text: big.d };
+    if (thin) {
+      const thinned = thinDiagram(storedDiagram(columns, view), points);
+      const kept = thinned.branches.reduce((n, b) => n + b.points.length, 0);
+      tail = new TextEncoder().encode(`"viewPoints":${kept},"diagram":${JSON.stringify({ ...thinned, thinned: { from: Number(row.res_points), to: kept } })},"regimes":${big.g}`);
+    } else {
+      tail = new TextEncoder().encode(`"viewPoints":${viewPoints},"diagram":${storedDiagramText(columns, view)},"regimes":${big.g}`);
+    }
     rememberBody(key, tail);
   }
   return {
     run,
-    head: { id: row.res_id, engineVersion: row.res_engine, computeMs: row.res_ms, createdAt: new Date(row.res_created).toISOString(), pointCount: row.res_points, viewPoints: Number(row.res_view_points) },
+    head: { id: row.res_id, engineVersion: row.res_engine, computeMs: row.res_ms, createdAt: new Date(row.res_created).toISOString(), pointCount: row.res_points },
     tail,
   };
 }

@@ -1,8 +1,7 @@
 import { z } from 'zod';
-import { handler, json, parseValue } from '../../../../lib/server/http.ts';
+import { handler, parseValue } from '../../../../lib/server/http.ts';
 import { requireRole } from '../../../../lib/server/auth/guards.ts';
-import { getEncodedRunResult, getRunResult } from '../../../../lib/server/results/repository.ts';
-import { thinDiagram } from '../../../../lib/server/results/thin.ts';
+import { getEncodedRunResult } from '../../../../lib/server/results/repository.ts';
 import { PREVIEW_POINTS } from '../../../../lib/server/results/preview.ts';
 import { idParam, queryObject } from '../../../../lib/server/models/route-params.ts';
 
@@ -17,8 +16,9 @@ const resultQuery = z.object({
  * One run's diagram and regime labels: { run, result: { id, engineVersion, computeMs, createdAt,
  * pointCount, viewPoints, diagram, regimes: { regimes, escapeGraphs, diagnostics } } }. The
  * diagram's JSON text (decoded once per result and process, then cached; stored text of older rows
- * passed through) is spliced in as is unless ?points asks for thinning; ?view=preview serves the
- * drawing preview (special points and bands complete).
+ * passed through) is spliced in as is; ?points thins it to about that many points (cached per
+ * budget too, results never change); ?view=preview serves the drawing preview (special points and
+ * bands complete).
  */
 export const GET = handler(async ({ locals, params, url }) => {
   const { workspace } = requireRole(locals);
@@ -26,22 +26,11 @@ export const GET = handler(async ({ locals, params, url }) => {
   const q = parseValue(queryObject(url), resultQuery);
   // A budget at or below the preview's size thins the (much smaller) preview instead of the full diagram.
   const usePreview = q.view === 'preview' || (q.points !== undefined && q.points <= PREVIEW_POINTS);
-  if (q.points === undefined) {
-    const r = await getEncodedRunResult(workspace.id, runId, usePreview ? 'preview' : 'full');
-    const head = new TextEncoder().encode(`{"run":${JSON.stringify(r.run)},"result":{${JSON.stringify(r.head).slice(1, -1)},`);
-    const body = new Uint8Array(head.byteLength + r.tail.byteLength + 2);
-    body.set(head, 0);
-    body.set(r.tail, head.byteLength);
-    body.set([0x7d, 0x7d], head.byteLength + r.tail.byteLength); // "}}"
-    return new Response(body, { status: 200, headers: { 'Content-Type': 'application/json; charset=utf-8' } });
-  }
-  const r = await getRunResult(workspace.id, runId, usePreview ? 'preview' : 'full');
-  const head = { id: r.resultId, engineVersion: r.engineVersion, computeMs: r.computeMs, createdAt: r.createdAt, pointCount: r.pointCount, viewPoints: r.viewPoints };
-  if (r.viewPoints > q.points) {
-    const diagram = thinDiagram(r.diagram(), q.points);
-    const kept = diagram.branches.reduce((n, b) => n + b.points.length, 0);
-    return json({ run: r.run, result: { ...head, viewPoints: kept, diagram: { ...diagram, thinned: { from: r.pointCount, to: kept } }, regimes: JSON.parse(r.regimesText) } });
-  }
-  const body = `{"run":${JSON.stringify(r.run)},"result":{${JSON.stringify(head).slice(1, -1)},"diagram":${r.diagramText},"regimes":${r.regimesText}}}`;
+  const r = await getEncodedRunResult(workspace.id, runId, usePreview ? 'preview' : 'full', q.points);
+  const head = new TextEncoder().encode(`{"run":${JSON.stringify(r.run)},"result":{${JSON.stringify(r.head).slice(1, -1)},`);
+  const body = new Uint8Array(head.byteLength + r.tail.byteLength + 2);
+  body.set(head, 0);
+  body.set(r.tail, head.byteLength);
+  body.set([0x7d, 0x7d], head.byteLength + r.tail.byteLength); // "}}"
   return new Response(body, { status: 200, headers: { 'Content-Type': 'application/json; charset=utf-8' } });
 });
