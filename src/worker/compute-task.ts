@@ -12,6 +12,8 @@ import type { StoredEscapeSettings } from '../lib/server/escapes/schema.ts';
 import { simulateEscapePaths } from '../lib/noise/monte-carlo.ts';
 import { compileModelJson } from '../lib/model/index.ts';
 import { EscapePool } from './escape-pool.ts';
+import { computeMap, type MapComputeOutput } from '../lib/server/maps/compute.ts';
+import type { StoredMapSettings } from '../lib/server/maps/schema.ts';
 
 export interface ComputeTask {
   readonly documentText: string;
@@ -37,6 +39,14 @@ export interface EscapeComputeTask extends Omit<ComputeTask, 'settings'> {
   readonly threads: number;
 }
 
+/** A two-parameter map (run kind 'map'): computed in this thread, stored by the worker. */
+export interface MapComputeTask extends Omit<ComputeTask, 'settings'> {
+  readonly kind: 'map';
+  readonly settings: StoredMapSettings;
+}
+
+export type MapTaskResult = MapComputeOutput | TaskFailure;
+
 export interface EscapeTaskOutput { readonly kind: 'escapes'; readonly cancelled: boolean; readonly summary: EscapeStudySummary | null }
 
 export interface ProgressMessage { readonly fraction: number; readonly phrase: string; readonly values?: ValueProgress[] }
@@ -52,8 +62,9 @@ export type EscapeTaskResult = EscapeTaskOutput | TaskFailure;
 
 const PROGRESS_INTERVAL_MS = 100;
 
-export default function computeTask(task: ComputeTask | EscapeComputeTask): TaskResult | Promise<EscapeTaskResult> {
+export default function computeTask(task: ComputeTask | EscapeComputeTask | MapComputeTask): TaskResult | MapTaskResult | Promise<EscapeTaskResult> {
   if ('kind' in task && task.kind === 'escapes') return escapeTask(task);
+  if ('kind' in task && task.kind === 'map') return mapTask(task);
   return traceTask(task as ComputeTask);
 }
 
@@ -152,6 +163,35 @@ function traceTask(task: ComputeTask): TaskResult {
     if (err?.name === 'ModelError') {
       return { failed: { code: 'model-error', message: err.message ?? 'invalid model', issues: err.issues, deterministic: true } };
     }
+    return { failed: { code: 'compute-error', message: `${err?.name ?? 'Error'}: ${err?.message ?? String(e)}`.slice(0, 500), deterministic: false } };
+  } finally {
+    task.port.close();
+  }
+}
+
+function mapTask(task: MapComputeTask): MapTaskResult {
+  const flag = new Int32Array(task.cancelFlag);
+  const isCancelled = () => Atomics.load(flag, 0) === 1;
+  let last = 0;
+  const post = (fraction: number, phrase: string, force = false) => {
+    const now = Date.now();
+    if (!force && now - last < PROGRESS_INTERVAL_MS) return;
+    last = now;
+    task.port.postMessage({ fraction, phrase } satisfies ProgressMessage);
+  };
+  const delayShare = task.testDelayMs > 0 ? 0.5 : 0;
+  try {
+    if (task.testDelayMs > 0) testDelay(task, flag, post, delayShare);
+    if (isCancelled()) {
+      return { kind: 'map', mapBlob: new Uint8Array(0), jsonBytes: 0, second: task.settings.second, secondValue: 0, curveCount: 0, curvePointCount: 0, pointCount: 0, computeMs: 0, cancelled: true };
+    }
+    return computeMap(task.documentText, task.settings, {
+      onProgress: (f, phrase) => post(delayShare + (1 - delayShare) * f, phrase, f >= 1),
+      isCancelled,
+    });
+  } catch (e) {
+    const err = e as { name?: string; message?: string; issues?: unknown };
+    if (err?.name === 'ModelError') return { failed: { code: 'model-error', message: err.message ?? 'invalid model', issues: err.issues, deterministic: true } };
     return { failed: { code: 'compute-error', message: `${err?.name ?? 'Error'}: ${err?.message ?? String(e)}`.slice(0, 500), deterministic: false } };
   } finally {
     task.port.close();

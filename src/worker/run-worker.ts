@@ -22,6 +22,10 @@ import {
 } from '../lib/server/escapes/repository.ts';
 import { findResultDiagram } from '../lib/server/results/repository.ts';
 import { decodeDiagramText } from '../lib/storage/index.ts';
+import type { MapComputeTask, MapTaskResult } from './compute-task.ts';
+import type { MapComputeOutput } from '../lib/server/maps/compute.ts';
+import type { StoredMapSettings } from '../lib/server/maps/schema.ts';
+import { completeMapRun, findMapResultId } from '../lib/server/maps/repository.ts';
 
 export interface WorkerOptions {
   /** Queue name to take runs from. */
@@ -151,6 +155,7 @@ export class RunWorker {
     const log = this.opts.log;
     log(`run ${run.id}: claimed (attempt ${run.attempt})`);
     if (run.kind === 'escapes') return this.processEscapes(run);
+    if (run.kind === 'map') return this.processMap(run);
     const reuse = await findResultId(run.cacheKey).catch(() => null);
     if (reuse !== null) {
       const ok = await completeRun(run, this.owner, { reuse }, ENGINE_VERSION).catch(() => false);
@@ -354,6 +359,72 @@ export class RunWorker {
         }
         const ok = await completeEscapeRun(run, this.owner, result.summary, atlasId);
         log(`run ${run.id}: ${ok ? `done (${result.summary.valueCount} parameter values, ${result.summary.computeMs} ms)` : 'finished but no longer ours; discarded'}`);
+        if (ok) await this.notify(run, 'done');
+        return;
+      }
+      await this.failAttempt(run, failure, deterministic);
+    } catch (e) {
+      log(`run ${run.id}: could not record the outcome (${short(e)}); the lease will lapse and the run be retried`);
+    }
+  }
+
+  /**
+   * A two-parameter map (docs/maps.md, "Maps in the workspace"): one pool thread computes it with
+   * progress and the shared cancel flag; the map_results row is written with the run's completion.
+   * Same lease, heartbeat, cancel, retry and mail rules as trace runs.
+   */
+  private async processMap(run: ClaimedRun): Promise<void> {
+    const log = this.opts.log;
+    const reuse = await findMapResultId(run.cacheKey).catch(() => null);
+    if (reuse !== null) {
+      const ok = await completeMapRun(run, this.owner, { reuse }).catch(() => false);
+      log(`run ${run.id}: ${ok ? `reused stored map ${reuse}` : 'lost before reuse could be recorded'}`);
+      if (ok) await this.notify(run, 'done');
+      return;
+    }
+    const a: Active = { run, cancelFlag: new Int32Array(new SharedArrayBuffer(4)), abort: new AbortController(), lost: false };
+    this.active.add(a);
+    if (this.stopping) Atomics.store(a.cancelFlag, 0, 1);
+    const { port1, port2 } = new MessageChannel();
+    let progress = { fraction: 0, phrase: 'starting' };
+    port1.on('message', (m: ProgressMessage) => { progress = m; });
+    port1.unref();
+    const timer = this.startHeartbeat(a, () => ({ fraction: progress.fraction, phrase: progress.phrase }));
+    let output: MapComputeOutput | null = null;
+    let failure: unknown = null;
+    let deterministic = false;
+    try {
+      const task: MapComputeTask = {
+        kind: 'map', documentText: run.documentText, settings: run.settings as unknown as StoredMapSettings, port: port2,
+        cancelFlag: a.cancelFlag.buffer as SharedArrayBuffer, testDelayMs: this.opts.testDelayMs,
+      };
+      const result: MapTaskResult = await this.pool.run(task, { transferList: [port2], signal: a.abort.signal });
+      if ('failed' in result) {
+        failure = result.failed;
+        deterministic = result.failed.deterministic;
+      } else {
+        output = result;
+      }
+    } catch (e) {
+      failure = e;
+    } finally {
+      clearInterval(timer);
+      port1.close();
+      this.active.delete(a);
+    }
+    try {
+      if (this.stopping && !a.lost && (output === null || output.cancelled)) {
+        await releaseRun(run, this.owner);
+        log(`run ${run.id}: handed back to the queue (worker stopping)`);
+        return;
+      }
+      if (a.lost || output?.cancelled) {
+        log(`run ${run.id}: stopped (cancelled or taken over); nothing stored`);
+        return;
+      }
+      if (output) {
+        const ok = await completeMapRun(run, this.owner, output);
+        log(`run ${run.id}: ${ok ? `done (map: ${output.curveCount} curves, ${output.curvePointCount} curve points, ${output.pointCount} codimension-two points, ${output.computeMs} ms; ${output.mapBlob.byteLength} bytes stored of ${output.jsonBytes} bytes of JSON)` : 'finished but no longer ours; discarded'}`);
         if (ok) await this.notify(run, 'done');
         return;
       }

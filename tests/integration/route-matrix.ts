@@ -18,6 +18,7 @@ import { serviceRoutes } from './route-matrix-service.ts';
 import { editorRoutes } from './route-matrix-editor.ts';
 import { compareRoutes } from './route-matrix-compare.ts';
 import { escapeRoutes } from './route-matrix-escapes.ts';
+import { mapRoutes } from './route-matrix-maps.ts';
 
 export type Caller = 'signedOut' | 'outsider' | 'owner' | 'modeler' | 'reviewer';
 export type Vars = Record<string, string>;
@@ -167,4 +168,5 @@ export const routeMatrix: RouteCase[] = [
   ...editorRoutes,
   ...compareRoutes,
   ...escapeRoutes,
+  ...mapRoutes,
 ];

@@ -16,7 +16,7 @@ export async function notifyRunFinished(runId: number, status: 'done' | 'failed'
   if (!row || !row.notify) return false;
   const link = `${serverEnv().publicOrigin}/runs/${runId}?workspace=${encodeURIComponent(row.workspace_id)}`;
   const error = typeof row.error === 'string' ? JSON.parse(row.error) : row.error;
-  const what = `${row.kind === 'escapes' ? 'escape study ' : ''}run ${runId} of "${row.model_name}" (version ${row.number})`;
+  const what = `${row.kind === 'escapes' ? 'escape study ' : row.kind === 'map' ? 'two-parameter map ' : ''}run ${runId} of "${row.model_name}" (version ${row.number})`;
   const text = status === 'done'
     ? `Hello ${row.display_name},\n\nYour ${what} has finished.\n\nOpen it: ${link}\n\nModel results are indicative; check them with domain experts and local regulation before acting on them.\n`
     : `Hello ${row.display_name},\n\nYour ${what} failed: ${error?.message ?? 'no diagnostic recorded'}.\n\nDetails: ${link}\n`;

@@ -18,7 +18,7 @@ export interface ClaimedRun {
   readonly workspaceId: string;
   readonly modelId: number;
   readonly versionId: number;
-  /** 'trace' or 'escapes' (settings are then StoredEscapeSettings, src/lib/server/escapes/schema.ts). */
+  /** 'trace', 'escapes' (settings are then StoredEscapeSettings, src/lib/server/escapes/schema.ts) or 'map' (StoredMapSettings, src/lib/server/maps/schema.ts). */
   readonly kind: string;
   readonly versionHash: string;
   readonly cacheKey: string;

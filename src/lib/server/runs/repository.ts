@@ -13,6 +13,8 @@ import { normalizeSettings } from './normalize-settings.ts';
 import type { ListRunsQuery, RunSettings, RunStatus } from './schemas.ts';
 import type { EscapeSettings } from '../escapes/schema.ts';
 import { checkRequestBudget, normalizeEscapeSettings } from '../escapes/settings.ts';
+import type { MapRunSettings } from '../maps/schema.ts';
+import { normalizeMapSettings } from '../maps/settings.ts';
 
 export interface RunInfo {
   id: number;
@@ -35,6 +37,8 @@ export interface RunInfo {
   resultId: number | null;
   /** Escape runs: the stored study (rows in escape_points under the run's cache key). */
   escapeStudyId: number | null;
+  /** Map runs: the stored map (map_results). */
+  mapResultId: number | null;
   reused: boolean;
   error: { code: string; message: string; [k: string]: unknown } | null;
   queuedAt: string;
@@ -68,6 +72,7 @@ export function toRunInfo(r: Row): RunInfo {
     engineVersion: r.engine_version,
     resultId: r.result_id,
     escapeStudyId: r.escape_study_id ?? null,
+    mapResultId: r.map_result_id ?? null,
     reused: Boolean(r.reused),
     error: parseJson(r.error),
     queuedAt: iso(r.queued_at)!,
@@ -122,7 +127,7 @@ export type StartRunInput = {
   /** Worker queue name; the API always uses 'default' (tests and deployments may route elsewhere). */
   queue?: string;
   maxAttempts?: number;
-} & ({ kind?: 'trace'; settings: RunSettings } | { kind: 'escapes'; settings: EscapeSettings });
+} & ({ kind?: 'trace'; settings: RunSettings } | { kind: 'escapes'; settings: EscapeSettings } | { kind: 'map'; settings: MapRunSettings });
 
 /**
  * Queues a run of one model version. When a result with the same (version hash, settings, engine
@@ -139,6 +144,10 @@ export async function startRun(workspaceId: string, actorId: string | null, inpu
     checkRequestBudget(version.document, n.stored);
     settings = n.stored;
     cacheKey = resultCacheKey('escapes', version.hash, n.identity, ENGINE_VERSION);
+  } else if (input.kind === 'map') {
+    // Two-parameter map: the second parameter checked by the engine's compiler, defaults dropped.
+    settings = normalizeMapSettings(version.document, input.settings);
+    cacheKey = resultCacheKey('map', version.hash, settings, ENGINE_VERSION);
   } else {
     settings = normalizeSettings(version.document, input.settings as RunSettings);
     cacheKey = resultCacheKey(kind, version.hash, settings, ENGINE_VERSION);
@@ -147,9 +156,9 @@ export async function startRun(workspaceId: string, actorId: string | null, inpu
     const model = await trx('models').where({ id: input.modelId, workspace_id: workspaceId }).first();
     if (!model) throw notFound('model');
     if (model.archived_at) throw conflict('model is archived; unarchive it before starting runs');
-    const stored = kind === 'escapes'
-      ? await trx('escape_studies').where({ cache_key: cacheKey }).first('id')
-      : await trx('results').where({ cache_key: cacheKey }).first('id');
+    const storeTable = kind === 'escapes' ? 'escape_studies' : kind === 'map' ? 'map_results' : 'results';
+    const storeColumn = kind === 'escapes' ? 'escape_study_id' : kind === 'map' ? 'map_result_id' : 'result_id';
+    const stored = await trx(storeTable).where({ cache_key: cacheKey }).first('id');
     const base = {
       workspace_id: workspaceId,
       model_id: input.modelId,
@@ -164,7 +173,7 @@ export async function startRun(workspaceId: string, actorId: string | null, inpu
       engine_version: ENGINE_VERSION,
     };
     const [id] = await trx('runs').insert(stored
-      ? { ...base, status: 'done', progress: 1, phrase: 'reused a stored result of identical inputs', [kind === 'escapes' ? 'escape_study_id' : 'result_id']: stored.id, reused: true,
+      ? { ...base, status: 'done', progress: 1, phrase: 'reused a stored result of identical inputs', [storeColumn]: stored.id, reused: true,
           started_at: trx.raw('CURRENT_TIMESTAMP(3)'), finished_at: trx.raw('CURRENT_TIMESTAMP(3)') }
       : { ...base, status: 'queued', phrase: 'waiting for a worker' });
     await recordAudit(trx, { workspaceId, actorId, action: 'run.start', targetType: 'run', targetId: id,
@@ -196,7 +205,7 @@ export async function cancelRun(workspaceId: string, actorId: string, runId: num
 export async function getRunProgress(workspaceId: string, runId: number) {
   if (!Number.isSafeInteger(runId)) return null;
   const r = await db('runs').where({ id: runId, workspace_id: workspaceId })
-    .first('id', 'kind', 'status', 'progress', 'phrase', 'progress_detail', 'error', 'result_id', 'escape_study_id', 'attempts', 'heartbeat_at', 'finished_at');
+    .first('id', 'kind', 'status', 'progress', 'phrase', 'progress_detail', 'error', 'result_id', 'escape_study_id', 'map_result_id', 'attempts', 'heartbeat_at', 'finished_at');
   if (!r) return null;
   return {
     id: r.id as number,
@@ -209,6 +218,7 @@ export async function getRunProgress(workspaceId: string, runId: number) {
     /** Escape runs: paths done per parameter value ({ values: [{ p, pathsDone, paths, status }] }). */
     detail: parseJson(r.progress_detail),
     escapeStudyId: (r.escape_study_id ?? null) as number | null,
+    mapResultId: (r.map_result_id ?? null) as number | null,
     attempts: r.attempts as number,
     heartbeatAt: iso(r.heartbeat_at),
     finishedAt: iso(r.finished_at),

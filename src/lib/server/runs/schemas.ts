@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { escapeSettingsSchema } from '../escapes/schema.ts';
+import { mapSettingsSchema } from '../maps/schema.ts';
 import { runSettingsSchema } from './trace-settings-schema.ts';
 
 export { runSettingsSchema };
@@ -25,14 +26,23 @@ const startEscapeRunSchema = z.object({
   notify: z.boolean().default(false),
 }).strict();
 
-export const RUN_KINDS = ['trace', 'escapes'] as const;
+/** A two-parameter map (docs/maps.md, "Maps in the workspace"); settings in ../maps/schema.ts. */
+const startMapRunSchema = z.object({
+  modelId: z.number().int().positive(),
+  version: z.number().int().positive().optional(),
+  kind: z.literal('map'),
+  settings: mapSettingsSchema,
+  notify: z.boolean().default(false),
+}).strict();
+
+export const RUN_KINDS = ['trace', 'escapes', 'map'] as const;
 export type RunKind = (typeof RUN_KINDS)[number];
 
-/** POST /api/runs: `kind` 'trace' (the default when absent) or 'escapes', each with its own settings. */
+/** POST /api/runs: `kind` 'trace' (the default when absent), 'escapes' or 'map', each with its own settings. */
 export const startRunSchema = z.preprocess(
   (v) => (v && typeof v === 'object' && !Array.isArray(v) && !('kind' in v) ? { ...v, kind: 'trace' } : v),
-  z.discriminatedUnion('kind', [startTraceRunSchema, startEscapeRunSchema], {
-    errorMap: (issue, ctx) => (issue.code === 'invalid_union_discriminator' ? { message: "must be 'trace' or 'escapes'" } : { message: ctx.defaultError }),
+  z.discriminatedUnion('kind', [startTraceRunSchema, startEscapeRunSchema, startMapRunSchema], {
+    errorMap: (issue, ctx) => (issue.code === 'invalid_union_discriminator' ? { message: "must be 'trace', 'escapes' or 'map'" } : { message: ctx.defaultError }),
   }),
 );
 
