@@ -26,7 +26,8 @@ Prints JSON (or writes it to FILE):
                    "unlocatedEdges": 0 } ],
     "diagnostics": [ { "level": "info", "code": "..", "message": ".." } ] }
 Curve types: "saddle-node", "hopf" (points add "frequency"), "pitchfork". Point types: "cusp",
-"bogdanov-takens" (a saddle-node curve meets a Hopf curve; listed once with both curves).
+"bogdanov-takens" (a saddle-node curve meets a Hopf curve; listed once with both curves),
+"saddle-node-meets-pitchfork" (the symmetric branch folds on a pitchfork curve).
 
 Options:
   --second NAME    the second parameter (required): the coupling parameter or an element

@@ -18,6 +18,7 @@
  */
 import type { ExtendedSystem } from './curve-continuation.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
+import { DenseLu } from '../numerics/dense-lu.js';
 
 export interface Symmetry {
   /** sigma as an index map (sigma[sigma[i]] = i). */
@@ -30,7 +31,7 @@ export interface Symmetry {
 
 /**
  * A candidate symmetry read off a branch point (x*, phi): indices i, j with x*_i = x*_j and
- * phi_i = -phi_j != 0 are swapped, the rest fixed (tolerance 1e-6 relative to |x*|, |phi|); it is
+ * phi_i = -phi_j != 0 are swapped, the rest fixed (tolerance 1e-4 relative to |x*|, |phi|); it is
  * accepted when it is an involution with at least one pair and F commutes with it to 1e-10 (relative)
  * at five pseudo-random (x, a, b) around the point (a numerical check, not a proof).
  */
@@ -42,8 +43,10 @@ export function findSymmetry(sys: TwoParameterSystem, x: ArrayLike<number>, phi:
     sx = Math.max(sx, Math.abs(x[i]));
     sp = Math.max(sp, Math.abs(phi[i]));
   }
-  const tx = 1e-6 * (1 + sx);
-  const tp = 1e-6 * sp;
+  // Loose on purpose: a located pitchfork is accurate to ~1e-6 in x only (the branch-point system is
+  // nearly singular there), and its null vector correspondingly less; the equivariance check decides.
+  const tx = 1e-4 * (1 + sx);
+  const tp = 1e-4 * sp;
   const sigma = Array.from({ length: n }, (_, i) => i);
   const used = new Array<boolean>(n).fill(false);
   for (let i = 0; i < n; i++) {
@@ -137,8 +140,9 @@ export class SymmetricBranchPointSystem implements ExtendedSystem {
   /** Reduced coordinates of a symmetric state and an antisymmetric vector: s_o = x_rep, u_q = phi_i. */
   reduce(x: ArrayLike<number>, phi: ArrayLike<number>, a: number, b: number): Float64Array {
     const y = new Float64Array(this.size);
-    this.symmetry.orbits.forEach((orbit, o) => (y[o] = x[orbit[0]]));
-    this.symmetry.pairs.forEach(([i], q) => (y[this.k + q] = phi[i]));
+    // Orbit means: the symmetric projection of x (the located branch point is only nearly symmetric).
+    this.symmetry.orbits.forEach((orbit, o) => (y[o] = orbit.reduce((sum, i) => sum + x[i], 0) / orbit.length));
+    this.symmetry.pairs.forEach(([i, j], q) => (y[this.k + q] = (phi[i] - phi[j]) / 2));
     y[this.k + this.m] = a;
     y[this.k + this.m + 1] = b;
     return y;
@@ -204,6 +208,28 @@ export class SymmetricBranchPointSystem implements ExtendedSystem {
       out[row + k + m + 1] = this.jb[i];
     });
     for (let q = 0; q < m; q++) out[(k + m) * N + k + q] = this.c[q];
+  }
+
+  /**
+   * det of J_x restricted to Fix (the k x k matrix (J P) on the orbit representatives): zero where
+   * the symmetric branch itself has a saddle-node, i.e. where a saddle-node curve of symmetric
+   * states meets the pitchfork curve (both blocks singular: a double zero eigenvalue, one
+   * symmetric and one antisymmetric null vector). Continuous along the curve, sign changes there.
+   */
+  symmetricDeterminant(y: Float64Array): number {
+    const { n, k, m } = this;
+    this.load(y);
+    this.sys.jacobian(this.x, y[k + m], y[k + m + 1], this.j);
+    const a = new Float64Array(k * k);
+    const { orbits } = this.symmetry;
+    orbits.forEach((orbit, o) => {
+      orbits.forEach((cols, o2) => {
+        let s = 0;
+        for (const l of cols) s += this.j[orbit[0] * n + l];
+        a[o * k + o2] = s;
+      });
+    });
+    return new DenseLu(a, k).determinant;
   }
 
   rebase(y: Float64Array): boolean {

@@ -83,7 +83,7 @@ export interface MapCurve {
   readonly seed: { readonly second: number; readonly p: number; readonly x: number[] };
 }
 
-export type MapPointType = 'cusp' | 'bogdanov-takens';
+export type MapPointType = 'cusp' | 'bogdanov-takens' | 'saddle-node-meets-pitchfork';
 
 export interface MapPoint {
   readonly id: string;
@@ -215,6 +215,13 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
       }
     }
     if (traced.length >= s.maxCurves) break;
+  }
+  // A saddle-node curve through a point found on a pitchfork curve is listed with it.
+  for (const q of points) {
+    if (q.type !== 'saddle-node-meets-pitchfork') continue;
+    for (const t of traced) {
+      if (t.curve.type === 'saddle-node' && !q.curves.includes(t.curve.id) && onTraced([t], 'saddle-node', q.x, q.p[0], q.p[1])) q.curves.push(t.curve.id);
+    }
   }
   // A double zero eigenvalue with no Hopf curve ending there: the generic Bogdanov-Takens unfolding
   // (Kuznetsov §8.4) has one; without it the point may be degenerate (e.g. two folds of a one-way
@@ -390,7 +397,7 @@ function addPoint(points: MapPoint[], c: Omit<MapPoint, 'id'>): void {
     ev.alsoOn = [...also, { curves: c.curves, ...c.evidence }];
     return;
   }
-  const prefix = c.type === 'cusp' ? 'cusp' : 'bt';
+  const prefix = c.type === 'cusp' ? 'cusp' : c.type === 'bogdanov-takens' ? 'bt' : 'snp';
   points.push({ id: `${prefix}${points.filter((q) => q.type === c.type).length + 1}`, ...c });
 }
 
@@ -571,7 +578,7 @@ function hopfCurve(
 
 function branchPointCurve(
   sys: TwoParameterSystem, sp: SpecialPoint, b: number, o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
-): { traced: Traced; found: [] } | 'no-symmetry' | null {
+): { traced: Traced; found: Omit<MapPoint, 'id'>[] } | 'no-symmetry' | null {
   const n = sys.dimension;
   const x = Float64Array.from(sp.x);
   const j = sys.jacobian(x, sp.p, b, new Float64Array(n * n));
@@ -601,7 +608,27 @@ function branchPointCurve(
     seed: { second: b, p: sp.p, x: [...sp.x] },
   };
   for (const end of ends) noteEnd(end, id, diagnostics);
-  return { traced: { curve, ys }, found: [] };
+  // Where a saddle-node curve of the symmetric branch meets this curve: det of J on Fix changes sign.
+  const found: Omit<MapPoint, 'id'>[] = [];
+  const dets = ys.map((y) => ext.symmetricDeterminant(y));
+  for (let i = 0; i + 1 < ys.length; i++) {
+    if (!(Number.isFinite(dets[i]) && Number.isFinite(dets[i + 1])) || dets[i] === 0 || Math.sign(dets[i]) === Math.sign(dets[i + 1])) continue;
+    ext.rebase(ys[i]);
+    const hit = locateOnChord(ext, ys[i], ys[i + 1], dets[i], dets[i + 1], (y) => ext.symmetricDeterminant(y));
+    if (!hit) {
+      diagnostics.push({ level: 'warning', code: 'locate-failed', message: `curve ${id}: the symmetric block's determinant changes sign between two points but no point between them could be computed; not reported` });
+      continue;
+    }
+    found.push({
+      type: 'saddle-node-meets-pitchfork', p: [hit.y[N - 2], hit.y[N - 1]], x: Array.from(ext.stateOf(hit.y)), curves: [id],
+      evidence: {
+        reason: `the Jacobian restricted to the symmetric states changes the sign of its determinant along the pitchfork curve (${dets[i].toPrecision(3)} before, ${dets[i + 1].toPrecision(3)} after): the symmetric branch has a saddle-node here, so a saddle-node curve meets the pitchfork curve (a double zero eigenvalue, one symmetric and one antisymmetric null vector)`,
+        testFunction: 'det of J_x on the symmetric subspace',
+        before: dets[i], after: dets[i + 1], atPoint: hit.value, converged: hit.converged,
+      },
+    });
+  }
+  return { traced: { curve, ys }, found };
 }
 
 /** Does the polyline of a curve cross the segment u-w in the parameter plane? */
