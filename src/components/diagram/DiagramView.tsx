@@ -528,7 +528,7 @@ export function DiagramView(props: DiagramViewProps) {
             </div>
           ) : null}
         </div>
-        <SidePanel diagram={diagram} projection={projection} selection={selection} regimes={regimes} unlabelled={gaps} escapeGraphs={escapeGraphs}
+        <SidePanel diagram={diagram} projection={projection} selection={selection} regimes={regimes} unlabelled={gaps} escapeGraphs={escapeGraphs} escapeStudies={props.escapeStudies}
           canTag={Boolean(props.canTag && (props.onAddTag || props.tagEndpoint))} onAddTag={addTag} onClose={() => { setSelection(null); overlayRef.current?.focus(); }} />
       </div>
 

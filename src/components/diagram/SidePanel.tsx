@@ -60,12 +60,15 @@ function edgeDetail(bound: string | undefined): string {
   return bound.slice(bound.indexOf(':'));
 }
 import { EscapeGraphDialog, EscapeGraphDrawing } from './EscapeGraphDrawing';
+import { bandStudyLinks, type VersionStudy } from './band-studies';
 import type { Selection } from './types';
 
 interface Props {
   diagram: Diagram; projection: Projection; selection: Selection; regimes: readonly RegimeBand[]; escapeGraphs: readonly EscapeGraph[];
   /** Unlabelled stretches of the swept range (unlabelledInRun), for the 'gap' selection. */
   unlabelled?: readonly UnlabelledStretch[];
+  /** Finished escape studies of the same model version, newest first (band links). */
+  escapeStudies?: readonly VersionStudy[];
   canTag: boolean; onAddTag: (tag: BandTag) => Promise<void>; onClose: () => void;
 }
 
@@ -90,6 +93,39 @@ function EigenTable({ values, testId }: { values?: readonly Eigenvalue[]; testId
       <thead><tr><th scope="col">Real part</th><th scope="col">Imaginary part</th></tr></thead>
       <tbody>{sorted.map((e, i) => <tr key={i} className={e.re > 0 ? 'is-positive' : ''}><td className="num">{formatValue(e.re, 8)}</td><td className="num">{formatValue(e.im, 8)}</td></tr>)}</tbody>
     </table>
+  );
+}
+
+/**
+ * The band's links to the escape studies of the same version, each with the weak-noise prediction's
+ * most probable escape orders at the study's stored value nearest to the band's representative
+ * parameter inside the band (which value, said beside it).
+ */
+function BandStudies({ band, studies, graphP, parameter }: { band: RegimeBand; studies: readonly VersionStudy[]; graphP?: number; parameter: string }) {
+  if (!studies.length) return null;
+  const links = bandStudyLinks(band, studies, graphP);
+  return (
+    <>
+      <h4>Escape studies of this version</h4>
+      <ul className="dg-studies" data-testid="band-studies">
+        {links.map((l) => (
+          <li key={l.runId} data-testid="band-study" data-run={l.runId} data-at={l.at?.p ?? ''}>
+            <a href={l.href} data-testid="band-study-link">{l.label}</a>
+            {l.at ? (
+              <>
+                <p className="dg-muted">Predicted escape order (weak noise) at the study’s {parameter} = {formatValue(l.at.p, 6)}, its stored value nearest to this band’s {formatValue(l.representative, 6)}:</p>
+                <ol className="dg-study-orders" data-testid="band-study-orders">
+                  {l.at.orders.map((o, k) => (
+                    <li key={k}><span>{o.order.join(' → ')}</span> <span className="num">{o.probability === null ? '(probability not available)' : `(probability ${formatValue(o.probability, 3)})`}</span></li>
+                  ))}
+                </ol>
+              </>
+            ) : <p className="dg-muted" data-testid="band-study-none">This study has no stored value inside this band.</p>}
+          </li>
+        ))}
+      </ul>
+      <p className="dg-muted">Predictions are indicative; defer to domain experts and local regulation.</p>
+    </>
   );
 }
 
@@ -149,7 +185,7 @@ function TagForm({ band, onAddTag }: { band: Pick<RegimeBand, 'from' | 'to'>; on
   );
 }
 
-export function SidePanel({ diagram, projection, selection, regimes, unlabelled = [], escapeGraphs, canTag, onAddTag, onClose }: Props) {
+export function SidePanel({ diagram, projection, selection, regimes, unlabelled = [], escapeGraphs, escapeStudies = [], canTag, onAddTag, onClose }: Props) {
   const headRef = useRef<HTMLHeadingElement>(null);
   const [fullGraph, setFullGraph] = useState<EscapeGraph | null>(null);
   useEffect(() => { if (selection) headRef.current?.focus(); }, [selection]);
@@ -243,6 +279,7 @@ export function SidePanel({ diagram, projection, selection, regimes, unlabelled 
             <button type="button" className="dg-open-full" onClick={() => setFullGraph(graph)} data-testid="escape-graph-open">Open full size</button>
           </>
         ) : <p className="dg-muted">No escape graph was stored for this band.</p>}
+        <BandStudies band={band} studies={escapeStudies} graphP={graph?.p} parameter={diagram.parameter} />
         {canTag ? <TagForm key={selection.index} band={band} onAddTag={onAddTag} /> : null}
       </>
     ) : null;

@@ -1,6 +1,7 @@
 import type { Diagram } from '../../lib/atlas/types';
 import type { Provenance } from '../../lib/plot/provenance';
 import type { BandTag, EscapeGraph, RegimeBand } from '../../lib/regimes/types';
+import type { VersionStudy } from './band-studies';
 
 /** Props of the diagram island. Everything but onAddTag is plain JSON, so Astro can pass it. */
 export interface DiagramViewProps {
@@ -25,6 +26,8 @@ export interface DiagramViewProps {
   readonly initialProjection?: string;
   /** Shown above the plot. */
   readonly title?: string;
+  /** Finished escape studies of the same model version (newest first): the band panel links each and shows its prediction inside the band. */
+  readonly escapeStudies?: VersionStudy[];
 }
 
 export type Selection =

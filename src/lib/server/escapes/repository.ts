@@ -111,3 +111,42 @@ export async function getRunEscapes(workspaceId: string, runId: number): Promise
     points: rows.map(decodePoint),
   };
 }
+
+/** A finished escape study of one model version, for the band links of the diagram view (src/components/diagram/band-studies.ts). */
+export interface VersionStudySummary {
+  runId: number;
+  noise: number;
+  start: string;
+  paths: number | null;
+  /** Every stored value, in parameter order, with the prediction's escape orders (most probable first, at most `orders`). */
+  points: { p: number; orders: { order: string[]; probability: number | null }[] }[];
+}
+
+/**
+ * The finished escape studies of a model version in this workspace, newest run first, one per
+ * stored study (runs of identical inputs share one), at most `limit`. Another workspace's version
+ * yields nothing.
+ */
+export async function listVersionStudies(workspaceId: string, versionId: number, opts: { limit?: number; orders?: number } = {}, k: Knex = db): Promise<VersionStudySummary[]> {
+  const limit = opts.limit ?? 10;
+  const keep = opts.orders ?? 3;
+  const rows = await k('runs as r').join('escape_studies as s', 's.id', 'r.escape_study_id')
+    .where({ 'r.workspace_id': workspaceId, 'r.model_version_id': versionId, 'r.kind': 'escapes', 'r.status': 'done' })
+    .orderBy('r.id', 'desc').limit(limit * 4)
+    .select('r.id as run_id', 'r.settings', 's.id as study_id', 's.cache_key', 's.noise', 's.start');
+  const seen = new Set<number>();
+  const studies = rows.filter((r) => !seen.has(r.study_id) && seen.add(r.study_id)).slice(0, limit);
+  if (!studies.length) return [];
+  const points = await k('escape_points').whereIn('cache_key', studies.map((s) => s.cache_key)).orderBy(['cache_key', 'p']).select('cache_key', 'p', 'status', 'prediction');
+  return studies.map((s) => {
+    const settings = parse(s.settings) as { paths?: number } | null;
+    return {
+      runId: Number(s.run_id), noise: Number(s.noise), start: s.start, paths: typeof settings?.paths === 'number' ? settings.paths : null,
+      points: points.filter((pt) => pt.cache_key === s.cache_key && pt.status === 'done').map((pt) => {
+        const prediction = parse(pt.prediction) as { sequences?: { order: string[]; probability: number | null }[] } | null;
+        const orders = [...(prediction?.sequences ?? [])].sort((a, b) => (b.probability ?? -1) - (a.probability ?? -1)).slice(0, keep);
+        return { p: Number(pt.p), orders };
+      }),
+    };
+  });
+}
