@@ -31,7 +31,6 @@ export interface EscapeViewProps {
   readonly runId: number;
   readonly parameter: string;
   readonly start: string;
-  readonly status: string;
   readonly provenance: EscapeProvenance;
 }
 
