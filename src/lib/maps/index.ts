@@ -5,3 +5,4 @@ export { SymmetricBranchPointSystem, findSymmetry, type Symmetry } from './branc
 export { traceMap, defaultMapSettings, type MapSettings, type MapCurve, type MapCurvePoint, type MapPoint, type MapRegion, type TwoParameterMap, type MapHooks } from './trace-map.js';
 export { saddleNodesAt, type SlicePoint } from './slice.js';
 export { EquilibriumSystem } from './equilibrium-system.js';
+export { MAP_ENGINE_VERSION } from './map-version.js';
