@@ -119,355 +119,355 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
   let untracedStarts = 0;
 
   for (;;) {
-  while (tasks.length > 0) {
-    if (isCancelled()) break;
-    const task = tasks.shift()!;
-    const frac = (k: number) => (done + k) / (done + tasks.length + 1);
-    if (branches.length >= s.maxBranches) {
-      if (!branchCapHit) diagnostics.push({ level: 'warning', code: 'branch-cap', message: `stopped at ${s.maxBranches} branches (maxBranches); ${tasks.length + 1} more were not traced` });
-      branchCapHit = true;
-      untracedStarts = tasks.filter((t) => t.kind === 'start').length + (task.kind === 'start' ? 1 : 0);
-      break;
-    }
-    const id = `b${branches.length + 1}`;
-    const bIndex = branches.length;
-    let inserts: Insert[] = [];
+    while (tasks.length > 0) {
+      if (isCancelled()) break;
+      const task = tasks.shift()!;
+      const frac = (k: number) => (done + k) / (done + tasks.length + 1);
+      if (branches.length >= s.maxBranches) {
+        if (!branchCapHit) diagnostics.push({ level: 'warning', code: 'branch-cap', message: `stopped at ${s.maxBranches} branches (maxBranches); ${tasks.length + 1} more were not traced` });
+        branchCapHit = true;
+        untracedStarts = tasks.filter((t) => t.kind === 'start').length + (task.kind === 'start' ? 1 : 0);
+        break;
+      }
+      const id = `b${branches.length + 1}`;
+      const bIndex = branches.length;
+      let inserts: Insert[] = [];
 
-    const onStep = (a: TracedPoint, b: TracedPoint) => {
-      pointsSinceProgress++;
-      if (pointsSinceProgress >= 200) {
-        pointsSinceProgress = 0;
-        progress(frac(0.5), `tracing branch ${id}`);
-      }
-      const kinds: TestFunctionKind[] = [];
-      const bp = Number.isFinite(a.det) && Number.isFinite(b.det) && a.det * b.det < 0;
-      if (bp) kinds.push('branch');
-      if (a.t[n] * b.t[n] < 0 && !bp) kinds.push('fold');
-      if (n >= 2 && Number.isFinite(a.hopf.value) && Number.isFinite(b.hopf.value) && a.hopf.value * b.hopf.value < 0) {
-        // Two real eigenvalues summing through zero at both ends: a neutral saddle, never a Hopf point.
-        if (a.hopf.critical?.kind === 'real-pair' && b.hopf.critical?.kind === 'real-pair') neutralSaddles++;
-        else kinds.push('hopf');
-      }
-      // Two or more eigenvalues crossing zero at once (a symmetry-forced multiple zero eigenvalue)
-      // leave det [DH; t] with its sign; only the unstable count shows it.
-      // Only when no other test function explains the jump (a complex pair, or a fold and a branch
-      // point in one step, also change the count by 2).
-      if (Math.abs(b.unstable - a.unstable) >= 2 && kinds.length === 0) {
-        try {
-          handleMultipleCrossing(a, b);
-        } catch (e) {
-          diagnostics.push({ level: 'warning', code: 'locate-failed', message: `locating a multiple zero eigenvalue failed: ${errorText(e)}`, branch: id, p: a.y[n] });
+      const onStep = (a: TracedPoint, b: TracedPoint) => {
+        pointsSinceProgress++;
+        if (pointsSinceProgress >= 200) {
+          pointsSinceProgress = 0;
+          progress(frac(0.5), `tracing branch ${id}`);
         }
-      }
-      for (const kind of kinds) {
-        try {
-          handleSignChange(kind, a, b, a.t[n] * b.t[n] < 0);
-        } catch (e) {
-          diagnostics.push({ level: 'warning', code: 'locate-failed', message: `locating a ${kind} test-function zero failed: ${errorText(e)}`, branch: id, p: a.y[n] });
+        const kinds: TestFunctionKind[] = [];
+        const bp = Number.isFinite(a.det) && Number.isFinite(b.det) && a.det * b.det < 0;
+        if (bp) kinds.push('branch');
+        if (a.t[n] * b.t[n] < 0 && !bp) kinds.push('fold');
+        if (n >= 2 && Number.isFinite(a.hopf.value) && Number.isFinite(b.hopf.value) && a.hopf.value * b.hopf.value < 0) {
+          // Two real eigenvalues summing through zero at both ends: a neutral saddle, never a Hopf point.
+          if (a.hopf.critical?.kind === 'real-pair' && b.hopf.critical?.kind === 'real-pair') neutralSaddles++;
+          else kinds.push('hopf');
         }
-      }
-    };
+        // Two or more eigenvalues crossing zero at once (a symmetry-forced multiple zero eigenvalue)
+        // leave det [DH; t] with its sign; only the unstable count shows it.
+        // Only when no other test function explains the jump (a complex pair, or a fold and a branch
+        // point in one step, also change the count by 2).
+        if (Math.abs(b.unstable - a.unstable) >= 2 && kinds.length === 0) {
+          try {
+            handleMultipleCrossing(a, b);
+          } catch (e) {
+            diagnostics.push({ level: 'warning', code: 'locate-failed', message: `locating a multiple zero eigenvalue failed: ${errorText(e)}`, branch: id, p: a.y[n] });
+          }
+        }
+        for (const kind of kinds) {
+          try {
+            handleSignChange(kind, a, b, a.t[n] * b.t[n] < 0);
+          } catch (e) {
+            diagnostics.push({ level: 'warning', code: 'locate-failed', message: `locating a ${kind} test-function zero failed: ${errorText(e)}`, branch: id, p: a.y[n] });
+          }
+        }
+      };
 
-    const handleMultipleCrossing = (a: TracedPoint, b: TracedPoint) => {
-      const loc = locateCountChange(system, a, b, locOpts);
-      const pt = loc.point;
-      const k = Math.abs(b.unstable - a.unstable);
-      registry.add({
-        type: 'degenerate',
-        p: pt.y[n],
-        x: Array.from(pt.y.subarray(0, n)),
-        branches: new Set([id]),
-        evidence: {
-          kind: 'multiple-zero',
-          reason: `the unstable count changes by ${k} (${a.unstable} -> ${b.unstable}) with no sign change of the Hopf test: ${k} real eigenvalues cross zero together`,
-          parameterBracket: loc.parameterBracket,
-          iterations: loc.iterations,
-          eigenvalues: Array.from(pt.spectrum.re, (re, i) => ({ re, im: pt.spectrum.im[i] })),
-        },
-        note: `${k} eigenvalues cross zero together (a multiple zero eigenvalue, typical of symmetric networks): several branches may meet here; the branch-point test does not change sign, so no branch switching was attempted`,
-      });
-      inserts.push({ after: a, point: pt });
-    };
-
-    const handleSignChange = (kind: TestFunctionKind, a: TracedPoint, b: TracedPoint, foldToo: boolean) => {
-      // A branch that bends back at a branch point (a pitchfork's parabola) has t_p = 0 exactly there,
-      // and t_p is a well-conditioned test function along it, unlike det near the singular point.
-      const locKind: TestFunctionKind = kind === 'branch' && foldToo ? 'fold' : kind;
-      const loc = locateZero(system, locKind, a, b, locOpts);
-      const pt = loc.point;
-      const p = pt.y[n];
-      const x = Array.from(pt.y.subarray(0, n));
-      if (!loc.converged && loc.parameterBracket >= 1e-10) {
-        diagnostics.push({ level: 'warning', code: 'locate-not-converged', message: `${kind} test function: location stopped with a parameter bracket of ${loc.parameterBracket.toExponential(2)}${loc.interpolated ? ' (zero interpolated inside it)' : ''}`, branch: id, p });
-      }
-      const eig = Array.from(pt.spectrum.re, (re, i) => ({ re, im: pt.spectrum.im[i] }));
-      const common = { iterations: loc.iterations, parameterBracket: loc.parameterBracket, testValue: loc.value, interpolated: loc.interpolated, eigenvalues: eig };
-      if (kind === 'fold') {
-        const zeros = nearZeroCount(pt.spectrum);
-        const draft: SpecialPointDraft = {
-          type: zeros >= 2 ? 'degenerate' : 'saddle-node',
-          p,
-          x,
+      const handleMultipleCrossing = (a: TracedPoint, b: TracedPoint) => {
+        const loc = locateCountChange(system, a, b, locOpts);
+        const pt = loc.point;
+        const k = Math.abs(b.unstable - a.unstable);
+        registry.add({
+          type: 'degenerate',
+          p: pt.y[n],
+          x: Array.from(pt.y.subarray(0, n)),
           branches: new Set([id]),
-          evidence: { kind: 'fold', reason: 'the parameter component of the branch tangent changes sign', tangentP: pt.t[n], zeroEigenvalues: zeros, ...common },
-          ...(zeros >= 2 ? { note: `fold with ${zeros} eigenvalues near zero (double-zero eigenvalue: a fold meeting a Hopf or another fold)` } : {}),
-        };
-        registry.add(draft);
+          evidence: {
+            kind: 'multiple-zero',
+            reason: `the unstable count changes by ${k} (${a.unstable} -> ${b.unstable}) with no sign change of the Hopf test: ${k} real eigenvalues cross zero together`,
+            parameterBracket: loc.parameterBracket,
+            iterations: loc.iterations,
+            eigenvalues: Array.from(pt.spectrum.re, (re, i) => ({ re, im: pt.spectrum.im[i] })),
+          },
+          note: `${k} eigenvalues cross zero together (a multiple zero eigenvalue, typical of symmetric networks): several branches may meet here; the branch-point test does not change sign, so no branch switching was attempted`,
+        });
         inserts.push({ after: a, point: pt });
-        return;
-      }
-      if (kind === 'hopf') {
-        const c = pt.hopf.critical;
-        const scale = spectralScale(pt.spectrum);
-        if (c && c.kind === 'complex-pair' && c.im > 1e-6 * scale) {
-          registry.add({
-            type: 'hopf',
+      };
+
+      const handleSignChange = (kind: TestFunctionKind, a: TracedPoint, b: TracedPoint, foldToo: boolean) => {
+        // A branch that bends back at a branch point (a pitchfork's parabola) has t_p = 0 exactly there,
+        // and t_p is a well-conditioned test function along it, unlike det near the singular point.
+        const locKind: TestFunctionKind = kind === 'branch' && foldToo ? 'fold' : kind;
+        const loc = locateZero(system, locKind, a, b, locOpts);
+        const pt = loc.point;
+        const p = pt.y[n];
+        const x = Array.from(pt.y.subarray(0, n));
+        if (!loc.converged && loc.parameterBracket >= 1e-10) {
+          diagnostics.push({ level: 'warning', code: 'locate-not-converged', message: `${kind} test function: location stopped with a parameter bracket of ${loc.parameterBracket.toExponential(2)}${loc.interpolated ? ' (zero interpolated inside it)' : ''}`, branch: id, p });
+        }
+        const eig = Array.from(pt.spectrum.re, (re, i) => ({ re, im: pt.spectrum.im[i] }));
+        const common = { iterations: loc.iterations, parameterBracket: loc.parameterBracket, testValue: loc.value, interpolated: loc.interpolated, eigenvalues: eig };
+        if (kind === 'fold') {
+          const zeros = nearZeroCount(pt.spectrum);
+          const draft: SpecialPointDraft = {
+            type: zeros >= 2 ? 'degenerate' : 'saddle-node',
             p,
             x,
             branches: new Set([id]),
-            frequency: c.im,
-            evidence: { kind: 'hopf', reason: 'a complex-conjugate pair of eigenvalues crosses the imaginary axis', criticalRe: c.re, criticalIm: c.im, ...common },
-          });
+            evidence: { kind: 'fold', reason: 'the parameter component of the branch tangent changes sign', tangentP: pt.t[n], zeroEigenvalues: zeros, ...common },
+            ...(zeros >= 2 ? { note: `fold with ${zeros} eigenvalues near zero (double-zero eigenvalue: a fold meeting a Hopf or another fold)` } : {}),
+          };
+          registry.add(draft);
           inserts.push({ after: a, point: pt });
-        } else {
-          neutralSaddles++;
-        }
-        return;
-      }
-      // Branch point.
-      const known = registry.findBranchPoint(p, x);
-      if (known) {
-        known.branches.add(id);
-        // Keep the better-conditioned location: converged, narrower bracket, not interpolated.
-        const ke = known.evidence as { parameterBracket?: number; interpolated?: boolean; converged?: boolean };
-        const better = loc.converged && (!ke.converged || (ke.interpolated && !loc.interpolated) || (!!ke.interpolated === loc.interpolated && loc.parameterBracket < (ke.parameterBracket ?? Infinity)));
-        if (better) {
-          known.p = p;
-          known.x = x;
-          Object.assign(known.evidence, { ...common, converged: loc.converged, locatedOn: id, locatedBy: locKind });
-        }
-        inserts.push({ after: a, point: pt });
-        return;
-      }
-      const sw = switchAtBranchPoint(system, pt.y, pt.t, { probeStep: s.switchStep * width });
-      const draft: SpecialPointDraft = {
-        type: sw.classification,
-        p,
-        x,
-        branches: new Set([id]),
-        evidence: {
-          kind: 'branch-point',
-          reason: sw.reason,
-          singularValues: sw.singularValues.slice(0, 3),
-          crossingVelocity: sw.crossing.velocity,
-          tracedVelocity: sw.traced.velocity,
-          crossingOddEven: [sw.crossing.odd, sw.crossing.even],
-          tracedOddEven: [sw.traced.odd, sw.traced.even],
-          foldTestChanged: foldToo,
-          ...common,
-          converged: loc.converged,
-          locatedOn: id,
-          locatedBy: locKind,
-        },
-        ...(sw.classification === 'degenerate' ? { note: sw.reason } : {}),
-      };
-      registry.add(draft);
-      inserts.push({ after: a, point: pt });
-      if (sw.ok && sw.crossing.plus && sw.crossing.minus) {
-        // Crossing branch already traced (e.g. from its own starting equilibrium): nothing to switch to.
-        const tol = 1e-7 * (1 + normInf(pt.y)) + 0.05 * copts.maxStep;
-        const onPlus = index.findParallel(sw.crossing.plus, sw.plusTangent ?? sw.across, tol, () => false);
-        const onMinus = index.findParallel(sw.crossing.minus, sw.minusTangent ?? sw.across, tol, () => false);
-        if (onPlus && onMinus) {
-          draft.branches.add(branchId(index.lists[onPlus.list].branch));
-          draft.branches.add(branchId(index.lists[onMinus.list].branch));
           return;
         }
-      }
-      if (!sw.ok) {
-        diagnostics.push({ level: 'warning', code: 'switch-failed', message: `branch point found but the crossing branch could not be computed: ${sw.reason}`, branch: id, p });
-        return;
-      }
-      tasks.push({ kind: 'switch', from: id, draft, yStar: pt.y, across: sw.across, plus: sw.crossing.plus, minus: sw.crossing.minus, plusT: sw.plusTangent, minusT: sw.minusTangent, plusDet: sw.plusDet, minusDet: sw.minusDet });
-    };
-
-    const runDirection = (y: Float64Array, t: Float64Array, det: number): { points: TracedPoint[]; end: DirectionEnd; inserts: Insert[] } => {
-      const list = index.addList(bIndex);
-      inserts = [];
-      const startY = y;
-      const mergeTol = (a: TracedPoint, b: TracedPoint) => 1e-7 * (1 + normInf(b.y)) + 0.05 * dist2(a.y, b.y);
-      let prev: TracedPoint | null = null;
-      let lastPushed: TracedPoint | null = null;
-      const r = continueBranch(system, y, t, det, copts, {
-        onStep: (a, b) => {
-          prev = a;
-          onStep(a, b);
-          // Once its step is examined, a point's spectrum is needed again only when eigenvalues are
-          // stored: dropping it here keeps the points of the branch being traced small (they live
-          // until the branch ends, so they outlast the young generation; garbage collection was
-          // ~30 % of the 6-node trace, docs/numerics.md §11). Located points keep theirs.
-          if (!s.storeEigenvalues) releaseSpectrum(a);
-        },
-        stopAt: (b, idx, arc) => {
-          const a = prev!;
-          if (idx === 1) index.push(list, a);
-          index.push(list, b);
-          lastPushed = b;
-          const tol = mergeTol(a, b);
-          const hit = index.findParallel(b.y, b.t, tol, (l) => l === list || (index.lists[l].branch === bIndex && arc < 4 * copts.maxStep));
-          if (hit) return index.lists[hit.list].branch === bIndex ? 'closed-loop' : 'merged';
-          if (idx > 10 && arc > 4 * copts.maxStep && dist2(b.y, startY) < Math.max(tol, 0.5 * dist2(a.y, b.y))) return 'closed-loop';
-          return null;
-        },
-        isCancelled,
-      });
-      // Points the hook did not see (the start of a one-point direction, the end on a sweep bound).
-      const last = r.points[r.points.length - 1];
-      if (lastPushed === null) for (const q of r.points) index.push(list, q);
-      else if (last !== lastPushed) index.push(list, last);
-      return { points: r.points, end: r.end, inserts };
-    };
-
-    let plusPts: TracedPoint[] = [];
-    let minusPts: TracedPoint[] = [];
-    let ends: [BranchEnd, BranchEnd] = ['sweep-bound', 'sweep-bound'];
-    let origin: Branch['origin'];
-    let ordered: TracedPoint[] = [];
-    try {
-      if (task.kind === 'start') {
-        if (index.hasPoint(task.y, 1e-6 * (1 + normInf(task.y)))) {
-          done++;
-          continue;
+        if (kind === 'hopf') {
+          const c = pt.hopf.critical;
+          const scale = spectralScale(pt.spectrum);
+          if (c && c.kind === 'complex-pair' && c.im > 1e-6 * scale) {
+            registry.add({
+              type: 'hopf',
+              p,
+              x,
+              branches: new Set([id]),
+              frequency: c.im,
+              evidence: { kind: 'hopf', reason: 'a complex-conjugate pair of eigenvalues crosses the imaginary axis', criticalRe: c.re, criticalIm: c.im, ...common },
+            });
+            inserts.push({ after: a, point: pt });
+          } else {
+            neutralSaddles++;
+          }
+          return;
         }
-        origin = { kind: 'start' };
-        const ns = nullSpace(system, task.y, ws);
-        if (ns.vectors.length === 0) {
-          diagnostics.push({ level: 'warning', code: 'start-non-finite', message: `Jacobian not finite at a starting equilibrium`, p: s.from });
-          done++;
-          continue;
+        // Branch point.
+        const known = registry.findBranchPoint(p, x);
+        if (known) {
+          known.branches.add(id);
+          // Keep the better-conditioned location: converged, narrower bracket, not interpolated.
+          const ke = known.evidence as { parameterBracket?: number; interpolated?: boolean; converged?: boolean };
+          const better = loc.converged && (!ke.converged || (ke.interpolated && !loc.interpolated) || (!!ke.interpolated === loc.interpolated && loc.parameterBracket < (ke.parameterBracket ?? Infinity)));
+          if (better) {
+            known.p = p;
+            known.x = x;
+            Object.assign(known.evidence, { ...common, converged: loc.converged, locatedOn: id, locatedBy: locKind });
+          }
+          inserts.push({ after: a, point: pt });
+          return;
         }
-        let v = ns.vectors[0];
-        const smax = ns.singularValues[ns.singularValues.length - 1] || 1;
-        if (ns.singularValues.length >= 2 && ns.singularValues[1] < 1e-8 * smax) {
-          diagnostics.push({ level: 'warning', code: 'singular-start', message: `starting equilibrium x = [${fmt(task.y.subarray(0, n))}] is a branch point (two-dimensional null space of [J_x | F_p]); traced along one direction only`, p: s.from });
-        }
-        const dir = s.to >= s.from ? 1 : -1;
-        if (v[n] * dir < 0 || (v[n] === 0 && false)) v = v.map((q) => -q);
-        const tan = tangentAt(system, task.y, v, ws);
-        const t0 = tan.ok ? tan.tangent : v;
-        const sp = pointData(system, task.y, t0, tan.determinant, ws);
-        if (nearZeroCount(sp.spectrum, 1e-9) > 0) {
-          diagnostics.push({ level: 'info', code: 'singular-start', message: `J_x is singular at the starting equilibrium x = [${fmt(task.y.subarray(0, n))}] (a special point sits on the sweep bound; it is not reported)`, p: s.from });
-        }
-        const fw = runDirection(task.y, t0, tan.determinant);
-        const bw = runDirection(task.y, t0.map((q) => -q), -tan.determinant);
-        ends = [bw.end === 'cancelled' ? 'point-cap' : bw.end, fw.end === 'cancelled' ? 'point-cap' : fw.end];
-        ordered = withInserts(bw.points, bw.inserts).reverse().slice(0, -1).concat(withInserts(fw.points, fw.inserts));
-      } else {
-        if (task.plus && task.minus) {
-          // Traced meanwhile from a starting equilibrium? Then the branch point just gains that branch.
-          const tol = 1e-7 * (1 + normInf(task.yStar)) + 0.05 * copts.maxStep;
-          const onPlus = index.findParallel(task.plus, task.plusT ?? task.across, tol, () => false);
-          const onMinus = index.findParallel(task.minus, task.minusT ?? task.across, tol, () => false);
+        const sw = switchAtBranchPoint(system, pt.y, pt.t, { probeStep: s.switchStep * width });
+        const draft: SpecialPointDraft = {
+          type: sw.classification,
+          p,
+          x,
+          branches: new Set([id]),
+          evidence: {
+            kind: 'branch-point',
+            reason: sw.reason,
+            singularValues: sw.singularValues.slice(0, 3),
+            crossingVelocity: sw.crossing.velocity,
+            tracedVelocity: sw.traced.velocity,
+            crossingOddEven: [sw.crossing.odd, sw.crossing.even],
+            tracedOddEven: [sw.traced.odd, sw.traced.even],
+            foldTestChanged: foldToo,
+            ...common,
+            converged: loc.converged,
+            locatedOn: id,
+            locatedBy: locKind,
+          },
+          ...(sw.classification === 'degenerate' ? { note: sw.reason } : {}),
+        };
+        registry.add(draft);
+        inserts.push({ after: a, point: pt });
+        if (sw.ok && sw.crossing.plus && sw.crossing.minus) {
+          // Crossing branch already traced (e.g. from its own starting equilibrium): nothing to switch to.
+          const tol = 1e-7 * (1 + normInf(pt.y)) + 0.05 * copts.maxStep;
+          const onPlus = index.findParallel(sw.crossing.plus, sw.plusTangent ?? sw.across, tol, () => false);
+          const onMinus = index.findParallel(sw.crossing.minus, sw.minusTangent ?? sw.across, tol, () => false);
           if (onPlus && onMinus) {
-            task.draft.branches.add(branchId(index.lists[onPlus.list].branch));
-            task.draft.branches.add(branchId(index.lists[onMinus.list].branch));
+            draft.branches.add(branchId(index.lists[onPlus.list].branch));
+            draft.branches.add(branchId(index.lists[onMinus.list].branch));
+            return;
+          }
+        }
+        if (!sw.ok) {
+          diagnostics.push({ level: 'warning', code: 'switch-failed', message: `branch point found but the crossing branch could not be computed: ${sw.reason}`, branch: id, p });
+          return;
+        }
+        tasks.push({ kind: 'switch', from: id, draft, yStar: pt.y, across: sw.across, plus: sw.crossing.plus, minus: sw.crossing.minus, plusT: sw.plusTangent, minusT: sw.minusTangent, plusDet: sw.plusDet, minusDet: sw.minusDet });
+      };
+
+      const runDirection = (y: Float64Array, t: Float64Array, det: number): { points: TracedPoint[]; end: DirectionEnd; inserts: Insert[] } => {
+        const list = index.addList(bIndex);
+        inserts = [];
+        const startY = y;
+        const mergeTol = (a: TracedPoint, b: TracedPoint) => 1e-7 * (1 + normInf(b.y)) + 0.05 * dist2(a.y, b.y);
+        let prev: TracedPoint | null = null;
+        let lastPushed: TracedPoint | null = null;
+        const r = continueBranch(system, y, t, det, copts, {
+          onStep: (a, b) => {
+            prev = a;
+            onStep(a, b);
+            // Once its step is examined, a point's spectrum is needed again only when eigenvalues are
+            // stored: dropping it here keeps the points of the branch being traced small (they live
+            // until the branch ends, so they outlast the young generation; garbage collection was
+            // ~30 % of the 6-node trace, docs/numerics.md §11). Located points keep theirs.
+            if (!s.storeEigenvalues) releaseSpectrum(a);
+          },
+          stopAt: (b, idx, arc) => {
+            const a = prev!;
+            if (idx === 1) index.push(list, a);
+            index.push(list, b);
+            lastPushed = b;
+            const tol = mergeTol(a, b);
+            const hit = index.findParallel(b.y, b.t, tol, (l) => l === list || (index.lists[l].branch === bIndex && arc < 4 * copts.maxStep));
+            if (hit) return index.lists[hit.list].branch === bIndex ? 'closed-loop' : 'merged';
+            if (idx > 10 && arc > 4 * copts.maxStep && dist2(b.y, startY) < Math.max(tol, 0.5 * dist2(a.y, b.y))) return 'closed-loop';
+            return null;
+          },
+          isCancelled,
+        });
+        // Points the hook did not see (the start of a one-point direction, the end on a sweep bound).
+        const last = r.points[r.points.length - 1];
+        if (lastPushed === null) for (const q of r.points) index.push(list, q);
+        else if (last !== lastPushed) index.push(list, last);
+        return { points: r.points, end: r.end, inserts };
+      };
+
+      let plusPts: TracedPoint[] = [];
+      let minusPts: TracedPoint[] = [];
+      let ends: [BranchEnd, BranchEnd] = ['sweep-bound', 'sweep-bound'];
+      let origin: Branch['origin'];
+      let ordered: TracedPoint[] = [];
+      try {
+        if (task.kind === 'start') {
+          if (index.hasPoint(task.y, 1e-6 * (1 + normInf(task.y)))) {
             done++;
             continue;
           }
+          origin = { kind: 'start' };
+          const ns = nullSpace(system, task.y, ws);
+          if (ns.vectors.length === 0) {
+            diagnostics.push({ level: 'warning', code: 'start-non-finite', message: `Jacobian not finite at a starting equilibrium`, p: s.from });
+            done++;
+            continue;
+          }
+          let v = ns.vectors[0];
+          const smax = ns.singularValues[ns.singularValues.length - 1] || 1;
+          if (ns.singularValues.length >= 2 && ns.singularValues[1] < 1e-8 * smax) {
+            diagnostics.push({ level: 'warning', code: 'singular-start', message: `starting equilibrium x = [${fmt(task.y.subarray(0, n))}] is a branch point (two-dimensional null space of [J_x | F_p]); traced along one direction only`, p: s.from });
+          }
+          const dir = s.to >= s.from ? 1 : -1;
+          if (v[n] * dir < 0 || (v[n] === 0 && false)) v = v.map((q) => -q);
+          const tan = tangentAt(system, task.y, v, ws);
+          const t0 = tan.ok ? tan.tangent : v;
+          const sp = pointData(system, task.y, t0, tan.determinant, ws);
+          if (nearZeroCount(sp.spectrum, 1e-9) > 0) {
+            diagnostics.push({ level: 'info', code: 'singular-start', message: `J_x is singular at the starting equilibrium x = [${fmt(task.y.subarray(0, n))}] (a special point sits on the sweep bound; it is not reported)`, p: s.from });
+          }
+          const fw = runDirection(task.y, t0, tan.determinant);
+          const bw = runDirection(task.y, t0.map((q) => -q), -tan.determinant);
+          ends = [bw.end === 'cancelled' ? 'point-cap' : bw.end, fw.end === 'cancelled' ? 'point-cap' : fw.end];
+          ordered = withInserts(bw.points, bw.inserts).reverse().slice(0, -1).concat(withInserts(fw.points, fw.inserts));
+        } else {
+          if (task.plus && task.minus) {
+            // Traced meanwhile from a starting equilibrium? Then the branch point just gains that branch.
+            const tol = 1e-7 * (1 + normInf(task.yStar)) + 0.05 * copts.maxStep;
+            const onPlus = index.findParallel(task.plus, task.plusT ?? task.across, tol, () => false);
+            const onMinus = index.findParallel(task.minus, task.minusT ?? task.across, tol, () => false);
+            if (onPlus && onMinus) {
+              task.draft.branches.add(branchId(index.lists[onPlus.list].branch));
+              task.draft.branches.add(branchId(index.lists[onMinus.list].branch));
+              done++;
+              continue;
+            }
+          }
+          origin = { kind: 'switch', from: task.from };
+          task.draft.branches.add(id);
+          const star = pointData(system, task.yStar, task.across, Number.NaN, ws);
+          let fEnd: DirectionEnd = 'newton-failure';
+          let bEnd: DirectionEnd = 'newton-failure';
+          if (task.plus && task.plusT) {
+            const fw = runDirection(task.plus, task.plusT, task.plusDet);
+            plusPts = withInserts(fw.points, fw.inserts);
+            fEnd = fw.end;
+          }
+          if (task.minus && task.minusT) {
+            const bw = runDirection(task.minus, task.minusT, task.minusDet);
+            minusPts = withInserts(bw.points, bw.inserts);
+            bEnd = bw.end;
+          }
+          ends = [bEnd === 'cancelled' ? 'point-cap' : bEnd, fEnd === 'cancelled' ? 'point-cap' : fEnd];
+          ordered = minusPts.reverse().concat([star], plusPts);
         }
-        origin = { kind: 'switch', from: task.from };
-        task.draft.branches.add(id);
-        const star = pointData(system, task.yStar, task.across, Number.NaN, ws);
-        let fEnd: DirectionEnd = 'newton-failure';
-        let bEnd: DirectionEnd = 'newton-failure';
-        if (task.plus && task.plusT) {
-          const fw = runDirection(task.plus, task.plusT, task.plusDet);
-          plusPts = withInserts(fw.points, fw.inserts);
-          fEnd = fw.end;
-        }
-        if (task.minus && task.minusT) {
-          const bw = runDirection(task.minus, task.minusT, task.minusDet);
-          minusPts = withInserts(bw.points, bw.inserts);
-          bEnd = bw.end;
-        }
-        ends = [bEnd === 'cancelled' ? 'point-cap' : bEnd, fEnd === 'cancelled' ? 'point-cap' : fEnd];
-        ordered = minusPts.reverse().concat([star], plusPts);
+      } catch (e) {
+        diagnostics.push({ level: 'error', code: 'branch-failed', message: `tracing stopped by an unexpected error: ${errorText(e)}`, branch: id });
+        done++;
+        continue;
       }
-    } catch (e) {
-      diagnostics.push({ level: 'error', code: 'branch-failed', message: `tracing stopped by an unexpected error: ${errorText(e)}`, branch: id });
+      branches.push({
+        id,
+        points: ordered.map((q) => toBranchPoint(q, n, s.storeEigenvalues)),
+        origin: origin!,
+        ends,
+      });
+      for (const e of ends) {
+        if (e === 'step-collapse' || e === 'newton-failure' || e === 'point-cap' || e === 'state-bound') {
+          const msg: Record<string, string> = {
+            'step-collapse': 'the step size fell below the minimum (the branch may end in a singularity or leave the domain of the rates)',
+            'newton-failure': 'the corrector failed repeatedly',
+            'point-cap': `the point cap was reached (${copts.maxPoints} points per direction, maxPointsPerBranch = ${s.maxPointsPerBranch})`,
+            'state-bound': `the state left the box |x| <= ${s.stateBound}`,
+          };
+          if (!cancelled) diagnostics.push({ level: 'warning', code: e, message: `branch ${id} stopped: ${msg[e]}`, branch: id });
+        }
+      }
       done++;
-      continue;
+      progress(frac(0), `traced branch ${id}`);
     }
-    branches.push({
-      id,
-      points: ordered.map((q) => toBranchPoint(q, n, s.storeEigenvalues)),
-      origin: origin!,
-      ends,
-    });
-    for (const e of ends) {
-      if (e === 'step-collapse' || e === 'newton-failure' || e === 'point-cap' || e === 'state-bound') {
-        const msg: Record<string, string> = {
-          'step-collapse': 'the step size fell below the minimum (the branch may end in a singularity or leave the domain of the rates)',
-          'newton-failure': 'the corrector failed repeatedly',
-          'point-cap': `the point cap was reached (${copts.maxPoints} points per direction, maxPointsPerBranch = ${s.maxPointsPerBranch})`,
-          'state-bound': `the state left the box |x| <= ${s.stateBound}`,
-        };
-        if (!cancelled) diagnostics.push({ level: 'warning', code: e, message: `branch ${id} stopped: ${msg[e]}`, branch: id });
-      }
+    // Restricted starts: grow the set from the start state's escape graph (docs/numerics.md §12).
+    if (!restriction || growth.stoppedBy === 'off') break;
+    if (branchCapHit) { growth.stoppedBy = 'branch-cap'; break; }
+    if (cancelled || isCancelled()) { growth.stoppedBy = 'cancelled'; break; }
+    if (tasks.length > 0) break;
+    if (growth.rounds >= 3) { growth.stoppedBy = 'round-cap'; break; }
+    const room = Math.min(s.startBudget, s.maxStartingPoints) - starts.points.length - growth.states;
+    const left = s.growthIntegrations - growth.integrations;
+    if (room <= 0) { growth.stoppedBy = 'start-budget'; break; }
+    if (left <= 0) { growth.stoppedBy = 'integration-cap'; break; }
+    progress(done / (done + 1), 'following the start state\'s escape graph');
+    let round;
+    try {
+      round = growthRound(system, result(), {
+        from: s.from,
+        to: s.to,
+        values: s.growthValues,
+        integrations: left,
+        maxStates: room,
+        isTraced: (x, p) => {
+          const y = new Float64Array(n + 1);
+          y.set(x);
+          y[n] = p;
+          return index.hasPoint(y, 1e-6 * (1 + normInf(y)));
+        },
+        isCancelled,
+      });
+    } catch (e) {
+      diagnostics.push({ level: 'warning', code: 'growth-failed', message: `following the start state's escape graph stopped by an unexpected error: ${errorText(e)}` });
+      growth.stoppedBy = 'failed';
+      break;
     }
-    done++;
-    progress(frac(0), `traced branch ${id}`);
-  }
-  // Restricted starts: grow the set from the start state's escape graph (docs/numerics.md §12).
-  if (!restriction || growth.stoppedBy === 'off') break;
-  if (branchCapHit) { growth.stoppedBy = 'branch-cap'; break; }
-  if (cancelled || isCancelled()) { growth.stoppedBy = 'cancelled'; break; }
-  if (tasks.length > 0) break;
-  if (growth.rounds >= 3) { growth.stoppedBy = 'round-cap'; break; }
-  const room = Math.min(s.startBudget, s.maxStartingPoints) - starts.points.length - growth.states;
-  const left = s.growthIntegrations - growth.integrations;
-  if (room <= 0) { growth.stoppedBy = 'start-budget'; break; }
-  if (left <= 0) { growth.stoppedBy = 'integration-cap'; break; }
-  progress(done / (done + 1), 'following the start state\'s escape graph');
-  let round;
-  try {
-    round = growthRound(system, result(), {
-      from: s.from,
-      to: s.to,
-      values: s.growthValues,
-      integrations: left,
-      maxStates: room,
-      isTraced: (x, p) => {
-        const y = new Float64Array(n + 1);
-        y.set(x);
-        y[n] = p;
-        return index.hasPoint(y, 1e-6 * (1 + normInf(y)));
-      },
-      isCancelled,
-    });
-  } catch (e) {
-    diagnostics.push({ level: 'warning', code: 'growth-failed', message: `following the start state's escape graph stopped by an unexpected error: ${errorText(e)}` });
-    growth.stoppedBy = 'nothing-new';
-    break;
-  }
-  growth.rounds++;
-  growth.values = Math.max(growth.values, round.values);
-  growth.integrations += round.integrations;
-  growth.states += round.found.length;
-  for (const f of round.found) {
-    const y = new Float64Array(n + 1);
-    y.set(f.x);
-    y[n] = f.p;
-    tasks.push({ kind: 'start', y });
-  }
-  if (round.found.length > 0) {
-    diagnostics.push({ level: 'info', code: 'start-grown', message: `the start state's escape graph reached ${round.found.length} stable state${round.found.length === 1 ? '' : 's'} no traced branch passed through (at ${system.parameter} = ${[...new Set(round.found.map((f) => fmt([f.p])))].join(', ')}); ${round.found.length === 1 ? 'its branch was' : 'their branches were'} traced too` });
-  }
-  if (round.stoppedBy !== 'found') {
-    growth.stoppedBy = round.stoppedBy;
-    if (round.found.length === 0) break;
-  }
+    growth.rounds++;
+    growth.values = Math.max(growth.values, round.values);
+    growth.integrations += round.integrations;
+    growth.states += round.found.length;
+    for (const f of round.found) {
+      const y = new Float64Array(n + 1);
+      y.set(f.x);
+      y[n] = f.p;
+      tasks.push({ kind: 'start', y });
+    }
+    if (round.found.length > 0) {
+      diagnostics.push({ level: 'info', code: 'start-grown', message: `the start state's escape graph reached ${round.found.length} stable state${round.found.length === 1 ? '' : 's'} no traced branch passed through (at ${system.parameter} = ${[...new Set(round.found.map((f) => fmt([f.p])))].join(', ')}); ${round.found.length === 1 ? 'its branch was' : 'their branches were'} traced too` });
+    }
+    if (round.stoppedBy !== 'found') {
+      growth.stoppedBy = round.stoppedBy;
+      if (round.found.length === 0) break;
+    }
   }
   if (restriction) {
     coverage = coverageOf(restriction, starts.points.length, s.startBudget, growth, untracedStarts, system.parameter);
@@ -497,6 +497,7 @@ function coverageOf(r: StartRestriction, startCount: number, budget: number, gro
     'not-bistable': 'not every element is bistable, so there is no start state',
     'no-start-state': 'no all-base stable state was found',
     cancelled: 'the trace was cancelled',
+    failed: 'an unexpected error stopped it (growth-failed)',
     off: 'growth is off',
   };
   if (grown.stoppedBy === 'off') text += '; the start state\'s escape graph was not followed (growthIntegrations 0)';

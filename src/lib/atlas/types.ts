@@ -73,7 +73,7 @@ export interface StartCoverage {
   /** The start budget (TraceSettings.startBudget). */
   readonly budget: number;
   /** Growth from the start state's escape graph: parameter values examined, stable states added, integrations, whether a cap stopped it. */
-  readonly grown: { readonly values: number; readonly states: number; readonly integrations: number; readonly rounds: number; readonly stoppedBy: 'nothing-new' | 'start-budget' | 'integration-cap' | 'round-cap' | 'branch-cap' | 'not-bistable' | 'no-start-state' | 'cancelled' | 'off' };
+  readonly grown: { readonly values: number; readonly states: number; readonly integrations: number; readonly rounds: number; readonly stoppedBy: 'nothing-new' | 'start-budget' | 'integration-cap' | 'round-cap' | 'branch-cap' | 'not-bistable' | 'no-start-state' | 'cancelled' | 'failed' | 'off' };
   /** Starts not traced because the branch cap (maxBranches) stopped the trace. */
   readonly untraced: number;
   /** The plain statement, e.g. "branches through patterns with at most 2 nodes off base (…): 822 of 3^20 patterns; …". */
