@@ -27,7 +27,7 @@ beforeAll(async () => {
   page = await context.newPage();
   page.on('pageerror', (e) => console.error('[compare page error]', e.message));
   await signIn(page, demoAccount('modeler').email, demoAccount('modeler').password);
-  const runs = (await (await page.request.get(`${BASE_URL}/api/runs?status=done`)).json()) as { items: { id: number; modelName: string }[] };
+  const runs = (await (await page.request.get(`${BASE_URL}/api/runs?status=done&kind=trace`)).json()) as { items: { id: number; modelName: string }[] };
   // One finished run per seeded variant ("Fenn lakes: ...", invented demo data), in seed order.
   const seen = new Set<string>();
   for (const r of [...runs.items].sort((a, b) => a.id - b.id)) {

@@ -220,7 +220,7 @@ describe('the same model as the demo reviewer', () => {
     await hydrated(page);
     expect(await page.getByTestId('review-comments').textContent()).toContain('where the loading values come from');
     await shootBothThemes(page, 'reviews-modeler');
-    const runs = await page.request.get(`${BASE_URL}/api/runs?status=done`);
+    const runs = await page.request.get(`${BASE_URL}/api/runs?status=done&kind=trace`);
     // Two variants: the latest finished runs of two different models.
     const items = ((await runs.json()) as { items: { id: number; modelId: number }[] }).items;
     const ids = items.filter((r, k) => items.findIndex((q) => q.modelId === r.modelId) === k).map((r) => r.id).slice(0, 2);

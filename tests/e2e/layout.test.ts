@@ -38,7 +38,7 @@ const frame = (page: Page) => page.evaluate(() => {
 });
 
 async function paths(page: Page): Promise<Record<string, string>> {
-  const runs = ((await (await page.request.get(`${BASE_URL}/api/runs?status=done`)).json()) as { items: { id: number; modelId: number }[] }).items;
+  const runs = ((await (await page.request.get(`${BASE_URL}/api/runs?status=done&kind=trace`)).json()) as { items: { id: number; modelId: number }[] }).items;
   expect(runs.length).toBeGreaterThanOrEqual(2);
   return {
     home: '/', models: '/models', model: `/models/${runs[0].modelId}`, edit: `/models/${runs[0].modelId}/edit`, 'new-model': '/models/new',
@@ -151,7 +151,7 @@ const looks = (page: Page, selector: string, pseudo?: string) => page.evaluate((
 describe('styled controls', () => {
   it('the file pickers (model import, adjacency CSV) use the quiet-button border, radius and theme colours', async () => {
     const { context, page } = await signedIn('modeler', 1280);
-    const runs = ((await (await page.request.get(`${BASE_URL}/api/runs?status=done`)).json()) as { items: { modelId: number }[] }).items;
+    const runs = ((await (await page.request.get(`${BASE_URL}/api/runs?status=done&kind=trace`)).json()) as { items: { modelId: number }[] }).items;
     for (const [path, id] of [['/models', '#import-file'], [`/models/${runs[0].modelId}/edit`, '#ed-csv']] as const) {
       await page.goto(BASE_URL + path);
       await hydrated(page);
@@ -177,7 +177,7 @@ describe('styled controls', () => {
 
   it('"Mark resolved" is a quiet button in both themes; it resolves the comment and its state label follows, Reopen undoes it', async () => {
     const reviewer = await signedIn('reviewer', 1280);
-    const runs = ((await (await reviewer.page.request.get(`${BASE_URL}/api/runs?status=done`)).json()) as { items: { id: number }[] }).items;
+    const runs = ((await (await reviewer.page.request.get(`${BASE_URL}/api/runs?status=done&kind=trace`)).json()) as { items: { id: number }[] }).items;
     const body = `Layout e2e: please check ${Date.now().toString(36)}`;
     const created = await reviewer.page.request.post(`${BASE_URL}/api/runs/${runs[0].id}/comments`, { data: { body }, headers: { origin: BASE_URL } });
     expect(created.status()).toBe(201);

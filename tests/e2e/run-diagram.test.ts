@@ -78,7 +78,7 @@ describe('a seeded demo run page, as the demo modeler', () => {
   let page: Page;
   beforeAll(async () => {
     ({ context, page } = await signedIn('modeler'));
-    const runs = await page.request.get(`${BASE_URL}/api/runs?status=done`);
+    const runs = await page.request.get(`${BASE_URL}/api/runs?status=done&kind=trace`);
     expect(runs.status()).toBe(200);
     const items = ((await runs.json()) as { items: { id: number; modelName: string }[] }).items;
     // The seed's variants are named "Fenn lakes: ..." (invented demo data); take the one with the most special points.
