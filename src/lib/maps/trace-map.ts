@@ -223,6 +223,17 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
       if (t.curve.type === 'saddle-node' && !q.curves.includes(t.curve.id) && onTraced([t], 'saddle-node', q.x, q.p[0], q.p[1])) q.curves.push(t.curve.id);
     }
   }
+  // A cusp at the same place as a Bogdanov-Takens point is not a cusp: at a double zero the cusp test
+  // p.B(v,v)/2 and the test p.v can vanish together (e.g. a triangular Jacobian, where both carry the
+  // same factor); a2 = (p.B/2)/(p.v) is then 0/0. The cusp is dropped and the point says so.
+  for (let i = points.length - 1; i >= 0; i--) {
+    const q = points[i];
+    if (q.type !== 'cusp') continue;
+    const bt = points.find((o) => o.type === 'bogdanov-takens' && Math.max(Math.abs(o.p[0] - q.p[0]), Math.abs(o.p[1] - q.p[1])) < 1e-6 * (1 + Math.abs(q.p[0]) + Math.abs(q.p[1])) && o.x.every((v, k) => Math.abs(v - q.x[k]) < 1e-5));
+    if (!bt) continue;
+    (bt.evidence as Record<string, unknown>).cuspTestAlsoVanishes = q.evidence;
+    points.splice(i, 1);
+  }
   // A double zero eigenvalue with no Hopf curve ending there: the generic Bogdanov-Takens unfolding
   // (Kuznetsov §8.4) has one; without it the point may be degenerate (e.g. two folds of a one-way
   // chain, whose triangular Jacobian has only real eigenvalues) or its Hopf curve was not seeded.

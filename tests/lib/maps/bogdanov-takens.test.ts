@@ -54,3 +54,34 @@ for (const s of [-1, 1]) {
     });
   });
 }
+
+/**
+ * A double zero eigenvalue without a Hopf curve: the one-way cubic pair x1' = r + x1 - x1^3,
+ * x2' = r + x2 - x2^3 + beta (x1 - x2) has the triangular J = [[1 - 3x1^2, 0], [beta, 1 - 3x2^2 - beta]].
+ * Both diagonal entries vanish at x1 = -1/sqrt 3 (the fold of node 1: r = x1^3 - x1 = 2/(3 sqrt 3)),
+ * and 1 - 3x2^2 = beta with r + x2 - x2^3 + beta (x1 - x2) = 0, solved by x2 = 1/(2 sqrt 3), beta = 3/4
+ * (substitute: (1/sqrt 3)(2/3 + 1/2 - 1/24 - 3/4 - 3/8) = 0). There J = [[0, 0], [3/4, 0]], a Jordan
+ * block, but eigenvalues stay real (triangular), so no Hopf curve ends there; on node 2's fold curve
+ * both the Bogdanov-Takens test p.v and the cusp test p.B(v,v) carry the factor 1 - 3x1^2.
+ */
+describe('a degenerate double zero on a one-way pair (derived closed form)', () => {
+  const doc = { format: 'brinkmap/network-1', name: 'one-way cubic pair (invented)', element: { variable: 'x', rate: 'r + x - x^3', parameters: { r: 0.35 } },
+    nodes: [{ id: 'x1' }, { id: 'x2' }], links: [{ from: 'x1', to: 'x2', weight: 1 }], coupling: { parameter: 'beta', value: 0 }, sweep: { parameter: 'beta', from: 0, to: 1 } };
+  const sys = compileTwoParameter(doc, { second: 'r' });
+  const map = traceMap(sys, { secondFrom: 0.3, secondTo: 0.45, regionColumns: 0, regionRows: 0 });
+
+  it('reports one Bogdanov-Takens point at beta = 3/4, r = 2/(3 sqrt 3) with a note, and no cusp there', () => {
+    const bt = map.points.filter((q) => q.type === 'bogdanov-takens');
+    expect(bt).toHaveLength(1);
+    const q = bt[0];
+    expect(Math.abs(q.p[0] - 0.75)).toBeLessThan(1e-9);
+    expect(Math.abs(q.p[1] - 2 / (3 * Math.sqrt(3)))).toBeLessThan(1e-9);
+    expect(Math.abs(q.x[0] + 1 / Math.sqrt(3))).toBeLessThan(1e-9);
+    expect(Math.abs(q.x[1] - 1 / (2 * Math.sqrt(3)))).toBeLessThan(1e-9);
+    expect(q.note).toMatch(/no Hopf curve/);
+    expect(q.evidence.cuspTestAlsoVanishes).toBeDefined();
+    expect(map.points.filter((p) => p.type === 'cusp')).toEqual([]);
+    const j = sys.jacobian(Float64Array.from(q.x), q.p[0], q.p[1], new Float64Array(4));
+    for (const [k, v] of [[0, 0], [1, 0], [2, 0.75], [3, 0]]) expect(Math.abs(j[k] - v)).toBeLessThan(1e-9);
+  });
+});
