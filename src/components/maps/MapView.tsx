@@ -1,0 +1,165 @@
+/**
+ * The map view of a two-parameter map run (docs/maps.md, "Maps in the workspace"): the regime
+ * regions shaded from the curves in the diagram's band palette, the saddle-node, pitchfork and Hopf
+ * curves by line style, the codimension-two points with their own glyphs, the one-parameter diagram
+ * of this model as a horizontal line at the document's value of the second parameter, and a
+ * crosshair that reads out (p1, p2) under the pointer. Hover (or focus) a curve point or a
+ * codimension-two point for its exact stored numbers; click to keep them. The figure is the one the
+ * export writes (lib/plot/map-figure.ts), drawn as SVG in the page's theme.
+ */
+import { useCallback, useEffect, useId, useMemo, useRef, useState } from 'react';
+import type { Prim } from '../../lib/plot/figure';
+import { buildMapFigure, nearestMark, pixelToParameters, type MapFigureInput, type MapMark } from '../../lib/plot/map-figure';
+import type { MapDocumentView } from '../../lib/plot/map-types';
+import type { PlotPalette } from '../../lib/plot/palette';
+import type { Provenance } from '../../lib/plot/provenance';
+import { MONO } from '../../lib/plot/svg';
+import { formatValue } from '../../lib/plot/ticks';
+import { isDarkTheme, readPalette, watchTheme } from '../diagram/theme';
+import { useWidth } from '../diagram/use-width';
+import MapExport from './MapExport';
+import '../diagram/diagram.css';
+import './maps.css';
+
+type Loaded = MapDocumentView & { secondValue?: number };
+
+export interface MapViewProps {
+  readonly runId: number;
+  readonly provenance: Provenance;
+  /** State variable names (node ids or ode variables) for readouts. */
+  readonly variables?: readonly string[];
+}
+
+function PrimNode({ p, clipId }: { p: Prim; clipId: string }) {
+  const clip = p.clip ? `url(#${clipId})` : undefined;
+  const data = Object.fromEntries(Object.entries(p.data ?? {}).map(([k, v]) => [`data-${k}`, v]));
+  switch (p.t) {
+    case 'rect':
+      return <rect x={p.x} y={p.y} width={p.w} height={p.h} fill={p.fill} fillOpacity={p.opacity} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} clipPath={clip} {...data} />;
+    case 'path':
+      return <path d={p.d} fill={p.fill ?? 'none'} fillRule={p.fillRule} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} strokeDasharray={p.dash?.join(' ')} strokeLinecap={p.linecap} strokeLinejoin={p.linecap ? 'round' : undefined} opacity={p.opacity} clipPath={clip} {...data} />;
+    case 'text':
+      return <text x={p.x} y={p.y} fontSize={p.size} fontWeight={p.weight === 600 ? 600 : undefined} fontStyle={p.italic ? 'italic' : undefined} textAnchor={p.anchor} fill={p.fill} fontFamily={p.mono ? MONO : undefined} transform={p.rotate ? `rotate(${p.rotate} ${p.x} ${p.y})` : undefined} clipPath={clip} {...data}>{p.text}</text>;
+  }
+}
+
+export default function MapView(props: MapViewProps) {
+  const [map, setMap] = useState<Loaded | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [palette, setPalette] = useState<{ pal: PlotPalette; dark: boolean } | null>(null);
+  const [hover, setHover] = useState<MapMark | null>(null);
+  const [picked, setPicked] = useState<MapMark | null>(null);
+  const [cursor, setCursor] = useState<{ x: number; y: number } | null>(null);
+  const [wrapRef, width] = useWidth<HTMLDivElement>(720);
+  const rootRef = useRef<HTMLDivElement>(null);
+  const svgRef = useRef<SVGSVGElement>(null);
+  const clipId = `mp-clip-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
+
+  const load = useCallback(async () => {
+    try {
+      const res = await fetch(`/api/runs/${props.runId}/map`, { headers: { Accept: 'application/json' } });
+      if (!res.ok) throw new Error(`the server answered ${res.status}`);
+      setMap((await res.json()) as Loaded);
+      setError(null);
+    } catch (e) {
+      setError(`The map could not be loaded: ${e instanceof Error ? e.message : String(e)}`);
+    }
+  }, [props.runId]);
+  useEffect(() => { void load(); }, [load]);
+
+  useEffect(() => {
+    const read = () => setPalette({ pal: readPalette(rootRef.current), dark: isDarkTheme() });
+    read();
+    const stop = watchTheme(read);
+    window.addEventListener('bm-theme-change', read);
+    return () => { stop(); window.removeEventListener('bm-theme-change', read); };
+  }, []);
+
+  const build = useCallback((o: Pick<MapFigureInput, 'width' | 'palette' | 'caption' | 'provenance'>) => (map ? buildMapFigure({ map, secondValue: map.secondValue, variables: props.variables, ...o }) : null), [map, props.variables]);
+  const screenWidth = Math.max(360, Math.min(width, 960));
+  const fig = useMemo(() => (palette ? build({ width: screenWidth, palette: palette.pal }) : null), [build, palette, screenWidth]);
+
+  const toFigure = (e: React.PointerEvent<SVGSVGElement>) => {
+    const svg = svgRef.current;
+    if (!svg || !fig) return null;
+    const box = svg.getBoundingClientRect();
+    return { x: ((e.clientX - box.left) / box.width) * fig.width, y: ((e.clientY - box.top) / box.height) * fig.height };
+  };
+  const inPlot = (q: { x: number; y: number } | null) => !!(q && fig && q.x >= fig.plot.x && q.x <= fig.plot.x + fig.plot.w && q.y >= fig.plot.y && q.y <= fig.plot.y + fig.plot.h);
+  const onMove = (e: React.PointerEvent<SVGSVGElement>) => {
+    const q = toFigure(e);
+    if (!fig || !q || !inPlot(q)) { setCursor(null); setHover(null); return; }
+    setCursor(q);
+    setHover(nearestMark(fig.marks.filter((m) => m.kind === 'point'), q.x, q.y, 12) ?? nearestMark(fig.probes, q.x, q.y, 10));
+  };
+  const names = map ? [String(map.parameters[0]), String(map.parameters[1])] : ['', ''];
+  const coords = fig && cursor ? pixelToParameters(fig, cursor.x, cursor.y) : null;
+  const shown = hover ?? picked;
+  const counts = map ? { curves: map.curves.length, points: map.points.length } : null;
+  const warnings = (map?.diagnostics ?? []).filter((d) => d.level !== 'info');
+
+  return (
+    <div className="dg-diagram mp-root" ref={rootRef} data-testid="map-view" data-curves={counts?.curves ?? ''} data-points={counts?.points ?? ''}>
+      <div ref={wrapRef} className="mp-width" />
+      {error ? <p role="alert" className="dg-error">{error} <button type="button" onClick={() => void load()}>Try again</button></p> : null}
+      {!map && !error ? <p className="dg-muted">Loading the map…</p> : null}
+      {map && fig ? (
+        <>
+          <div className="dg-toolbar">
+            <h3 className="dg-title" style={{ flexBasis: 'auto' }}>{names[1]} against {names[0]}</h3>
+            <MapExport build={build} provenance={props.provenance} csvUrl={`/api/runs/${props.runId}/map.csv`} jsonUrl={`/api/runs/${props.runId}/map`} />
+          </div>
+          <p className="dg-muted mp-what">
+            {map.curves.length} curve{map.curves.length === 1 ? '' : 's'} and {map.points.length} codimension-two point{map.points.length === 1 ? '' : 's'}.
+            Shaded: the coupling regime, named from a coarse sample grid, bounded by the curves themselves. Move over the map for the parameter values under the pointer;
+            hover, focus (Tab) or click a point for its exact numbers.
+          </p>
+          <div className="mp-plot" style={{ maxWidth: fig.width }}>
+            <svg ref={svgRef} viewBox={`0 0 ${fig.width} ${fig.height}`} width="100%" role="group" aria-label={fig.title} data-testid="map-svg"
+              onPointerMove={onMove} onPointerLeave={() => { setCursor(null); setHover(null); }}
+              onClick={() => { if (hover) setPicked(hover); }}>
+              <defs><clipPath id={clipId}><rect x={fig.plot.x} y={fig.plot.y} width={fig.plot.w} height={fig.plot.h} /></clipPath></defs>
+              <rect width={fig.width} height={fig.height} fill={fig.background} />
+              {fig.items.map((p, i) => <PrimNode key={i} p={p} clipId={clipId} />)}
+              {cursor ? (
+                <g data-testid="map-crosshair">
+                  <line className="mp-cross" x1={cursor.x} x2={cursor.x} y1={fig.plot.y} y2={fig.plot.y + fig.plot.h} />
+                  <line className="mp-cross" x1={fig.plot.x} x2={fig.plot.x + fig.plot.w} y1={cursor.y} y2={cursor.y} />
+                </g>
+              ) : null}
+              {shown ? <circle className="mp-ring" cx={shown.cx} cy={shown.cy} r={9} /> : null}
+              {fig.marks.map((m) => (
+                <circle key={m.id} className="mp-hit" cx={m.cx} cy={m.cy} r={m.kind === 'point' ? 10 : 6} tabIndex={0} role="button"
+                  aria-label={m.readout.join('; ')} data-testid="map-mark" data-kind={m.kind} data-type={m.type} data-id={m.id}
+                  onFocus={() => setHover(m)} onBlur={() => setHover((h) => (h?.id === m.id ? null : h))}
+                  onClick={(e) => { e.stopPropagation(); setPicked(m); }}
+                  onKeyDown={(e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); setPicked(m); } }} />
+              ))}
+            </svg>
+            {coords ? <div className="mp-coords" data-testid="map-coords" aria-hidden="true">{names[0]} = {formatValue(coords[0], 4)}, {names[1]} = {formatValue(coords[1], 4)}</div> : null}
+            {shown ? (
+              <div className="dg-tooltip mp-tooltip" role="status" data-testid="map-readout"
+                style={{ left: `${(shown.cx / fig.width) * 100}%`, top: `${(shown.cy / fig.height) * 100}%`, transform: shown.cx > fig.width * 0.6 ? 'translate(calc(-100% - 12px), -50%)' : undefined }}>
+                <div className="dg-tooltip-head">{shown.readout[0]}</div>
+                {shown.readout.slice(1).map((line, i) => <div key={i}>{line}</div>)}
+              </div>
+            ) : null}
+          </div>
+          {picked ? (
+            <div className="mp-picked" data-testid="map-picked" aria-live="polite">
+              <p><strong>{picked.readout[0]}</strong> <button type="button" onClick={() => setPicked(null)}>Close</button></p>
+              {picked.readout.slice(1).map((line, i) => <p key={i} className="num">{line}</p>)}
+              <p className="dg-muted">The one-parameter diagram at {names[1]} = {formatValue(picked.p[1])}: save a version of the model with {names[1]} set to this value and trace it.</p>
+            </div>
+          ) : null}
+          {warnings.length ? (
+            <details className="mp-what"><summary>{warnings.length} note{warnings.length === 1 ? '' : 's'} from the computation</summary>
+              <ul>{warnings.map((d, i) => <li key={i}><code>{d.code}</code>: {d.message}</li>)}</ul>
+            </details>
+          ) : null}
+        </>
+      ) : null}
+      <p className="dg-muted mp-what">Model results are indicative; defer to domain experts and local regulation.</p>
+    </div>
+  );
+}
