@@ -12,6 +12,8 @@ export interface StartRestriction {
   readonly counts: RestrictedCounts;
   /** Patterns used (the restricted set, capped at the budget). */
   readonly patterns: number;
+  /** The budget of starts k was chosen for: min(startBudget, maxBranches). */
+  readonly budget: number;
   /** Roots per node of the uncoupled elements at p = from, and the pattern space they span ("3^20"). */
   readonly rootCounts: readonly number[];
   readonly of: string;
@@ -41,7 +43,8 @@ export function isUncoupledAt(system: CompiledSystem, from: number): boolean {
  * [-rootSearchBound, rootSearchBound] (sign-change scan, Newton with bisection fallback); every
  * combination is an equilibrium of the whole system because the coupling term vanishes. All
  * combinations are used up to maxStartCombinations (3^8); beyond that (or with startSelection
- * 'restricted') the restricted set of start-selection.ts for the budget startBudget, with a diagnostic.
+ * 'restricted') the restricted set of start-selection.ts for a budget of min(startBudget, maxBranches)
+ * starts, with a diagnostic.
  * Coupled network (a sweep that starts at nonzero coupling): the same combinations as Newton guesses,
  * plus the multi-start guesses below. Otherwise: damped Newton from the document's start guesses,
  * the origin and multiStartCount quasi-random guesses (Halton sequence) in [-box, box]^n. Every
@@ -200,17 +203,20 @@ function elementCombinations(system: CompiledSystem, from: number, s: ResolvedTr
   }
   const rootCounts = perNode.map((r) => r.length);
   // Room for up to n states grown from the start state's escape graph (trace-diagram.ts).
-  const sel = selectRestricted(rootCounts, s.startBudget, n);
+  // Every start may become a branch: a budget above the branch cap would only be cut by it, and the
+  // cut would fall on the patterns with the most nodes off base without k saying so.
+  const budget = Math.max(2, Math.min(s.startBudget, s.maxBranches));
+  const sel = selectRestricted(rootCounts, budget, n);
   for (const pat of sel.patterns) guesses.push(Float64Array.from(pat, (j, i) => perNode[i][j]));
   const of = patternSpace(rootCounts);
   if (report) diagnostics.push({
     level: 'info',
     code: 'start-patterns-limited',
-    message: `${combos <= s.maxStartCombinations ? `startSelection 'restricted'` : `${formatCount(combos)} combinations of element equilibria (${of}) exceed the limit of ${s.maxStartCombinations} (maxStartCombinations)`}; starting from the ${sel.patterns.length} patterns with at most ${sel.maxOffBase} node${sel.maxOffBase === 1 ? '' : 's'} off base (tipped or at a threshold), all-tipped and its neighbouring saddles (startBudget ${s.startBudget}), plus the document's start list`,
+    message: `${combos <= s.maxStartCombinations ? `startSelection 'restricted'` : `${formatCount(combos)} combinations of element equilibria (${of}) exceed the limit of ${s.maxStartCombinations} (maxStartCombinations)`}; starting from the ${sel.patterns.length} patterns with at most ${sel.maxOffBase} node${sel.maxOffBase === 1 ? '' : 's'} off base (tipped or at a threshold), all-tipped and its neighbouring saddles (a budget of ${budget} starts: ${budget < s.startBudget ? `maxBranches ${s.maxBranches}, below startBudget ${s.startBudget}` : `startBudget ${s.startBudget}`}), plus the document's start list`,
   });
   return {
     guesses,
-    restriction: { maxOffBase: sel.maxOffBase, counts: sel.counts, patterns: sel.patterns.length, rootCounts, of, ofCount: patternCount(rootCounts) },
+    restriction: { maxOffBase: sel.maxOffBase, counts: sel.counts, patterns: sel.patterns.length, budget, rootCounts, of, ofCount: patternCount(rootCounts) },
   };
 }
 

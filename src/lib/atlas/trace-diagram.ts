@@ -425,7 +425,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     if (cancelled || isCancelled()) { growth.stoppedBy = 'cancelled'; break; }
     if (tasks.length > 0) break;
     if (growth.rounds >= 3) { growth.stoppedBy = 'round-cap'; break; }
-    const room = Math.min(s.startBudget, s.maxStartingPoints) - starts.points.length - growth.states;
+    const room = Math.min(restriction.budget, s.maxStartingPoints) - starts.points.length - growth.states;
     const left = s.growthIntegrations - growth.integrations;
     if (room <= 0) { growth.stoppedBy = 'start-budget'; break; }
     if (left <= 0) { growth.stoppedBy = 'integration-cap'; break; }
@@ -470,7 +470,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     }
   }
   if (restriction) {
-    coverage = coverageOf(restriction, starts.points.length, s.startBudget, growth, untracedStarts, system.parameter);
+    coverage = coverageOf(restriction, starts.points.length, restriction.budget, growth, untracedStarts, system.parameter);
     diagnostics.push({ level: 'info', code: 'start-coverage', message: coverage.text });
   }
   if (neutralSaddles > 0) {

@@ -35,8 +35,8 @@ export interface TraceSettings {
   /**
    * Restricted set only: starts allowed in all, patterns at the sweep start plus stable states added
    * from the start state's escape graph (default 1000: k = 2 nodes off base at 20 nodes, 822
-   * patterns). k, the largest number of nodes off base, is chosen so that the patterns leave room
-   * for n added states.
+   * patterns). k, the largest number of nodes off base, is chosen for min(startBudget, maxBranches)
+   * starts, leaving room for n added states; at 20 nodes k = 2 therefore needs maxBranches raised.
    */
   startBudget: number;
   /** Restricted set only: cap on the manifold-branch integrations spent on growing it (default 4000; 0 turns growth off). */

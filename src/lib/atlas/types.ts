@@ -70,7 +70,7 @@ export interface StartCoverage {
   /** The whole pattern space, e.g. "3^20", and its size. */
   readonly of: string;
   readonly ofCount: number;
-  /** The start budget (TraceSettings.startBudget). */
+  /** The budget of starts k was chosen for: min(startBudget, maxBranches). */
   readonly budget: number;
   /** Growth from the start state's escape graph: parameter values examined, stable states added, integrations, whether a cap stopped it. */
   readonly grown: { readonly values: number; readonly states: number; readonly integrations: number; readonly rounds: number; readonly stoppedBy: 'nothing-new' | 'start-budget' | 'integration-cap' | 'round-cap' | 'branch-cap' | 'not-bistable' | 'no-start-state' | 'cancelled' | 'failed' | 'off' };
