@@ -111,7 +111,7 @@ export default function MapView(props: MapViewProps) {
           </div>
           <p className="dg-muted mp-what">
             {map.curves.length} curve{map.curves.length === 1 ? '' : 's'} and {map.points.length} codimension-two point{map.points.length === 1 ? '' : 's'}.
-            Shaded: the coupling regime, named from a coarse sample grid, bounded by the curves themselves. Move over the map for the parameter values under the pointer;
+            Shaded: the coupling regime, named from a coarse sample grid, bounded by the curves themselves; unshaded where the neighbouring grid rows do not settle it. Move over the map for the parameter values under the pointer;
             hover, focus (Tab) or click a point for its exact numbers.
           </p>
           <div className="mp-plot" style={{ maxWidth: fig.width }}>

@@ -97,7 +97,8 @@ export function buildMapFigure(input: MapFigureInput): MapFigure {
   // Regime names at the centre of each labelled region's samples.
   for (const g of map.regions) {
     if (!g.regime || g.samples.length === 0) continue;
-    const cx = g.samples.reduce((s, q) => s + X(q[0]), 0) / g.samples.length;
+    const half = g.regime.length * 3.4 + 4;
+    const cx = Math.min(plot.x + plot.w - half, Math.max(plot.x + half, g.samples.reduce((s, q) => s + X(q[0]), 0) / g.samples.length));
     const cy = g.samples.reduce((s, q) => s + Y(q[1]), 0) / g.samples.length;
     items.push({ t: 'text', x: r2(cx), y: r2(cy), text: g.regime, size: 11, weight: 600, anchor: 'middle', fill: pal.bandInk[g.regime], clip: true, data: { label: 'region', regime: g.regime } });
   }

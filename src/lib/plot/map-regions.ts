@@ -3,9 +3,9 @@
  * in the workspace"): the plane is cut into thin horizontal strips (in the second parameter); in
  * each strip every curve polyline is cut at the strip's lower and upper edge, so an interval between
  * two neighbouring crossings is a trapezoid whose sides run along the curves. The interval takes the
- * regime of the grid sample that lies between the same two curves (matched by curve id) at the
- * nearest row; without such a sample, the regime of the sample inside the interval nearest in the
- * second parameter; without one, it stays unshaded. The grid only names the regime; the boundaries
+ * regime of a grid sample of the two rows either side of the strip that lies between the same two
+ * curves (matched by curve id), the nearer row first; without one, of a sample of those rows inside
+ * the interval; without one, it stays unshaded (a label is never carried past the neighbouring rows). The grid only names the regime; the boundaries
  * are the curves' own points. Pure: no DOM.
  */
 import type { MapDocumentView } from './map-types';
@@ -73,11 +73,14 @@ export function regionPieces(map: MapDocumentView, options: RegionStripOptions =
     for (const p of g.samples) samples.push({ p, regime: g.regime, pair: between(crossingsAt(map.curves, p[1]), p[0]) });
   }
   if (samples.length === 0) return [];
+  const rows = [...new Set(samples.map((q) => q.p[1]))].sort((u, v) => u - v);
   const pieces: RegionPiece[] = [];
   for (let k = 0; k < strips; k++) {
     const lo = b0 + ((b1 - b0) * k) / strips;
     const hi = b0 + ((b1 - b0) * (k + 1)) / strips;
     const mid = (lo + hi) / 2;
+    const below = rows.filter((y) => y <= mid).pop() ?? rows[0];
+    const above = rows.find((y) => y > mid) ?? rows[rows.length - 1];
     const cross = crossingsAt(map.curves, mid).filter((c) => c.p1 > a0 && c.p1 < a1);
     const lower = crossingsAt(map.curves, lo, true);
     const upper = crossingsAt(map.curves, hi, true);
@@ -94,18 +97,20 @@ export function regionPieces(map: MapDocumentView, options: RegionStripOptions =
       const pair: [string, string] = [left?.curve ?? EDGE, right?.curve ?? EDGE];
       const l = left?.p1 ?? a0, r = right?.p1 ?? a1;
       if (r <= l) continue;
+      // Only the grid rows either side of the strip name it: a label carried from far rows would cross curves that turn in between.
+      const near = samples.filter((q) => q.p[1] === below || q.p[1] === above);
       let pick: (typeof samples)[number] | null = null;
       let bestD = Infinity;
-      for (const s of samples) {
-        if (s.pair[0] !== pair[0] || s.pair[1] !== pair[1]) continue;
-        const d = Math.abs(s.p[1] - mid);
-        if (d < bestD) { bestD = d; pick = s; }
+      for (const q of near) {
+        if (q.pair[0] !== pair[0] || q.pair[1] !== pair[1]) continue;
+        const d = Math.abs(q.p[1] - mid);
+        if (d < bestD) { bestD = d; pick = q; }
       }
       if (!pick) {
-        for (const s of samples) {
-          if (s.p[0] < l || s.p[0] > r) continue;
-          const d = Math.abs(s.p[1] - mid);
-          if (d < bestD) { bestD = d; pick = s; }
+        for (const q of near) {
+          if (q.p[0] < l || q.p[0] > r) continue;
+          const d = Math.abs(q.p[1] - mid);
+          if (d < bestD) { bestD = d; pick = q; }
         }
       }
       if (!pick) continue;

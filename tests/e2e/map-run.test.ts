@@ -1,0 +1,126 @@
+/**
+ * A two-parameter map end to end in Chromium: as the demo modeler, open a finished diagram run of the
+ * first demo model, start a small map over the element parameter b through "Map over a second
+ * parameter" (a field error beside its field first), follow the run to its map, hover a curve point
+ * and read its numbers against the API, check the crosshair readout, export the map as SVG (parsed:
+ * one path per curve, the provenance footer) and look at both themes. A reviewer sees no start
+ * button. Screenshots in screenshots/map-run-*.png.
+ */
+import { readFileSync } from 'node:fs';
+import { XMLParser, XMLValidator } from 'fast-xml-parser';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { BASE_URL, demoAccount, hydrated, launchBrowser, screenshotPath, shootBothThemes, signIn } from './browser.ts';
+
+let browser: Browser;
+let context: BrowserContext;
+let page: Page;
+let traceRunId = 0;
+let mapRunId = 0;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+  context = await browser.newContext({ viewport: { width: 1280, height: 900 }, colorScheme: 'light', acceptDownloads: true });
+  page = await context.newPage();
+  await signIn(page, demoAccount('modeler').email, demoAccount('modeler').password);
+  const models = (await (await page.request.get(`${BASE_URL}/api/models`)).json()) as { items: { id: number; name: string }[] };
+  const modelId = models.items.find((m) => m.name.includes('downstream flow only'))!.id;
+  const runs = (await (await page.request.get(`${BASE_URL}/api/runs?kind=trace&modelId=${modelId}`)).json()) as { items: { id: number; status: string }[] };
+  traceRunId = runs.items.find((r) => r.status === 'done')?.id ?? 0;
+}, 60_000);
+afterAll(async () => { await browser?.close(); });
+
+describe('a map run in the browser', () => {
+  it('starts a map from a finished diagram run and follows it to the map', async () => {
+    expect(traceRunId, 'the seed has a finished diagram run of the first demo model').toBeGreaterThan(0);
+    await page.goto(`${BASE_URL}/runs/${traceRunId}`);
+    await hydrated(page);
+    await page.getByTestId('start-map-open').click();
+    const form = page.getByTestId('start-map-form');
+    expect(await form.getByTestId('mp-second').inputValue()).toBe('b');
+    await form.getByTestId('mp-secondFrom').fill('0.6');
+    await form.getByTestId('mp-secondTo').fill('0.6');
+    await expect.poll(() => form.getByTestId('mp-secondTo-error').textContent()).toContain('must differ from secondFrom');
+    await form.getByTestId('mp-secondFrom').fill('0.55');
+    await form.getByTestId('mp-secondTo').fill('0.65');
+    expect(await form.getByTestId('mp-secondTo-error').count()).toBe(0);
+    await page.screenshot({ path: screenshotPath('map-run-form'), fullPage: true });
+    await Promise.all([
+      page.waitForURL((u) => /^\/runs\/\d+$/.test(u.pathname) && u.pathname !== `/runs/${traceRunId}`, { timeout: 20_000 }),
+      form.getByTestId('start-map-submit').click(),
+    ]);
+    mapRunId = Number(new URL(page.url()).pathname.split('/').pop());
+    const run = (await (await page.request.get(`${BASE_URL}/api/runs/${mapRunId}`)).json()) as { run: { kind: string; settings: Record<string, unknown> } };
+    expect(run.run.kind).toBe('map');
+    expect(run.run.settings).toMatchObject({ second: 'b', secondFrom: 0.55, secondTo: 0.65 });
+    await expect.poll(async () => {
+      if ((await page.getByTestId('map-view').count()) === 0) return false;
+      return Number(await page.getByTestId('map-view').getAttribute('data-curves')) > 0;
+    }, { timeout: 170_000, interval: 1000 }).toBe(true);
+    await hydrated(page);
+  }, 240_000);
+
+  it('hovering a curve point reads out its parameter values as the API stores them; the crosshair reads the pointer', async () => {
+    expect(mapRunId).toBeGreaterThan(0);
+    const api = (await (await page.request.get(`${BASE_URL}/api/runs/${mapRunId}/map`)).json()) as { parameters: string[]; curves: { id: string; points: { p: [number, number] }[] }[]; secondValue: number };
+    expect(api.parameters).toEqual(['beta', 'b']);
+    expect(api.secondValue).toBe(0.6);
+    const mark = page.locator('[data-testid=map-mark][data-kind=curve]').first();
+    const id = (await mark.getAttribute('data-id'))!;
+    const [curveId, index] = id.split(':');
+    const point = api.curves.find((c) => c.id === curveId)!.points[Number(index)];
+    await mark.hover();
+    const readout = page.getByTestId('map-readout');
+    await expect.poll(() => readout.textContent()).toContain(`beta = ${point.p[0]}`);
+    expect(await readout.textContent()).toContain(`b = ${point.p[1]}`);
+    // Keyboard: the same mark takes focus and shows the same readout.
+    await page.mouse.move(0, 0);
+    await mark.focus();
+    await expect.poll(() => readout.textContent()).toContain(`beta = ${point.p[0]}`);
+    await mark.blur();
+    // The crosshair: the middle of the plot area reads about the middle of both ranges (4 significant digits).
+    const svg = page.getByTestId('map-svg');
+    const box = (await svg.boundingBox())!;
+    await page.mouse.move(box.x + 5, box.y + 5);
+    await page.mouse.move(box.x + box.width * 0.5, box.y + box.height * 0.3);
+    await expect.poll(() => page.getByTestId('map-coords').count()).toBe(1);
+    const coords = await page.getByTestId('map-coords').textContent();
+    expect(coords).toMatch(/beta = [\d.]+, b = [\d.]+/);
+    const b = Number(/b = ([\d.]+)$/.exec(coords!)![1]);
+    expect(b).toBeGreaterThanOrEqual(0.55);
+    expect(b).toBeLessThanOrEqual(0.65);
+    await page.getByTestId('map-view').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: screenshotPath('map-run-hover') });
+    await page.mouse.move(0, 0);
+  }, 60_000);
+
+  it('exports the map as SVG with one path per curve and the provenance footer; both themes', async () => {
+    await page.getByTestId('map-export-toggle').click();
+    const [dl] = await Promise.all([page.waitForEvent('download', { timeout: 60_000 }), page.getByTestId('map-export-svg').click()]);
+    const text = readFileSync((await dl.path())!, 'utf8');
+    expect(XMLValidator.validate(text)).toBe(true);
+    const doc = new XMLParser({ ignoreAttributes: false, attributeNamePrefix: '' }).parse(text);
+    const paths = ([] as Record<string, string>[]).concat(doc.svg.path ?? []);
+    const api = (await (await page.request.get(`${BASE_URL}/api/runs/${mapRunId}/map`)).json()) as { curves: { id: string }[]; points: { id: string }[] };
+    expect(paths.filter((p) => p['data-curve']).map((p) => p['data-curve'])).toEqual(api.curves.map((c) => c.id));
+    expect(paths.filter((p) => p['data-point']).map((p) => p['data-point'])).toEqual(api.points.map((c) => c.id));
+    expect(text).toContain(`run ${mapRunId}`);
+    expect(text).toContain('indicative');
+    const [png] = await Promise.all([page.waitForEvent('download', { timeout: 60_000 }), page.getByTestId('map-export-png').click()]);
+    expect(readFileSync((await png.path())!).subarray(1, 4).toString()).toBe('PNG');
+    await page.keyboard.press('Escape');
+    await shootBothThemes(page, 'map-run');
+  }, 120_000);
+
+  it('a reviewer sees no start button on a finished diagram run', async () => {
+    const reviewer = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const p = await reviewer.newPage();
+    await signIn(p, demoAccount('reviewer').email, demoAccount('reviewer').password);
+    await p.goto(`${BASE_URL}/runs/${traceRunId}`);
+    await hydrated(p);
+    expect(await p.getByTestId('run-diagram').count()).toBe(1);
+    expect(await p.getByTestId('start-map-open').count()).toBe(0);
+    expect(await p.getByTestId('start-map').count()).toBe(0);
+    await reviewer.close();
+  }, 60_000);
+});
