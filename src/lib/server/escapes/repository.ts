@@ -22,12 +22,6 @@ export function atlasCacheKey(versionHash: string, document: unknown, atlas: Run
   return resultCacheKey('trace', versionHash, normalizeSettings(document, atlas), ENGINE_VERSION);
 }
 
-/** A stored trace result with that key: its id and diagram text. */
-export async function findAtlas(cacheKey: string, k: Knex = db): Promise<{ id: number; diagramJson: string } | null> {
-  const row = await k('results').where({ cache_key: cacheKey }).first('id', 'diagram');
-  return row ? { id: row.id, diagramJson: row.diagram } : null;
-}
-
 /** Stores a trace result computed as the first part of an escape run (or reads the one a concurrent run stored). */
 export async function storeAtlas(cacheKey: string, out: ComputeOutput, k: Knex = db): Promise<number> {
   return (await insertOrReuse(k, 'results', cacheKey, resultRow(out, ENGINE_VERSION))).id;
