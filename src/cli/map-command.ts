@@ -4,11 +4,12 @@ import { compileTwoParameter, traceMap } from '../lib/maps/index.js';
 import { emit, numberOption, parseModelCommand, readModel, UsageError, type Command } from './cli-common.js';
 
 const HELP = `Usage: npm run --silent atlas -- map MODEL.json --second NAME --from A --to B
-                                   [--sweep-from P] [--sweep-to P] [--seeds K]
+                                   [--sweep-from P] [--sweep-to P] [--seeds K] [--cross-seeds K]
                                    [--columns C] [--rows R] [--out FILE]
 
 The two-parameter map: the document's swept parameter (first) against a second model parameter
-NAME varied from A to B. One-parameter diagrams are traced at a few values of NAME; from each of
+NAME varied from A to B. One-parameter diagrams are traced at a few values of NAME (and, in NAME, at
+a few values of the swept parameter); from each of
 their saddle-nodes the curve of saddle-nodes is continued in both parameters, from each Hopf point
 the Hopf curve, and from each pitchfork of a symmetric network the curve of symmetry-breaking
 points. Cusp points (a saddle-node curve turns back, the fold's quadratic coefficient vanishes) and
@@ -37,6 +38,8 @@ Options:
   --sweep-from P   range of the swept parameter; default sweep.from
   --sweep-to P     default sweep.to
   --seeds K        one-parameter diagrams that seed curves, evenly spaced over [A, B] (default 5)
+  --cross-seeds K  diagrams in NAME at K evenly spaced values of the swept parameter that also seed
+                   curves, e.g. folds that do not depend on it (default 3; 0: none)
   --columns C      regime grid columns in the swept parameter (default 9; 0 with --rows 0: no regions)
   --rows R         regime grid rows in the second parameter (default 5; these rows also seed curves)
   --out FILE       write the JSON to FILE instead of standard output
@@ -57,7 +60,7 @@ export const mapCommand: Command = {
   help: HELP,
   run(argv) {
     const args = parseModelCommand(argv, HELP, {
-      second: 'string', 'sweep-from': 'string', 'sweep-to': 'string', seeds: 'string', columns: 'string', rows: 'string',
+      second: 'string', 'sweep-from': 'string', 'sweep-to': 'string', seeds: 'string', 'cross-seeds': 'string', columns: 'string', rows: 'string',
     });
     if (!args) return;
     const { values } = args;
@@ -70,6 +73,7 @@ export const mapCommand: Command = {
     const sweepFrom = numberOption('sweep-from', values['sweep-from'] as string | undefined);
     const sweepTo = numberOption('sweep-to', values['sweep-to'] as string | undefined);
     const seeds = integerOption('seeds', values.seeds as string | undefined, 1, 50);
+    const crossSeeds = integerOption('cross-seeds', values['cross-seeds'] as string | undefined, 0, 50);
     const columns = integerOption('columns', values.columns as string | undefined, 0, 100);
     const rows = integerOption('rows', values.rows as string | undefined, 0, 100);
     if ((columns === 0) !== (rows === 0) && columns !== undefined && rows !== undefined) throw new UsageError('--rows: give --columns 0 and --rows 0 together to skip the regions');
@@ -87,6 +91,7 @@ export const mapCommand: Command = {
       secondFrom: args.from,
       secondTo: args.to,
       ...(seeds !== undefined ? { seeds } : {}),
+      ...(crossSeeds !== undefined ? { crossSeeds } : {}),
       ...(columns !== undefined ? { regionColumns: columns } : {}),
       ...(rows !== undefined ? { regionRows: rows } : {}),
       ...(columns === 0 && rows === undefined ? { regionRows: 0 } : {}),

@@ -27,6 +27,8 @@ export interface MapSettings {
   secondTo: number;
   /** One-parameter diagrams are traced at this many evenly spaced values of the second parameter (ends included) to seed curves (default 5). */
   seeds: number;
+  /** One-parameter diagrams in the second parameter at this many evenly spaced values of the first (ends included) also seed curves, e.g. folds that do not depend on the first parameter (default 3; 0: none). */
+  crossSeeds: number;
   /** Regime sampling grid: columns in the first parameter x rows in the second (default 9 x 5); 0 x 0 skips the regions. */
   regionColumns: number;
   regionRows: number;
@@ -49,6 +51,7 @@ export interface MapSettings {
 
 export const defaultMapSettings = Object.freeze({
   seeds: 5,
+  crossSeeds: 3,
   regionColumns: 9,
   regionRows: 5,
   maxPointsPerCurve: 4000,
@@ -79,8 +82,8 @@ export interface MapCurve {
   readonly type: MapCurveType;
   readonly points: MapCurvePoint[];
   readonly ends: [CurveEnd, CurveEnd];
-  /** The one-parameter special point it was continued from. */
-  readonly seed: { readonly second: number; readonly p: number; readonly x: number[] };
+  /** The one-parameter special point it was continued from (at first = p, second = second), and which parameter that diagram swept. */
+  readonly seed: { readonly second: number; readonly p: number; readonly x: number[]; readonly swept: 'first' | 'second' };
 }
 
 export type MapPointType = 'cusp' | 'bogdanov-takens' | 'saddle-node-meets-pitchfork';
@@ -173,6 +176,34 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
     diagrams.set(b, { system, diagram });
   });
 
+  // Cross seeds: diagrams in the second parameter at a few values of the first.
+  const crossValues = s.crossSeeds > 0 ? linspace(loA, hiA, s.crossSeeds) : [];
+  const crossDiagrams: { a: number; diagram: Diagram }[] = [];
+  crossValues.forEach((a, i) => {
+    if (isCancelled()) return;
+    hooks.onProgress?.(0.3 + (0.1 * i) / crossValues.length, `one-parameter diagram in ${sys.parameters[1]} at ${sys.parameters[0]} = ${a}`);
+    // The engine starts its branches at `from`; with no equilibrium there, sweep the other way.
+    // Cross seeds only add seeds, so their trouble is reported as info.
+    let diagram: Diagram | null = null;
+    for (const [from, to] of [[s.secondFrom, s.secondTo], [s.secondTo, s.secondFrom]]) {
+      try {
+        diagram = traceDiagram(sys.atFirst(a, { from, to }), {}, { isCancelled });
+      } catch (e) {
+        diagram = null;
+        diagnostics.push({ level: 'info', code: 'cross-seed-failed', message: `${sys.parameters[0]} = ${a}: no diagram in ${sys.parameters[1]} (${e instanceof Error ? e.message : String(e)})` });
+        break;
+      }
+      if (diagram.branches.length > 0) break;
+    }
+    if (!diagram) return;
+    for (const d of diagram.diagnostics) if (d.level !== 'info') diagnostics.push({ ...d, level: 'info', message: `${sys.parameters[0]} = ${a} (seed diagram in ${sys.parameters[1]}): ${d.message}` });
+    crossDiagrams.push({ a, diagram });
+  });
+  // Every seed as (special point at first = sp.p, second = b), and which parameter its diagram swept.
+  const seedList: { sp: SpecialPoint; b: number; swept: 'first' | 'second' }[] = [];
+  for (const [b, { diagram }] of diagrams) for (const sp of diagram.bifurcations) seedList.push({ sp, b, swept: 'first' });
+  for (const { a, diagram } of crossDiagrams) for (const sp of diagram.bifurcations) seedList.push({ sp: { ...sp, p: a }, b: sp.p, swept: 'second' });
+
   // 2. Curves from every saddle-node and branch point of those diagrams.
   const width = Math.max(hiA - loA, hiB - loB);
   let scale = width;
@@ -192,12 +223,10 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
     maxCorrectorIterations: s.maxCorrectorIterations,
   };
   let noSymmetry = 0;
-  let k = 0;
-  for (const [b, { diagram }] of diagrams) {
-    k++;
-    for (const sp of diagram.bifurcations) {
+  {
+    for (const [k, { sp, b, swept }] of seedList.entries()) {
       if (isCancelled()) break;
-      hooks.onProgress?.(0.4 + (0.4 * k) / diagrams.size, 'continuing curves');
+      hooks.onProgress?.(0.4 + (0.4 * k) / seedList.length, 'continuing curves');
       const type: MapCurveType | null = sp.type === 'saddle-node' ? 'saddle-node' : sp.type === 'hopf' ? 'hopf' : sp.type === 'pitchfork' || sp.type === 'transcritical' ? 'pitchfork' : null;
       if (type === null) continue;
       if (onTraced(traced, type, sp.x, sp.p, b)) continue;
@@ -205,16 +234,15 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
         diagnostics.push({ level: 'warning', code: 'curve-cap', message: `stopped at ${s.maxCurves} curves (maxCurves); special points of the seed diagrams were left out` });
         break;
       }
-      const t = type === 'saddle-node' ? saddleNodeCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled)
-        : type === 'hopf' ? hopfCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled)
-          : branchPointCurve(sys, sp, b, o, traced.length, diagnostics, isCancelled);
+      const t = type === 'saddle-node' ? saddleNodeCurve(sys, sp, b, swept, o, traced.length, diagnostics, isCancelled)
+        : type === 'hopf' ? hopfCurve(sys, sp, b, swept, o, traced.length, diagnostics, isCancelled)
+          : branchPointCurve(sys, sp, b, swept, o, traced.length, diagnostics, isCancelled);
       if (t === 'no-symmetry') noSymmetry++;
       else if (t) {
         traced.push(t.traced);
         for (const c of t.found) addPoint(points, c);
       }
     }
-    if (traced.length >= s.maxCurves) break;
   }
   // A saddle-node curve through a point found on a pitchfork curve is listed with it.
   for (const q of points) {
@@ -257,6 +285,7 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
 function checkSettings(s: Required<MapSettings>): string | null {
   if (!Number.isFinite(s.from) || !Number.isFinite(s.to) || s.from === s.to) return `from/to: expected two different finite numbers (got ${s.from}, ${s.to})`;
   if (!Number.isFinite(s.secondFrom) || !Number.isFinite(s.secondTo) || s.secondFrom === s.secondTo) return `secondFrom/secondTo: expected two different finite numbers (got ${s.secondFrom}, ${s.secondTo})`;
+  if (!Number.isInteger(s.crossSeeds) || s.crossSeeds < 0 || s.crossSeeds > 100) return 'crossSeeds: expected an integer from 0 to 100';
   for (const key of ['seeds', 'maxPointsPerCurve', 'maxCurves'] as const) if (!Number.isInteger(s[key]) || s[key] < 1 || s[key] > 100_000) return `${key}: expected an integer from 1 to 100000`;
   for (const key of ['regionColumns', 'regionRows'] as const) if (!Number.isInteger(s[key]) || s[key] < 0 || s[key] > 200) return `${key}: expected an integer from 0 to 200`;
   return null;
@@ -319,14 +348,16 @@ function noteEnd(end: CurveEnd, id: string, diagnostics: Diagnostic[]): void {
   diagnostics.push({ level: 'warning', code: end, message: `curve ${id} ended early (${end}); it may continue beyond the last point shown` });
 }
 
-/** Polish a seed on an extended system with the second parameter fixed, then its tangent; null (with a diagnostic) when singular. */
+/** Polish a seed on an extended system with the parameter its diagram did not sweep fixed, then its tangent; null (with a diagnostic) when singular. */
 function startOn(
-  ext: ExtendedSystem, y0: Float64Array, b: number, what: string, diagnostics: Diagnostic[], sp: SpecialPoint, sys: TwoParameterSystem,
+  ext: ExtendedSystem, y0: Float64Array, b: number, swept: 'first' | 'second', what: string, diagnostics: Diagnostic[], sp: SpecialPoint, sys: TwoParameterSystem,
 ): { y: Float64Array; t: Float64Array } | null {
   const N = ext.size;
+  // Fix the parameter the seed diagram did not sweep (the last two entries of y are a, b).
+  const fixed = swept === 'first' ? N - 1 : N - 2;
   const e = new Float64Array(N);
-  e[N - 1] = 1;
-  const polished = correctOn(ext, y0, e, b, { residualTolerance: 1e-12, stepTolerance: 1e-12, maxIterations: 20, earlyStep: 1e-12 });
+  e[fixed] = 1;
+  const polished = correctOn(ext, y0, e, y0[fixed], { residualTolerance: 1e-12, stepTolerance: 1e-12, maxIterations: 20, earlyStep: 1e-12 });
   const start = polished.converged || polished.residual < 1e-10 ? polished.y : null;
   const tangent = start ? startTangent(ext, start) : null;
   if (!start || !tangent || !(tangent.next > 1e-8 * tangent.largest)) {
@@ -420,7 +451,7 @@ function leftNullVector(j: Float64Array, n: number): Float64Array {
 }
 
 function saddleNodeCurve(
-  sys: TwoParameterSystem, sp: SpecialPoint, b: number, o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
+  sys: TwoParameterSystem, sp: SpecialPoint, b: number, swept: 'first' | 'second', o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
 ): { traced: Traced; found: Omit<MapPoint, 'id'>[] } | null {
   const n = sys.dimension;
   const x = Float64Array.from(sp.x);
@@ -432,7 +463,7 @@ function saddleNodeCurve(
   y0.set(v0, n);
   y0[2 * n] = sp.p;
   y0[2 * n + 1] = b;
-  const start = startOn(ext, y0, b, 'saddle-node', diagnostics, sp, sys);
+  const start = startOn(ext, y0, b, swept, 'saddle-node', diagnostics, sp, sys);
   if (!start) return null;
   const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled });
   const id = `sn${index + 1}`;
@@ -442,7 +473,7 @@ function saddleNodeCurve(
     type: 'saddle-node',
     points: ys.map((y) => ({ p: [y[2 * n], y[2 * n + 1]], x: Array.from(y.subarray(0, n)) })),
     ends,
-    seed: { second: b, p: sp.p, x: [...sp.x] },
+    seed: { second: b, p: sp.p, x: [...sp.x], swept },
   };
   for (const end of ends) noteEnd(end, id, diagnostics);
   return { traced: { curve, ys }, found: foldPoints(ext, ys, id, diagnostics) };
@@ -518,7 +549,7 @@ function foldPoints(ext: SaddleNodeSystem, ys: readonly Float64Array[], curve: s
  * saddles, which are not Hopf points); that point is located (test κ) and the κ < 0 end point dropped.
  */
 function hopfCurve(
-  sys: TwoParameterSystem, sp: SpecialPoint, b: number, o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
+  sys: TwoParameterSystem, sp: SpecialPoint, b: number, swept: 'first' | 'second', o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
 ): { traced: Traced; found: Omit<MapPoint, 'id'>[] } | null {
   const n = sys.dimension;
   const omega = sp.frequency;
@@ -545,7 +576,7 @@ function hopfCurve(
   y0[2 * n + 1] = sp.p;
   y0[2 * n + 2] = b;
   ext.rebase(y0);
-  const start = startOn(ext, y0, b, 'Hopf point', diagnostics, sp, sys);
+  const start = startOn(ext, y0, b, swept, 'Hopf point', diagnostics, sp, sys);
   if (!start) return null;
   const stopAfter = (pa: CurvePoint, pb: CurvePoint) => pa.y[2 * n] > 0 && !(pb.y[2 * n] > 0);
   const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled, stopAfter });
@@ -581,14 +612,14 @@ function hopfCurve(
     type: 'hopf',
     points: ys.map((y) => ({ p: [y[2 * n + 1], y[2 * n + 2]], x: Array.from(y.subarray(0, n)), frequency: Math.sqrt(Math.max(0, y[2 * n])) })),
     ends,
-    seed: { second: b, p: sp.p, x: [...sp.x] },
+    seed: { second: b, p: sp.p, x: [...sp.x], swept },
   };
   for (const end of ends) noteEnd(end, id, diagnostics);
   return { traced: { curve, ys }, found };
 }
 
 function branchPointCurve(
-  sys: TwoParameterSystem, sp: SpecialPoint, b: number, o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
+  sys: TwoParameterSystem, sp: SpecialPoint, b: number, swept: 'first' | 'second', o: CurveOptions, index: number, diagnostics: Diagnostic[], isCancelled: () => boolean,
 ): { traced: Traced; found: Omit<MapPoint, 'id'>[] } | 'no-symmetry' | null {
   const n = sys.dimension;
   const x = Float64Array.from(sp.x);
@@ -606,7 +637,7 @@ function branchPointCurve(
   const ext = new SymmetricBranchPointSystem(sys, symmetry, u0);
   const y0 = ext.reduce(x, phi.map((v) => v / nu), sp.p, b);
   const N = ext.size;
-  const start = startOn(ext, y0, b, 'branch point (restricted to the symmetric subspace)', diagnostics, sp, sys);
+  const start = startOn(ext, y0, b, swept, 'branch point (restricted to the symmetric subspace)', diagnostics, sp, sys);
   if (!start) return null;
   const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled });
   const id = `bp${index + 1}`;
@@ -616,7 +647,7 @@ function branchPointCurve(
     type: 'pitchfork',
     points: ys.map((y) => ({ p: [y[N - 2], y[N - 1]], x: Array.from(ext.stateOf(y)) })),
     ends,
-    seed: { second: b, p: sp.p, x: [...sp.x] },
+    seed: { second: b, p: sp.p, x: [...sp.x], swept },
   };
   for (const end of ends) noteEnd(end, id, diagnostics);
   // Where a saddle-node curve of the symmetric branch meets this curve: det of J on Fix changes sign.

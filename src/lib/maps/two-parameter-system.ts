@@ -47,6 +47,8 @@ export interface TwoParameterSystem {
   secondParameter(x: Float64Array, a: number, b: number, v: Float64Array, outA: Float64Array, outB: Float64Array): void;
   /** The ordinary one-parameter system (today's compiler) with the second parameter fixed at `b`. */
   atSecond(b: number, sweep?: { from: number; to: number }): CompiledSystem;
+  /** The one-parameter system sweeping the second parameter over `sweep`, the first fixed at `a` (today's compiler, its sweepParameter option). */
+  atFirst(a: number, sweep: { from: number; to: number }): CompiledSystem;
   /** Network structure of the one-parameter system (element roles, patterns), when a network. */
   readonly network?: NetworkStructure;
 }
@@ -95,11 +97,12 @@ export function compileTwoParameter(input: unknown, options: TwoParameterOptions
     sweep: { from: sweep.from, to: sweep.to },
     ...fns,
     atSecond: (b: number, s = sweep) => compileModelJson(withSecond(doc, second, b), { sweep: { from: s.from, to: s.to } }),
+    atFirst: (a: number, s: { from: number; to: number }) => compileModelJson(withSecond(doc, first, a), { sweepParameter: second, sweep: { from: s.from, to: s.to } }),
     ...(base.network ? { network: base.network } : {}),
   };
 }
 
-/** A copy of the document with the second parameter set to b (nodes that override it keep their value). */
+/** A copy of the document with parameter `second` set to b (nodes that override it keep their value). */
 export function withSecond(doc: ModelDocument, second: string, b: number): ModelDocument {
   const copy = structuredClone(doc);
   if (copy.format === 'brinkmap/network-1') {

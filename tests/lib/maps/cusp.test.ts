@@ -18,7 +18,8 @@ describe('map of the cusp normal form (Kuznetsov §8.2)', () => {
   const map = traceMap(sys, { secondFrom: -0.5, secondTo: 1, regionColumns: 0, regionRows: 0 });
 
   it('finds one saddle-node curve (both folds of every slice lie on it) ending on the parameter bounds', () => {
-    expect(map.diagnostics).toEqual([]);
+    // Only info: the cross seed at a = 0 is the pitchfork x' = b x - x^3 of the symmetry x -> -x, not a permutation.
+    expect(map.diagnostics.filter((d) => d.level !== 'info')).toEqual([]);
     expect(map.curves).toHaveLength(1);
     expect(map.curves[0].type).toBe('saddle-node');
     expect(map.curves[0].ends).toEqual(['parameter-bound', 'parameter-bound']);
