@@ -84,4 +84,16 @@ describe('a degenerate double zero on a one-way pair (derived closed form)', () 
     const j = sys.jacobian(Float64Array.from(q.x), q.p[0], q.p[1], new Float64Array(4));
     for (const [k, v] of [[0, 0], [1, 0], [2, 0.75], [3, 0]]) expect(Math.abs(j[k] - v)).toBeLessThan(1e-9);
   });
+
+  it('cross seeds find node 1\'s fold, the line r = 2/(3 sqrt 3) that no row at fixed r crosses (x1 = -1/sqrt 3 on it to 1e-9), and list it with the point', () => {
+    const onLine = (c: { points: { p: [number, number]; x: number[] }[] }) => c.points.every((q) => Math.abs(q.p[1] - 2 / (3 * Math.sqrt(3))) < 1e-9 && Math.abs(q.x[0] + 1 / Math.sqrt(3)) < 1e-9);
+    const lines = map.curves.filter((c) => c.type === 'saddle-node' && onLine(c));
+    expect(lines.length).toBeGreaterThan(0);
+    expect(lines.every((c) => c.seed.swept === 'second')).toBe(true);
+    const bt = map.points.find((q) => q.type === 'bogdanov-takens')!;
+    expect(bt.curves.some((id) => lines.some((c) => c.id === id))).toBe(true);
+    // Without cross seeds the line is not there (docs/maps.md §5, what seeds can miss).
+    const rowsOnly = traceMap(sys, { secondFrom: 0.3, secondTo: 0.45, crossSeeds: 0, regionColumns: 0, regionRows: 0 });
+    expect(rowsOnly.curves.filter((c) => c.type === 'saddle-node' && onLine(c))).toEqual([]);
+  });
 });
