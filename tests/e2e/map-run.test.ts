@@ -108,9 +108,40 @@ describe('a map run in the browser', () => {
     expect(text).toContain('indicative');
     const [png] = await Promise.all([page.waitForEvent('download', { timeout: 60_000 }), page.getByTestId('map-export-png').click()]);
     expect(readFileSync((await png.path())!).subarray(1, 4).toString()).toBe('PNG');
-    await page.keyboard.press('Escape');
+    await page.getByTestId('map-export-toggle').click();
     await shootBothThemes(page, 'map-run');
   }, 120_000);
+
+  it('a clicked point offers the one-parameter diagram at its value: a copy of the version with b set, traced over the map\'s range', async () => {
+    const api = (await (await page.request.get(`${BASE_URL}/api/runs/${mapRunId}/map`)).json()) as { curves: { id: string; points: { p: [number, number] }[] }[]; ranges: { first: [number, number] } };
+    const mark = page.locator('[data-testid=map-mark][data-kind=curve]').nth(2);
+    const [curveId, index] = (await mark.getAttribute('data-id'))!.split(':');
+    const b = api.curves.find((c) => c.id === curveId)!.points[Number(index)].p[1];
+    await mark.click();
+    await expect.poll(() => page.getByTestId('map-picked').textContent()).toContain(`b = ${b}`);
+    // The two writes are answered here, so the demo model keeps its single version for the other tests;
+    // what the page sends is what is checked (the endpoints themselves have their own tests).
+    const sent: { url: string; body: any }[] = [];
+    await page.route('**/api/models/*/versions', async (route) => {
+      sent.push({ url: route.request().url(), body: route.request().postDataJSON() });
+      await route.fulfill({ status: 201, contentType: 'application/json', body: JSON.stringify({ version: { number: 2 }, created: true }) });
+    });
+    await page.route('**/api/runs', async (route) => {
+      if (route.request().method() !== 'POST') return route.continue();
+      sent.push({ url: route.request().url(), body: route.request().postDataJSON() });
+      await route.fulfill({ status: 201, contentType: 'application/json', body: JSON.stringify({ run: { id: traceRunId } }) });
+    });
+    await Promise.all([
+      page.waitForURL((u) => u.pathname === `/runs/${traceRunId}`, { timeout: 20_000 }),
+      page.getByTestId('map-trace-at').click(),
+    ]);
+    expect(sent).toHaveLength(2);
+    expect(sent[0].body.document.element.parameters.b).toBe(b);
+    expect(sent[0].body.document.nodes).toEqual([{ id: 'upper', parameters: { a: 0.08 } }, { id: 'middle', parameters: { a: 0.06 } }, { id: 'lower', parameters: { a: 0.05 } }]);
+    expect(sent[0].body.changeNote).toContain(`map of run ${mapRunId}`);
+    expect(sent[1].body).toEqual({ modelId: expect.any(Number), version: 2, kind: 'trace', settings: { from: api.ranges.first[0], to: api.ranges.first[1] } });
+    await page.unrouteAll();
+  }, 60_000);
 
   it('a reviewer sees no start button on a finished diagram run', async () => {
     const reviewer = await browser.newContext({ viewport: { width: 1280, height: 900 } });

@@ -18,6 +18,7 @@ import { formatValue } from '../../lib/plot/ticks';
 import { isDarkTheme, readPalette, watchTheme } from '../diagram/theme';
 import { useWidth } from '../diagram/use-width';
 import MapExport from './MapExport';
+import { documentAtSecond } from '../../lib/plot/map-slice';
 import '../diagram/diagram.css';
 import './maps.css';
 
@@ -28,6 +29,8 @@ export interface MapViewProps {
   readonly provenance: Provenance;
   /** State variable names (node ids or ode variables) for readouts. */
   readonly variables?: readonly string[];
+  /** Editors only: the map's model version, for "trace the diagram at this value" (a new version with the value set). */
+  readonly start?: { readonly modelId: number; readonly versionNumber: number };
 }
 
 function PrimNode({ p, clipId }: { p: Prim; clipId: string }) {
@@ -53,6 +56,7 @@ export default function MapView(props: MapViewProps) {
   const [wrapRef, width] = useWidth<HTMLDivElement>(720);
   const rootRef = useRef<HTMLDivElement>(null);
   const svgRef = useRef<SVGSVGElement>(null);
+  const [tracing, setTracing] = useState<{ busy: boolean; error: string | null }>({ busy: false, error: null });
   const clipId = `mp-clip-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
 
   const load = useCallback(async () => {
@@ -93,6 +97,30 @@ export default function MapView(props: MapViewProps) {
     setHover(nearestMark(fig.marks.filter((m) => m.kind === 'point'), q.x, q.y, 12) ?? nearestMark(fig.probes, q.x, q.y, 10));
   };
   const names = map ? [String(map.parameters[0]), String(map.parameters[1])] : ['', ''];
+
+  // Saves a new version of the model with the second parameter at `value` and starts its trace run over the map's range.
+  const traceAt = async (value: number) => {
+    if (!props.start || !map) return;
+    const { modelId, versionNumber } = props.start;
+    setTracing({ busy: true, error: null });
+    const post = (url: string, body: unknown) => fetch(url, { method: 'POST', credentials: 'same-origin', headers: { 'Content-Type': 'application/json', Accept: 'application/json' }, body: JSON.stringify(body) });
+    try {
+      const docRes = await fetch(`/api/models/${modelId}/versions/${versionNumber}/export`, { credentials: 'same-origin' });
+      if (!docRes.ok) throw new Error(`reading version ${versionNumber}: the server answered ${docRes.status}`);
+      const next = documentAtSecond(await docRes.json(), names[1], value);
+      if (!next) throw new Error(`the document has no parameter ${names[1]}`);
+      const v = await post(`/api/models/${modelId}/versions`, { document: next, changeNote: `${names[1]} = ${value}, picked on the map of run ${props.runId} (from version ${versionNumber})` });
+      const vb = (await v.json().catch(() => null)) as { version?: { number: number }; error?: { message?: string } } | null;
+      if (!v.ok || !vb?.version) throw new Error(vb?.error?.message ?? `saving the version: the server answered ${v.status}`);
+      const [from, to] = map.ranges.first;
+      const r = await post('/api/runs', { modelId, version: vb.version.number, kind: 'trace', settings: { from, to } });
+      const rb = (await r.json().catch(() => null)) as { run?: { id: number }; error?: { message?: string } } | null;
+      if (!r.ok || !rb?.run) throw new Error(rb?.error?.message ?? `starting the run: the server answered ${r.status}`);
+      window.location.assign(`/runs/${rb.run.id}`);
+    } catch (e) {
+      setTracing({ busy: false, error: e instanceof Error ? e.message : String(e) });
+    }
+  };
   const coords = fig && cursor ? pixelToParameters(fig, cursor.x, cursor.y) : null;
   const shown = hover ?? picked;
   const counts = map ? { curves: map.curves.length, points: map.points.length } : null;
@@ -149,7 +177,17 @@ export default function MapView(props: MapViewProps) {
             <div className="mp-picked" data-testid="map-picked" aria-live="polite">
               <p><strong>{picked.readout[0]}</strong> <button type="button" onClick={() => setPicked(null)}>Close</button></p>
               {picked.readout.slice(1).map((line, i) => <p key={i} className="num">{line}</p>)}
-              <p className="dg-muted">The one-parameter diagram at {names[1]} = {formatValue(picked.p[1])}: save a version of the model with {names[1]} set to this value and trace it.</p>
+              {props.start ? (
+                <p>
+                  <button type="button" onClick={() => void traceAt(picked.p[1])} disabled={tracing.busy} data-testid="map-trace-at">
+                    {tracing.busy ? 'Starting…' : `Trace the one-parameter diagram at ${names[1]} = ${formatValue(picked.p[1])}`}
+                  </button>{' '}
+                  <span className="dg-muted">saves a new version of the model (a copy of version {props.start.versionNumber} with {names[1]} = {String(picked.p[1])}) and traces it over {names[0]} from {String(map.ranges.first[0])} to {String(map.ranges.first[1])}.</span>
+                </p>
+              ) : (
+                <p className="dg-muted">The one-parameter diagram at {names[1]} = {formatValue(picked.p[1])}: a modeler can save a version with {names[1]} set to this value and trace it.</p>
+              )}
+              {tracing.error ? <p role="alert" className="dg-error">The trace was not started: {tracing.error}</p> : null}
             </div>
           ) : null}
           {warnings.length ? (
