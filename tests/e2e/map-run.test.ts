@@ -143,6 +143,17 @@ describe('a map run in the browser', () => {
     await page.unrouteAll();
   }, 60_000);
 
+  it('the printable report of the diagram run shows the map of its version', async () => {
+    const api = (await (await page.request.get(`${BASE_URL}/api/runs/${mapRunId}/map`)).json()) as { curves: { id: string }[] };
+    await page.goto(`${BASE_URL}/report?runs=${traceRunId}`);
+    const section = page.getByTestId('report-map');
+    expect(Number(await section.getAttribute('data-run-id'))).toBe(mapRunId);
+    expect(await section.locator('svg path[data-curve]').count()).toBe(api.curves.length);
+    expect(await section.textContent()).toContain(`run ${mapRunId}`);
+    await section.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: screenshotPath('map-run-report') });
+  }, 60_000);
+
   it('a reviewer sees no start button on a finished diagram run', async () => {
     const reviewer = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const p = await reviewer.newPage();

@@ -12,6 +12,7 @@ import type { Diagram } from '../../atlas/types.ts';
 import type { RegimeBand } from '../../regimes/types.ts';
 import { describeModel, type ModelDescription } from './model-description.ts';
 import { getRunEscapes, type StoredEscapeStudy } from '../escapes/repository.ts';
+import { getRunMap, type StoredRunMap } from '../maps/repository.ts';
 
 /** At most this many runs in one report. */
 export const REPORT_MAX_RUNS = 8;
@@ -30,6 +31,8 @@ export interface ReportRun {
   openComments: StoredComment[];
   /** The newest finished escape study of the same model version (docs/noise.md, "Views of an escape study"), or null. */
   escapes: StoredEscapeStudy | null;
+  /** The newest finished two-parameter map of the same model version (docs/maps.md, "Maps in the workspace"), or null. */
+  map: StoredRunMap | null;
 }
 
 export interface ReportChoice { id: number; modelId: number; modelName: string; versionNumber: number; finishedAt: string | null }
@@ -66,8 +69,12 @@ export async function gatherReport(workspaceId: string, runIds: readonly number[
       const studies = await listRuns(workspaceId, { modelId: stored.run.modelId, kind: 'escapes', status: 'done', pageSize: 50 });
       const study = studies.items.find((r) => r.versionId === stored.run.versionId);
       const escapes = study ? await getRunEscapes(workspaceId, study.id) : null;
+      const maps = await listRuns(workspaceId, { modelId: stored.run.modelId, kind: 'map', status: 'done', pageSize: 50 });
+      const mapRun = maps.items.find((r) => r.versionId === stored.run.versionId);
+      const map = mapRun ? await getRunMap(workspaceId, mapRun.id) : null;
       runs.push({
         escapes,
+        map,
         run: stored.run, engineVersion: stored.engineVersion, resultCreatedAt: stored.createdAt, diagram, regimes, tags, model,
         stateNames: diagram.variables?.length ? diagram.variables : (diagram.bifurcations[0]?.x ?? []).map((_, k) => `component ${k + 1}`),
         openComments,
