@@ -22,6 +22,11 @@ export interface StartRestriction {
 
 export interface StartingEquilibria {
   readonly points: Float64Array[];
+  /**
+   * Restricted starts only: equilibria at the far end of the sweep (p = to) from near-uniform
+   * guesses (farEndSeeds), traced like the others from there.
+   */
+  readonly farEnd?: Float64Array[];
   /** 'uncoupled' when built from per-node element equilibria, else 'multi-start'. */
   readonly method: 'uncoupled' | 'multi-start';
   readonly diagnostics: Diagnostic[];
@@ -91,7 +96,46 @@ export function findStartingEquilibria(system: CompiledSystem, from: number, s: 
     diagnostics.push({ level: 'warning', code: 'starting-points-capped', message: `${points.length} starting equilibria found; only the first ${s.maxStartingPoints} (maxStartingPoints) are traced` });
     points.length = s.maxStartingPoints;
   }
-  return { points, method, diagnostics, ...(restriction ? { restriction } : {}) };
+  const farEnd = restriction ? farEndSeeds(system, s, points.length < restriction.budget ? restriction.budget - points.length : 0) : [];
+  return { points, method, diagnostics, ...(restriction ? { restriction, farEnd } : {}) };
+}
+
+/**
+ * Seeds at the far end of the sweep for a restricted trace (docs/numerics.md §12): under strong
+ * diffusive coupling the network moves like one element, its equilibria near the uniform states
+ * x = c (1, ..., 1) with c a root of the mean element rate (1/n) sum_i f_i(c; to) (the coupling term
+ * vanishes on a uniform state; for unequal elements the states are only near uniform). The one
+ * between the base-like and tipped-like roots is the synchronous saddle, the all-base state's only
+ * exit in the strong regime, and its branch reaches p = from at a pattern with several threshold
+ * nodes that the restricted set need not hold. Newton's method at p = to from each uniform guess;
+ * converged, finite, distinct states, at most `room`.
+ */
+export function farEndSeeds(system: CompiledSystem, s: ResolvedTraceSettings, room: number): Float64Array[] {
+  const net = system.network;
+  if (!net || room <= 0) return [];
+  const n = system.dimension;
+  const p = s.to;
+  const mean = (x: number) => {
+    let v = 0;
+    for (let i = 0; i < n; i++) v += net.elementRate(i, x, p);
+    return v / n;
+  };
+  const slope = (x: number) => {
+    let v = 0;
+    for (let i = 0; i < n; i++) v += net.elementDerivative(i, x, p);
+    return v / n;
+  };
+  const roots = [...findScalarRoots(mean, slope, -s.rootSearchBound, s.rootSearchBound, { cells: s.rootSearchCells }).roots].sort((a, b) => a - b);
+  const out: Float64Array[] = [];
+  const seen = new DuplicateIndex();
+  for (const c of roots) {
+    if (out.length >= room) break;
+    const r = newton(system, new Float64Array(n).fill(c), p, { maxIterations: 60, stateBound: s.stateBound });
+    if (!r.converged || !r.x.every(Number.isFinite) || normInf(r.x) > s.stateBound || seen.has(r.x)) continue;
+    seen.add(r.x);
+    out.push(r.x);
+  }
+  return out;
 }
 
 /**

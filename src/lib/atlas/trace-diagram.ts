@@ -108,6 +108,14 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     y[n] = s.from;
     return { kind: 'start', y };
   });
+  // Restricted starts: the near-uniform states at the far end of the sweep (farEndSeeds).
+  for (const x of starts.farEnd ?? []) {
+    const y = new Float64Array(n + 1);
+    y.set(x);
+    y[n] = s.to;
+    tasks.push({ kind: 'start', y });
+  }
+  const farEndCount = starts.farEnd?.length ?? 0;
   let done = 0;
   let pointsSinceProgress = 0;
   let branchCapHit = false;
@@ -425,7 +433,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     if (cancelled || isCancelled()) { growth.stoppedBy = 'cancelled'; break; }
     if (tasks.length > 0) break;
     if (growth.rounds >= 3) { growth.stoppedBy = 'round-cap'; break; }
-    const room = Math.min(restriction.budget, s.maxStartingPoints) - starts.points.length - growth.states;
+    const room = Math.min(restriction.budget, s.maxStartingPoints) - starts.points.length - farEndCount - growth.states;
     const left = s.growthIntegrations - growth.integrations;
     if (room <= 0) { growth.stoppedBy = 'start-budget'; break; }
     if (left <= 0) { growth.stoppedBy = 'integration-cap'; break; }
@@ -470,7 +478,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     }
   }
   if (restriction) {
-    coverage = coverageOf(restriction, starts.points.length, restriction.budget, growth, untracedStarts, system.parameter);
+    coverage = coverageOf(restriction, starts.points.length, farEndCount, s.to, restriction.budget, growth, untracedStarts, system.parameter);
     diagnostics.push({ level: 'info', code: 'start-coverage', message: coverage.text });
   }
   if (neutralSaddles > 0) {
@@ -482,12 +490,13 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
 }
 
 /** The plain statement of what a restricted trace started from (Diagram.coverage). */
-function coverageOf(r: StartRestriction, startCount: number, budget: number, grown: StartCoverage['grown'], untraced: number, parameter: string): StartCoverage {
+function coverageOf(r: StartRestriction, startCount: number, farEnd: number, to: number, budget: number, grown: StartCoverage['grown'], untraced: number, parameter: string): StartCoverage {
   const k = r.maxOffBase;
   const c = r.counts;
   const near = c.nearAllTipped > 1 ? `, all-tipped and its ${formatCount(c.nearAllTipped - 1)} neighbouring saddles` : c.nearAllTipped === 1 ? ', all-tipped' : '';
   const capped = r.patterns < c.total ? ` (cut to the budget of ${formatCount(budget)})` : '';
   let text = `branches through patterns with at most ${k} node${k === 1 ? '' : 's'} off base (tipped or at the threshold; ${formatCount(c.withinK)} patterns, ${formatCount(c.stable)} of them stable at zero coupling)${near}: ${formatCount(r.patterns)} of ${r.of} patterns${capped}`;
+  if (farEnd > 0) text += `; ${farEnd} near-uniform state${farEnd === 1 ? '' : 's'} at ${parameter} = ${fmt([to])}`;
   const why: Record<StartCoverage['grown']['stoppedBy'], string> = {
     'nothing-new': 'nothing new was reached',
     'start-budget': 'the start budget was spent',
@@ -510,6 +519,7 @@ function coverageOf(r: StartRestriction, startCount: number, budget: number, gro
     maxOffBase: k,
     patterns: { withinK: c.withinK, stable: c.stable, nearAllTipped: c.nearAllTipped },
     starts: startCount,
+    farEnd,
     of: r.of,
     ofCount: r.ofCount,
     budget,

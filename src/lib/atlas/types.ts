@@ -65,8 +65,10 @@ export interface StartCoverage {
   readonly maxOffBase: number;
   /** Patterns selected at the sweep start: within k (of them stable at zero coupling), all-tipped and its neighbouring saddles. */
   readonly patterns: { readonly withinK: number; readonly stable: number; readonly nearAllTipped: number };
-  /** Starting equilibria (Newton-refined patterns, plus the document's start guesses) handed to the trace. */
+  /** Starting equilibria at the sweep start (Newton-refined patterns, plus the document's start guesses). */
   readonly starts: number;
+  /** Near-uniform equilibria at the sweep end (strong-coupling seeds) traced as well. */
+  readonly farEnd: number;
   /** The whole pattern space, e.g. "3^20", and its size. */
   readonly of: string;
   readonly ofCount: number;

@@ -223,6 +223,27 @@ describe('traceDiagram with startSelection restricted', () => {
     });
   }, 300_000);
 
+  let ringK2Diagram: Diagram;
+  let ringK2: RegimeResult;
+  beforeAll(() => { ringK2Diagram = traceDiagram(ringSystem, { startSelection: 'restricted', startBudget: 86 }); }, 300_000);
+  beforeAll(() => { ringK2 = labelRegimes(ringSystem, ringK2Diagram); }, 300_000);
+
+  it('on the 6-node ring with k = 2, reaches the strong band through the near-uniform seeds at the sweep end', () => {
+    // The mean element 0.1 + c - c^3 (the r_i average 0.1) has three roots (0.1 < 2 / (3 sqrt 3)), so
+    // three near-uniform states at beta = 1; the middle one is the synchronous saddle of the strong band.
+    expect(ringK2Diagram.coverage).toMatchObject({ maxOffBase: 2, starts: 80, farEnd: 3 });
+    expect(ringK2Diagram.coverage!.text).toContain('3 near-uniform states at beta = 1');
+    const strong = ringK2.regimes.filter((b) => b.regime === 'strong');
+    expect(strong.length).toBeGreaterThan(0);
+    expect(strong.at(-1)!.to).toBe(1);
+    // No strong label the full trace does not give: at the middle of each restricted strong band the
+    // full trace's band is strong too.
+    for (const b of strong) {
+      const mid = 0.5 * (b.from + b.to);
+      expect(ringFull.regimes.find((f) => f.from <= mid && mid <= f.to)?.regime, `at beta = ${mid}`).toBe('strong');
+    }
+  }, 300_000);
+
   it('on a 20-node sparse network starts from the restricted set only and states its coverage', () => {
     const system = compileModelJson(cubicDoc(20, ringWithChords(20), 0.5));
     // Budget 90 with 20 reserved: k = 1 (62 patterns: all-base, 20 tipped and 20 at the threshold, all-tipped and its 20 neighbours).
@@ -232,7 +253,7 @@ describe('traceDiagram with startSelection restricted', () => {
     expect(starts.restriction).toMatchObject({ maxOffBase: 1, of: '3^20', ofCount: 3 ** 20, patterns: 62 });
     const d = traceDiagram(system, settings);
     expect(d.coverage).toMatchObject({ mode: 'restricted', maxOffBase: 1, starts: 62, of: '3^20', budget: 90, untraced: 0 });
-    expect(d.coverage!.starts + d.coverage!.grown.states).toBeLessThanOrEqual(90);
+    expect(d.coverage!.starts + d.coverage!.farEnd + d.coverage!.grown.states).toBeLessThanOrEqual(90);
     expect(d.coverage!.text).toContain('at most 1 node off base');
     expect(d.coverage!.text).toContain('62 of 3^20 patterns');
     expect(d.diagnostics.find((g) => g.code === 'start-coverage')?.message).toBe(d.coverage!.text);
