@@ -18,7 +18,7 @@ import { compileModelJson } from '../src/lib/model/index.js';
 import { cpus, loadavg } from 'node:os';
 import { LuDecomposition, Matrix } from 'ml-matrix';
 import { findStartingEquilibria } from '../src/lib/atlas/starting-equilibria.js';
-import { defaultTraceSettings } from '../src/lib/atlas/trace-settings.js';
+import { defaultTraceSettings, type TraceSettings } from '../src/lib/atlas/trace-settings.js';
 import { labelRegimes } from '../src/lib/regimes/index.js';
 import { labelRegimesByMidpoint } from '../src/lib/regimes/midpoint-labeller.js';
 import { onsetSection } from './bench-onset.js';
@@ -342,10 +342,18 @@ function cubicDoc(name: string, nodes: number, links: { from: number; to: number
   };
 }
 const chain = (k: number, twoWay: boolean) => Array.from({ length: k - 1 }, (_, i) => ({ from: i, to: i + 1, twoWay }));
+/** Sparse ring with chords: node i links to i + 1 and i + 5 (mod k), one way; mean degree 4 counting both ends. */
+const ringWithChords = (k: number) => Array.from({ length: k }, (_, i) => [{ from: i, to: (i + 1) % k }, { from: i, to: (i + 5) % k }]).flat();
+/** Bands of a labelling in words: how many and which regimes, and how much of the sweep is labelled. */
+function labelled(r: ReturnType<typeof labelRegimes>): string {
+  const kinds = [...new Set(r.regimes.map((b) => b.regime))].join('/');
+  const covered = r.regimes.filter((b) => (b.start ?? 'all-base') === 'all-base').reduce((q, b) => q + (b.to - b.from), 0);
+  return `${r.regimes.length} bands (${kinds || 'none'}), ${fmt(100 * covered, 3)} % of the sweep labelled`;
+}
 const allToAll = (k: number) => Array.from({ length: k }, (_, i) => Array.from({ length: k - i - 1 }, (_, j) => ({ from: i, to: i + j + 1, twoWay: true }))).flat();
 
 /**
- * Issue 12, goals 1 and 3: whole trace with bands (traceDiagram + labelRegimes, as the CLI's
+ * Issue 12, goals 1, 3 and 4: whole trace with bands (traceDiagram + labelRegimes, as the CLI's
  * `trace` runs them) against the grid sweep a modeler would script (4,000 parameter values, one
  * Newton solve per start and value on ml-matrix's LU, stopped where Newton fails or jumps), in the
  * same process: best of 3 after an untimed run of each side for the 4-node network, one run for the
@@ -354,7 +362,7 @@ const allToAll = (k: number) => Array.from({ length: k }, (_, i) => Array.from({
  * starting equilibrium on a traced branch, every fold the grid detects matched by a traced saddle-node.
  */
 const goalsSection: BenchSection = {
-  title: 'Whole diagram with bands, issue 12 goals 1 and 3: engine trace + labelling vs 4,000-value grid sweep (same process)',
+  title: 'Whole diagram with bands, issue 12 goals 1, 3 and 4: engine trace + labelling vs 4,000-value grid sweep (same process)',
   run() {
     const warm = compileModelJson(cubicDoc('warm-up', 3, chain(3, false)));
     labelRegimes(warm, traceDiagram(warm));
@@ -364,14 +372,20 @@ const goalsSection: BenchSection = {
       { key: '6-node two-way chain', doc: cubicDoc('6 nodes two-way chain (invented)', 6, chain(6, true)), goal: 0.3, grid: true },
       // The whole trace of 3^8 starts needs more than the default branch cap (maxBranches 400).
       { key: '8-node one-way chain', doc: cubicDoc('8 nodes one-way chain (invented)', 8, chain(8, false)), goal: 60_000, grid: false, settings: { maxBranches: 100_000 } },
-    ];
+      // Goal 4 (docs/numerics.md §12): beyond 3^8 patterns the restricted starts, no time goal; the
+      // grid runs from the same starts at beta = 0. 20 nodes at the default startBudget with the branch
+      // cap lifted (822 starts, k = 2); 32 nodes at a budget of 200 (k = 1, 98 starts).
+      // BENCH_SKIP_LARGE=1 leaves both out.
+      { key: '20-node sparse ring', doc: cubicDoc('20 nodes, ring with chords (invented)', 20, ringWithChords(20)), goal: Number.NaN, grid: true, restricted: true, settings: { maxBranches: 100_000 } },
+      { key: '32-node sparse ring', doc: cubicDoc('32 nodes, ring with chords (invented)', 32, ringWithChords(32)), goal: Number.NaN, grid: true, restricted: true, settings: { maxBranches: 100_000, startBudget: 200 } },
+    ] as { key: string; doc: ReturnType<typeof cubicDoc>; goal: number; grid: boolean; restricted?: boolean; settings?: Partial<TraceSettings> }[];
     const widths = [22, 6, 7, 8, 9, 9, 9, 9, 8, 8, 8, 10, 7, 7];
     console.log(row(['network', 'starts', 'branch', 'points', 'trace ms', 'label ms', 'whole ms', 'grid ms', 'trace x', 'label x', 'whole x', 'fold err', 'starts', 'grid'], widths));
     const lines: string[] = [];
     // BENCH_SKIP_8=1 leaves out the 8-node case (about 3 minutes on this machine).
-    for (const c of cases.filter((q) => !(process.env.BENCH_SKIP_8 === '1' && q.key.startsWith('8')))) {
+    for (const c of cases.filter((q) => !(process.env.BENCH_SKIP_8 === '1' && q.key.startsWith('8')) && !(process.env.BENCH_SKIP_LARGE === '1' && q.restricted))) {
       const system = compileModelJson(c.doc);
-      const starts = findStartingEquilibria(system, system.sweep.from, { ...defaultTraceSettings, from: 0, to: 1 }).points;
+      const starts = findStartingEquilibria(system, system.sweep.from, { ...defaultTraceSettings, from: 0, to: 1, ...(c.settings ?? {}) }).points;
       // Sub-second cases: one untimed run of each side, then the best of 3 (JIT warm-up would
       // otherwise dominate); the 6- and 8-node cases run once, after the 3-node warm-up above.
       const small = system.dimension <= 4;
@@ -420,7 +434,13 @@ const goalsSection: BenchSection = {
       console.log(row([c.key, starts.length, diagram.branches.length, points, fmt(tTrace.ms, 4), fmt(tLabel.ms, 4), fmt(whole, 4), fmt(gridMs, 4), fmt(tTrace.ms / gridMs, 3), fmt(tLabel.ms / gridMs, 3), fmt(whole / gridMs, 3), fmt(foldErr, 2), `${onBranch}/${starts.length}`, gridMatched], widths));
       const capped = diagram.diagnostics.some((d) => d.code === 'branch-cap' || d.code === 'starting-points-capped');
       const exact = foldErr <= 1e-10 && onBranch === starts.length && !capped;
-      if (c.grid) {
+      if (c.restricted) {
+        const cov = diagram.coverage;
+        const n = system.dimension;
+        const none = !!cov && cov.starts + cov.farEnd + cov.grown.states < 3 ** n && cov.untraced === 0;
+        lines.push(`  goal 4, ${c.key} (${n} nodes, mean degree 4): no enumeration of 3^${n} -> ${none ? 'met' : 'NOT met'} (${starts.length} starts${cov ? ` + ${cov.farEnd} at the sweep end + ${cov.grown.states} grown` : ''}; whole ${fmt(whole / 1000, 3)} s: trace ${fmt(tTrace.ms / 1000, 3)} s + labelling ${fmt(tLabel.ms / 1000, 3)} s; grid from the same starts ${fmt(gridMs / 1000, 3)} s, whole ${fmt(whole / gridMs, 3)}x; ${labelled(tLabel.value)})`);
+        lines.push(`    coverage: ${cov ? cov.text : 'none (every pattern enumerated)'}`);
+      } else if (c.grid) {
         lines.push(`  goal 1, ${c.key}: whole trace with bands <= ${c.goal}x the grid (wall time) -> ${whole / gridMs <= c.goal && exact ? 'met' : 'NOT met'} (wall ${fmt(whole / gridMs, 3)}x: trace ${fmt(tTrace.ms / gridMs, 3)}x + labelling ${fmt(tLabel.ms / gridMs, 3)}x; CPU ${fmt(wholeCpu / gridCpu, 3)}x: trace ${fmt(tTrace.cpu / gridCpu, 3)}x + labelling ${fmt(tLabel.cpu / gridCpu, 3)}x; folds to ${fmt(foldErr, 2)}, ${onBranch}/${starts.length} starts on branches${capped ? ', branch cap hit' : ''})`);
       } else {
         lines.push(`  goal 3, ${c.key} (${starts.length} starts, maxBranches lifted to ${c.settings?.maxBranches}): whole trace with bands < 60 s -> ${whole < c.goal && exact ? 'met' : 'NOT met'} (${fmt(whole / 1000, 3)} s: trace ${fmt(tTrace.ms / 1000, 3)} s + labelling ${fmt(tLabel.ms / 1000, 3)} s; folds to ${fmt(foldErr, 2)}, ${onBranch}/${starts.length} starts on branches${capped ? ', branch cap hit' : ''})`);
