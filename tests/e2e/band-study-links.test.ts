@@ -78,13 +78,15 @@ describe('band links to the escape studies of the same version', () => {
         if (want.at) {
           withValue++;
           expect(Number(await item.getAttribute('data-at')), `${model.name}, band ${k + 1}`).toBe(want.at.p);
-          expect(await item.textContent()).toContain(`${formatValue(want.at.p, 6)}, its stored value nearest`);
+          expect(await item.textContent()).toContain(`${formatValue(want.at.p, 6)} (its stored value in this band nearest`);
           const top = [...want.at.orders].sort((a, b) => (b.probability ?? -1) - (a.probability ?? -1))[0];
-          expect(await item.getByTestId('band-study-orders').locator('li').first().textContent()).toContain(top.order.join(' → '));
+          expect(await item.getByTestId('band-study-orders').locator('tbody tr').first().textContent()).toContain(top.order.join(' → '));
         } else {
           expect(await item.getByTestId('band-study-none').textContent()).toBe('This study has no stored value inside this band.');
         }
         if (mi === 1 && k === 0) {
+          // The link focused by keyboard, so the screenshots show its focus ring.
+          await item.getByTestId('band-study-link').focus();
           await item.scrollIntoViewIfNeeded();
           for (const theme of ['light', 'dark'] as const) {
             await setTheme(theme);

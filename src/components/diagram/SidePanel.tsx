@@ -112,14 +112,15 @@ function BandStudies({ band, studies, graphP, parameter }: { band: RegimeBand; s
           <li key={l.runId} data-testid="band-study" data-run={l.runId} data-at={l.at?.p ?? ''}>
             <a href={l.href} data-testid="band-study-link">{l.label}</a>
             {l.at ? (
-              <>
-                <p className="dg-muted">Predicted escape order (weak noise) at the study’s {parameter} = {formatValue(l.at.p, 6)}, its stored value nearest to this band’s {formatValue(l.representative, 6)}:</p>
-                <ol className="dg-study-orders" data-testid="band-study-orders">
-                  {l.at.orders.map((o, k) => (
-                    <li key={k}><span>{o.order.join(' → ')}</span> <span className="num">{o.probability === null ? '(probability not available)' : `(probability ${formatValue(o.probability, 3)})`}</span></li>
-                  ))}
-                </ol>
-              </>
+                <table className="dg-exits dg-study-orders" data-testid="band-study-orders">
+                  <caption className="dg-muted">Weak-noise prediction at the study’s {parameter} = {formatValue(l.at.p, 6)} (its stored value in this band nearest to the band’s representative {parameter} = {formatValue(l.representative, 6)})</caption>
+                  <thead><tr><th scope="col">Escape order</th><th scope="col">Probability</th></tr></thead>
+                  <tbody>
+                    {l.at.orders.map((o, k) => (
+                      <tr key={k}><td>{o.order.join(' → ')}</td><td className="num">{o.probability === null ? '—' : formatValue(o.probability, 3)}</td></tr>
+                    ))}
+                  </tbody>
+                </table>
             ) : <p className="dg-muted" data-testid="band-study-none">This study has no stored value inside this band.</p>}
           </li>
         ))}

@@ -82,7 +82,8 @@ describe('SidePanel band links', () => {
     expect(weak).toContain('Escape study (noise σ = 0.45)');
     expect(weak).toMatch(/data-at="0.05"/);
     expect(weak).toContain('upper → middle → lower');
-    expect(weak).toContain('(probability 0.7)');
+    expect(weak).toContain('<td class="num">0.7</td>');
+    expect(weak).toContain('at the study’s beta = 0.05 (its stored value in this band');
     const intermediate = render(1, studies);
     expect(intermediate).toMatch(/data-at="0.25"/);
   });

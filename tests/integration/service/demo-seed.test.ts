@@ -47,7 +47,7 @@ describe('seeds/03_demo_escape_studies.ts', () => {
     for (const m of models) {
       // The seeded study: created by the modeler with the file's seed (browser tests start others with other seeds).
       const runs = await db('runs').where({ model_id: m.id, kind: 'escapes', created_by: modeler.id }).orderBy('id');
-      const seeded = runs.filter((r) => JSON.parse(r.settings).seed === file.settings.seed);
+      const seeded = runs.filter((r) => (typeof r.settings === 'string' ? JSON.parse(r.settings) : r.settings).seed === file.settings.seed);
       expect(seeded, `${m.name}: one seeded escape study`).toHaveLength(1);
       const run = seeded[0];
       expect(run.status, `${m.name}: status`).toBe('done');
