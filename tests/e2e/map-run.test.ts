@@ -163,6 +163,14 @@ describe('a map run in the browser', () => {
     expect(await p.getByTestId('run-diagram').count()).toBe(1);
     expect(await p.getByTestId('start-map-open').count()).toBe(0);
     expect(await p.getByTestId('start-map').count()).toBe(0);
+    // Nor on the model page, where the modeler has one for the latest version.
+    const modelId = (await (await page.request.get(`${BASE_URL}/api/runs/${traceRunId}`)).json()).run.modelId as number;
+    await p.goto(`${BASE_URL}/models/${modelId}`);
+    await hydrated(p);
+    expect(await p.getByTestId('start-map').count()).toBe(0);
     await reviewer.close();
+    await page.goto(`${BASE_URL}/models/${modelId}`);
+    await hydrated(page);
+    expect(await page.getByTestId('start-map-open').count()).toBe(1);
   }, 60_000);
 });
