@@ -1,8 +1,10 @@
 export { compileTwoParameter, withSecond, type TwoParameterSystem, type TwoParameterOptions } from './two-parameter-system.js';
 export { continueCurve, correctOn, curveTangent, startTangent, type ExtendedSystem, type CurveOptions, type CurveEnd, type CurvePoint, type CurveDirection } from './curve-continuation.js';
 export { SaddleNodeSystem } from './saddle-node-curve.js';
+export { HopfSystem } from './hopf-curve.js';
 export { SymmetricBranchPointSystem, findSymmetry, type Symmetry } from './branch-point-curve.js';
-export { traceMap, defaultMapSettings, type MapSettings, type MapCurve, type MapCurvePoint, type MapPoint, type MapRegion, type TwoParameterMap, type MapHooks } from './trace-map.js';
+export { traceMap } from './trace-map.js';
+export { defaultMapSettings, type MapSettings, type MapCurve, type MapCurveType, type MapCurvePoint, type MapPoint, type MapPointType, type MapRegion, type TwoParameterMap, type MapHooks } from './map-types.js';
 export { saddleNodesAt, type SlicePoint } from './slice.js';
 export { EquilibriumSystem } from './equilibrium-system.js';
 export { MAP_ENGINE_VERSION } from './map-version.js';
