@@ -21,6 +21,8 @@ import ChartExport from './ChartExport';
 import '../diagram/diagram.css';
 import './escapes.css';
 
+interface ValueProgress { p: number; paths: number; pathsDone: number; status: string }
+
 interface Loaded {
   study: (EscapeStudyView['study'] & { engineVersion?: string; createdAt?: string }) | null;
   points: EscapePoint[];
@@ -106,6 +108,8 @@ export default function EscapeView(props: EscapeViewProps) {
   const [palette, setPalette] = useState<{ pal: PlotPalette; dark: boolean } | null>(null);
   const [at, setAt] = useState<number | null>(null);
   const [picked, setPicked] = useState<string | null>(null);
+  /** Paths done per value while the run goes on (the worker's progress_detail, /api/runs/:id/progress). */
+  const [values, setValues] = useState<ValueProgress[] | null>(null);
   const [wrapRef, width] = useWidth<HTMLDivElement>(720);
   const rootRef = useRef<HTMLDivElement>(null);
 
@@ -127,6 +131,13 @@ export default function EscapeView(props: EscapeViewProps) {
     let timer: number | undefined;
     const tick = async () => {
       const status = await load();
+      if (status === 'queued' || status === 'running') {
+        try {
+          const res = await fetch(`/api/runs/${props.runId}/progress`, { headers: { Accept: 'application/json' } });
+          const body = res.ok ? ((await res.json()) as { progress?: { detail?: { values?: ValueProgress[] } | null } }) : null;
+          if (!stopped && Array.isArray(body?.progress?.detail?.values)) setValues(body!.progress!.detail!.values!);
+        } catch { /* the progress bar above says what the run does */ }
+      } else if (!stopped) setValues(null);
       if (!stopped && (status === 'queued' || status === 'running')) timer = window.setTimeout(tick, 3000);
     };
     void tick();
@@ -161,6 +172,23 @@ export default function EscapeView(props: EscapeViewProps) {
       <div ref={wrapRef} className="es-width" />
       {error ? <p role="alert" className="dg-error">{error} <button type="button" onClick={() => void load()}>Try again</button></p> : null}
       {!data && !error ? <p className="dg-muted">Loading the escape study…</p> : null}
+      {values && values.length ? (
+        <section className="es-section" aria-labelledby="es-values-h" data-testid="escape-progress-values">
+          <h3 id="es-values-h" className="dg-title" style={{ flexBasis: 'auto' }}>Paths done per value</h3>
+          <ul className="es-values">
+            {values.map((v, i) => {
+              const pct = Math.round((100 * Math.min(v.paths, v.pathsDone)) / Math.max(1, v.paths));
+              return (
+                <li key={i} data-status={v.status}>
+                  <span className="num">{view?.parameter ?? props.parameter} = {formatValue(v.p)}</span>
+                  <span className="es-value-bar" role="progressbar" aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct} aria-label={`${view?.parameter ?? props.parameter} = ${formatValue(v.p)}`}><span style={{ width: `${pct}%` }} /></span>
+                  <span className="dg-muted">{v.status === 'skipped' ? 'no study possible here' : `${v.pathsDone} of ${v.paths} paths${v.status === 'done' ? ', done' : v.status === 'running' ? ', running' : ''}`}</span>
+                </li>
+              );
+            })}
+          </ul>
+        </section>
+      ) : null}
       {data && done.length === 0 ? <p className="dg-muted" data-testid="escape-empty">No parameter value is finished yet; the charts fill in as values finish.</p> : null}
       {data && done.length > 0 ? CHARTS.map((c) => {
         const fig = screen(c.kind);
