@@ -143,7 +143,7 @@ describe('escape study views', () => {
     await section.screenshot({ path: screenshotPath('escape-study-views-report') });
   });
 
-  it('compares two studies on one axis, and keeps a diagram run out of a comparison of studies', async () => {
+  it('compares two studies on one axis, and leaves the studies out when they are ticked with a diagram run', async () => {
     const start = await page.request.post(`${BASE_URL}/api/runs`, { data: { modelId, kind: 'escapes', settings: { noise: 0.5, values: [0.05, 0.1], paths: 100, seed: 6 } } });
     expect(start.status(), await start.text()).toBe(201);
     const other = ((await start.json()) as { run: { id: number } }).run.id;
