@@ -423,7 +423,19 @@ export class RunWorker {
         return;
       }
       if (output) {
-        const ok = await completeMapRun(run, this.owner, output);
+        let ok: boolean;
+        try {
+          ok = await completeMapRun(run, this.owner, output);
+        } catch (e) {
+          // A map larger than the server's max_allowed_packet fails the same way on every attempt.
+          if ((e as { errno?: number }).errno !== 1153) throw e;
+          const mb = (output.mapBlob.byteLength / 1048576).toFixed(1);
+          const error = { code: 'result-too-large', message: `the map (${mb} MB deflated, ${output.curvePointCount} curve points) is larger than the database accepts in one statement (max_allowed_packet); narrow the ranges or lower maxPointsPerCurve or maxCurves` };
+          const status = await failRun(run, this.owner, error, false);
+          log(`run ${run.id}: ${error.message}`);
+          if (status === 'failed') await this.notify(run, 'failed');
+          return;
+        }
         log(`run ${run.id}: ${ok ? `done (map: ${output.curveCount} curves, ${output.curvePointCount} curve points, ${output.pointCount} codimension-two points, ${output.computeMs} ms; ${output.mapBlob.byteLength} bytes stored of ${output.jsonBytes} bytes of JSON)` : 'finished but no longer ours; discarded'}`);
         if (ok) await this.notify(run, 'done');
         return;
