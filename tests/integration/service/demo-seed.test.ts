@@ -12,6 +12,7 @@ import { diagramOfResultRow } from '../../../src/lib/server/results/stored-diagr
 import { signedInClient } from '../helpers.ts';
 import { ws } from './fixtures.ts';
 import type { EscapePoint } from '../../../src/lib/server/escapes/rows.ts';
+import { listVersionStudies } from '../../../src/lib/server/escapes/repository.ts';
 
 closeDbAfterAll(afterAll);
 
@@ -78,6 +79,29 @@ describe('seeds/03_demo_escape_studies.ts', () => {
       const csv = await client.get(ws(`/api/runs/${run.id}/escapes.csv`, DEMO.workspace.id));
       expect(csv.status).toBe(200);
       expect(csv.text.split('\n').filter((l) => l.startsWith('value,')).length, `${m.name}: one CSV value line per value`).toBe(file.settings.values.length);
+    }
+  });
+
+  it('listVersionStudies (the band links) finds the seeded study of each version, in the demo workspace only', async () => {
+    const file = JSON.parse(readFileSync('seeds/demo-escape-studies.json', 'utf8')) as { settings: { values: number[]; seed: number } };
+    const models = await db('models').where({ workspace_id: DEMO.workspace.id }).andWhere('name', 'like', 'Fenn lakes:%').orderBy('id');
+    for (const m of models) {
+      const version = await db('model_versions').where({ model_id: m.id, number: 1 }).first('id');
+      const runs = await db('runs').where({ model_version_id: version.id, kind: 'escapes', status: 'done' }).select('id', 'settings');
+      const seeded = runs.find((r) => (typeof r.settings === 'string' ? JSON.parse(r.settings) : r.settings).seed === file.settings.seed)!;
+      const studies = await listVersionStudies(DEMO.workspace.id, version.id);
+      const mine = studies.find((s) => s.runId === seeded.id);
+      expect(mine, `${m.name}: the seeded study is listed`).toBeTruthy();
+      expect(mine!.points.map((p) => p.p)).toEqual(file.settings.values);
+      for (const pt of mine!.points) {
+        expect(pt.orders.length).toBeGreaterThan(0);
+        expect(pt.orders.length).toBeLessThanOrEqual(3);
+        const probs = pt.orders.map((o) => o.probability ?? -1);
+        expect(probs, 'most probable first').toEqual([...probs].sort((a, b) => b - a));
+      }
+      // Newest run first; one entry per stored study.
+      expect(studies.map((s) => s.runId)).toEqual([...studies.map((s) => s.runId)].sort((a, b) => b - a));
+      expect(await listVersionStudies('no-such-workspace-0000', version.id)).toEqual([]);
     }
   });
 });
