@@ -96,7 +96,8 @@ export function findStartingEquilibria(system: CompiledSystem, from: number, s: 
     diagnostics.push({ level: 'warning', code: 'starting-points-capped', message: `${points.length} starting equilibria found; only the first ${s.maxStartingPoints} (maxStartingPoints) are traced` });
     points.length = s.maxStartingPoints;
   }
-  const farEnd = restriction ? farEndSeeds(system, s, points.length < restriction.budget ? restriction.budget - points.length : 0) : [];
+  // The far-end seeds count against the budget and against maxStartingPoints like every start.
+  const farEnd = restriction ? farEndSeeds(system, s, Math.min(restriction.budget, s.maxStartingPoints) - points.length) : [];
   return { points, method, diagnostics, ...(restriction ? { restriction, farEnd } : {}) };
 }
 
