@@ -13,7 +13,7 @@ import { formatValue, linearAxis, type LinearAxis } from './ticks';
 import { thinToBudget } from './thin';
 import type { MapDocumentView } from './map-types';
 import { regionPieces } from './map-regions';
-import { MAP_CURVE_LABEL, MAP_CURVE_STYLE, MAP_CURVE_TYPES, MAP_POINT_LABEL, MAP_POINT_TYPES, mapCurveColour, mapPointColour, mapPointPath } from './map-glyphs';
+import { MAP_CURVE_LABEL, MAP_CURVE_STYLE, MAP_CURVE_TYPES, MAP_POINT_TYPES, mapCurveColour, mapPointColour, mapPointLabel, mapPointPath } from './map-glyphs';
 import { REGIME_LABEL } from './figure';
 import type { Regime } from '../regimes/types';
 
@@ -151,7 +151,7 @@ export function buildMapFigure(input: MapFigureInput): MapFigure {
     items.push({ t: 'path', d: mapPointPath(pt.type, cx, cy, 8), fill: mapPointColour(pt.type, pal), stroke: pal.paper, strokeWidth: 1.3, clip: true, data: { point: pt.id, type: pt.type } });
     marks.push({
       id: pt.id, kind: 'point', type: pt.type, cx: r2(cx), cy: r2(cy), p: pt.p,
-      readout: mapReadout(names, `${MAP_POINT_LABEL[pt.type]} point ${pt.id} (on ${pt.curves.join(', ')})`, pt.p, pt.x, input.variables, [String(pt.evidence.reason)]),
+      readout: mapReadout(names, `${mapPointLabel(pt.type)} point ${pt.id} (on ${pt.curves.join(', ')})`, pt.p, pt.x, input.variables, [String(pt.evidence.reason)]),
     });
   }
 
@@ -185,10 +185,10 @@ export function buildMapFigure(input: MapFigureInput): MapFigure {
     const style = MAP_CURVE_STYLE[type];
     legendItem((x, y) => items.push({ t: 'path', d: `M${x},${y}h24`, stroke: mapCurveColour(type, pal.marker), strokeWidth: style.width, dash: style.dash ? [...style.dash] : undefined, linecap: style.linecap, fill: 'none' }), MAP_CURVE_LABEL[type], type);
   }
-  const pointTypes = new Set(map.points.map((p) => p.type));
-  for (const type of MAP_POINT_TYPES) {
-    if (!pointTypes.has(type)) continue;
-    legendItem((x, y) => items.push({ t: 'path', d: mapPointPath(type, x + 12, y, 7), fill: mapPointColour(type, pal) }), `${MAP_POINT_LABEL[type]} point`, type);
+  const pointTypes = new Set<string>(map.points.map((p) => p.type));
+  const known = new Set<string>(MAP_POINT_TYPES);
+  for (const type of [...MAP_POINT_TYPES.filter((t) => pointTypes.has(t)), ...[...pointTypes].filter((t) => !known.has(t)).sort()]) {
+    legendItem((x, y) => items.push({ t: 'path', d: mapPointPath(type, x + 12, y, 7), fill: mapPointColour(type, pal) }), `${mapPointLabel(type)} point`, type);
   }
   for (const regime of ['weak', 'intermediate', 'strong'] as Regime[]) {
     if (!byRegime.has(regime)) continue;

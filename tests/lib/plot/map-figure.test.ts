@@ -59,9 +59,19 @@ describe('buildMapFigure(input)', () => {
   });
 });
 
+describe('buildMapFigure with a point type the view does not know', () => {
+  it('draws it with the fallback glyph, names it by its words in the legend and the readout', () => {
+    const other = { ...map, points: [{ ...map.points[0], id: 'q1', type: 'degenerate-pitchfork' as never }] };
+    const fig = buildMapFigure({ map: other });
+    expect(fig.items.filter((p) => p.data?.point === 'q1')).toHaveLength(1);
+    expect(fig.items.some((p) => p.t === 'text' && p.text === 'Degenerate pitchfork point')).toBe(true);
+    expect(fig.marks.find((m) => m.id === 'q1')!.readout[0]).toBe('Degenerate pitchfork point q1 (on sn1, hopf1)');
+  });
+});
+
 describe('mapPointPath(type, cx, cy, r)', () => {
   it('differs from every one-parameter glyph and between the point types', () => {
-    const own = MAP_POINT_TYPES.map((t) => mapPointPath(t, 0, 0, 8));
+    const own = [...MAP_POINT_TYPES, 'some-other-type'].map((t) => mapPointPath(t, 0, 0, 8));
     expect(new Set(own).size).toBe(own.length);
     for (const t of SPECIAL_TYPES) for (const d of own) expect(d).not.toBe(markerPath(t, 0, 0, 8));
   });

@@ -3,7 +3,7 @@
  * curve's id and type, both parameter values, the Hopf frequency (empty elsewhere) and the state.
  * Pure (no database), shared by the API route and the tests.
  */
-import type { MapDocument } from './compute.ts';
+import type { MapDocumentView } from '../../plot/map-types.ts';
 
 const cell = (v: unknown): string => {
   if (v === null || v === undefined) return '';
@@ -12,7 +12,7 @@ const cell = (v: unknown): string => {
 };
 
 /** `variables` names the state columns (x_<name>); without it, x1..xn. */
-export function mapToCsv(map: MapDocument, provenance: Record<string, string | number>, variables?: readonly string[]): string {
+export function mapToCsv(map: Pick<MapDocumentView, 'parameters' | 'curves'>, provenance: Record<string, string | number>, variables?: readonly string[]): string {
   const lines: string[] = ['# Brinkmap two-parameter map: curve points'];
   for (const [k, v] of Object.entries(provenance)) lines.push(`# ${k}: ${String(v).replace(/\n/g, ' ')}`);
   lines.push('# Model results are indicative; defer to domain experts and local regulation.');

@@ -56,8 +56,8 @@ describe('mapParameterChoices(document)', () => {
 describe('mapToCsv(map, provenance, variables)', () => {
   it('writes one row per curve point with the state columns named after the variables', () => {
     const csv = mapToCsv({
-      parameters: ['beta', 'r'], ranges: { first: [0, 1], second: [0, 1] }, points: [], regions: [], diagnostics: [],
-      curves: [{ id: 'h1', type: 'hopf', points: [{ p: [0.5, 0.1], x: [1, -1], frequency: 0.3 }, { p: [0.6, 0.2], x: [2, -2], frequency: 0.2 }], ends: ['parameter-bound', 'parameter-bound'], seed: { second: 0.1, p: 0.5, x: [1, -1] } }],
+      parameters: ['beta', 'r'],
+      curves: [{ id: 'h1', type: 'hopf', points: [{ p: [0.5, 0.1], x: [1, -1], frequency: 0.3 }, { p: [0.6, 0.2], x: [2, -2], frequency: 0.2 }] }],
     }, { model: 'a, "quoted" model' }, documentVariables(pair));
     const lines = csv.trim().split('\n');
     // Provenance lines are comments, written as they are (as the escape study's CSV does).
