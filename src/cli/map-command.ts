@@ -28,7 +28,8 @@ Prints JSON (or writes it to FILE):
     "diagnostics": [ { "level": "info", "code": "..", "message": ".." } ] }
 Curve types: "saddle-node", "hopf" (points add "frequency"), "pitchfork". Point types: "cusp",
 "bogdanov-takens" (a saddle-node curve meets a Hopf curve; listed once with both curves),
-"saddle-node-meets-pitchfork" (the symmetric branch folds on a pitchfork curve).
+"saddle-node-meets-pitchfork" (the symmetric branch folds on a pitchfork curve),
+"degenerate-pitchfork" (the pitchfork changes side; an asymmetric saddle-node curve ends there).
 
 Options:
   --second NAME    the second parameter (required): the coupling parameter or an element

@@ -68,10 +68,10 @@ export interface MapCurve {
   readonly points: MapCurvePoint[];
   readonly ends: [CurveEnd, CurveEnd];
   /** The one-parameter special point it was continued from (at first = p, second = second), and which parameter that diagram swept. */
-  readonly seed: { readonly second: number; readonly p: number; readonly x: number[]; readonly swept: 'first' | 'second' };
+  readonly seed: { readonly second: number; readonly p: number; readonly x: number[]; readonly swept?: 'first' | 'second' };
 }
 
-export type MapPointType = 'cusp' | 'bogdanov-takens' | 'saddle-node-meets-pitchfork';
+export type MapPointType = 'cusp' | 'bogdanov-takens' | 'saddle-node-meets-pitchfork' | 'degenerate-pitchfork';
 
 export interface MapPoint {
   readonly id: string;

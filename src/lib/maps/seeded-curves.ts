@@ -300,5 +300,24 @@ export function branchPointCurve(
       },
     });
   }
+  // Degenerate pitchfork: the cubic coefficient changes sign (a saddle-node curve of asymmetric states ends here).
+  const cubic = ys.map((y) => ext.cubicCoefficient(y));
+  for (let i = 0; i + 1 < ys.length; i++) {
+    if (!(Number.isFinite(cubic[i]) && Number.isFinite(cubic[i + 1])) || cubic[i] === 0 || Math.sign(cubic[i]) === Math.sign(cubic[i + 1])) continue;
+    ext.rebase(ys[i]);
+    const hit = locateOnChord(ext, ys[i], ys[i + 1], cubic[i], cubic[i + 1], (y) => ext.cubicCoefficient(y));
+    if (!hit) {
+      diagnostics.push({ level: 'warning', code: 'locate-failed', message: `curve ${id}: the pitchfork's cubic coefficient changes sign between two points but no point between them could be computed; not reported` });
+      continue;
+    }
+    found.push({
+      type: 'degenerate-pitchfork', p: [hit.y[N - 2], hit.y[N - 1]], x: Array.from(ext.stateOf(hit.y)), curves: [id],
+      evidence: {
+        reason: `the pitchfork's cubic coefficient changes sign along the pitchfork curve (${cubic[i].toPrecision(3)} before, ${cubic[i + 1].toPrecision(3)} after): the asymmetric branches switch sides, and a saddle-node curve of asymmetric states ends on the pitchfork curve here`,
+        testFunction: 'c3 = p·C(v,v,v)/6 − p·B(v, J⁻¹B(v,v))/2 (J⁻¹ on the symmetric subspace, C by a central difference)',
+        before: cubic[i], after: cubic[i + 1], atPoint: hit.value, converged: hit.converged,
+      },
+    });
+  }
   return { traced: { curve, ys }, found };
 }

@@ -143,6 +143,21 @@ export function traceMap(sys: TwoParameterSystem, settings: Partial<MapSettings>
     (bt.evidence as Record<string, unknown>).cuspTestAlsoVanishes = q.evidence;
     points.splice(i, 1);
   }
+  // A saddle-node curve of asymmetric states that ends on a pitchfork curve passes, as one curve in
+  // (x, a, b), through the symmetric state at the degenerate pitchfork, where its fold system is
+  // singular: the step across it can flip the null vector and fake a cusp (its location then does not
+  // converge). Such a cusp within 1e-3 (1 + |p|) of a degenerate pitchfork is dropped and its curve
+  // listed with the degenerate pitchfork.
+  for (let i = points.length - 1; i >= 0; i--) {
+    const q = points[i];
+    if (q.type !== 'cusp' || q.evidence.converged !== false) continue;
+    const dpf = points.find((o) => o.type === 'degenerate-pitchfork' && Math.max(Math.abs(o.p[0] - q.p[0]), Math.abs(o.p[1] - q.p[1])) < 1e-3 * (1 + Math.abs(q.p[0]) + Math.abs(q.p[1])));
+    if (!dpf) continue;
+    for (const id of q.curves) if (!dpf.curves.includes(id)) dpf.curves.push(id);
+    points.splice(i, 1);
+    const stale = diagnostics.findIndex((d) => d.code === 'locate-not-converged' && q.curves.some((id) => d.message.startsWith(`curve ${id}:`)));
+    if (stale >= 0) diagnostics.splice(stale, 1);
+  }
   // A double zero eigenvalue with no Hopf curve ending there: the generic Bogdanov-Takens unfolding
   // (Kuznetsov §8.4) has one; without it the point may be degenerate (e.g. two folds of a one-way
   // chain, whose triangular Jacobian has only real eigenvalues) or its Hopf curve was not seeded.
@@ -210,6 +225,6 @@ function addPoint(points: MapPoint[], c: Omit<MapPoint, 'id'>): void {
     ev.alsoOn = [...also, { curves: c.curves, ...c.evidence }];
     return;
   }
-  const prefix = c.type === 'cusp' ? 'cusp' : c.type === 'bogdanov-takens' ? 'bt' : 'snp';
+  const prefix = c.type === 'cusp' ? 'cusp' : c.type === 'bogdanov-takens' ? 'bt' : c.type === 'degenerate-pitchfork' ? 'dpf' : 'snp';
   points.push({ id: `${prefix}${points.filter((q) => q.type === c.type).length + 1}`, ...c });
 }
