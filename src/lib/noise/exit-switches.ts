@@ -24,6 +24,11 @@ export interface ExitSwitchOptions {
   readonly tieTolerance: number;
   readonly barrier: Partial<BarrierOptions>;
   readonly regime: Partial<RegimeOptions>;
+  /**
+   * Only the switches out of these states (labels as stateLabel spells them, e.g. 'all-base'): the
+   * barriers of the other states' edges are not computed. Default: every state.
+   */
+  readonly states?: readonly string[];
   readonly progress?: Progress;
   readonly signal?: CancelSignal;
 }
@@ -106,7 +111,8 @@ export function exitSwitches(
     const states = g.graph.states.map((s) => stateLabel(s.pattern, names));
     const res = barriersAt(system, g, weights, {
       ...o.barrier, regime: { ...o.regime, ...(o.barrier.regime ?? {}) }, signal: o.signal,
-      pairs: only ? (k, e) => states[k] === only.state && only.saddles.includes(labels[e]) : undefined,
+      pairs: only ? (k, e) => states[k] === only.state && only.saddles.includes(labels[e])
+        : o.states ? (k) => o.states!.includes(states[k]) : undefined,
     });
     for (const d of res.diagnostics) note(d);
     const table: Table = new Map();

@@ -43,6 +43,16 @@ describe('exitSwitches(system, diagram, from, to, weights)', () => {
     expect(res.diagnostics).toEqual([]);
   });
 
+  it('states: computes only the barriers out of the given states and finds the same switches there', () => {
+    const every = exitSwitches(system, diagram, 0, 0.2, new Float64Array([1, 1]));
+    const base = exitSwitches(system, diagram, 0, 0.2, new Float64Array([1, 1]), { states: ['all-base'] });
+    expect(base.switches).toEqual(every.switches.filter((s) => s.state === 'all-base'));
+    // The samples hold the all-base exits only (the mixed states and all-tipped were not computed).
+    const statesSeen = new Set(base.samples.flatMap((q) => q.exits.map((e) => e.state)));
+    expect([...statesSeen]).toEqual(['all-base']);
+    expect(new Set(every.samples.flatMap((q) => q.exits.map((e) => e.state))).size).toBe(4);
+  });
+
   it('samples every interval, reports the barriers it saw and finds a crossing that a sample hits exactly', () => {
     // Three samples put one exactly on the crossing at 0.1, where the two exits tie.
     const res = exitSwitches(system, diagram, 0, 0.2, new Float64Array([1, 1]), { samplesPerInterval: 3 });

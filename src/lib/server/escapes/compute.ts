@@ -137,7 +137,9 @@ export async function computeEscapeStudy(
   const lo = Math.min(...values);
   const hi = Math.max(...values);
   if (hi > lo) {
-    const r = exitSwitches(system, diagram, lo, hi, spec.weights, { signal: { get aborted() { return hooks.isCancelled(); } } });
+    // Only the start state's switches are shown and kept; the barriers of other states' edges would
+    // be most of the cost (gMAM per edge on non-gradient networks).
+    const r = exitSwitches(system, diagram, lo, hi, spec.weights, { states: [settings.start], signal: { get aborted() { return hooks.isCancelled(); } } });
     switches = r.switches;
     diagnostics.push(...r.diagnostics);
   }
