@@ -8,7 +8,7 @@
  * Curves differ by line style as well as colour: saddle-node solid and heavy, pitchfork long dashes,
  * Hopf dots; none relies on colour alone.
  */
-import type { MapCurveType, MapPointType } from '../maps/trace-map';
+import type { MapCurveType, MapPointType } from '../maps/map-types';
 
 export const MAP_POINT_TYPES: readonly MapPointType[] = ['cusp', 'bogdanov-takens', 'saddle-node-meets-pitchfork'];
 const KNOWN_LABEL: Record<string, string> = { cusp: 'Cusp', 'bogdanov-takens': 'Bogdanov–Takens', 'saddle-node-meets-pitchfork': 'Saddle-node meets pitchfork' };

@@ -1,8 +1,8 @@
 /**
  * The parts of a stored two-parameter map the plot helpers read (the CLI's and the API's shape,
- * src/lib/maps/trace-map.ts), as plain JSON: what the browser gets from GET /api/runs/:id/map.
+ * src/lib/maps/map-types.ts), as plain JSON: what the browser gets from GET /api/runs/:id/map.
  */
-import type { MapCurve, MapPoint, MapRegion } from '../maps/trace-map';
+import type { MapCurve, MapPoint, MapRegion } from '../maps/map-types';
 
 export interface MapDocumentView {
   readonly parameters: readonly [string, string] | readonly string[];

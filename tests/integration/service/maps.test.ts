@@ -7,6 +7,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Client, closeDbAfterAll, db, rowCounts, waitForMail, workspaceWithRoles, type WorkspaceFixture } from '../helpers.ts';
 import { startRun } from '../../../src/lib/server/runs/repository.ts';
+import { MAP_RESULT_ENGINE } from '../../../src/lib/server/maps/settings.ts';
+import { MAP_ENGINE_VERSION } from '../../../src/lib/maps/map-version.ts';
 import { cubicNetwork, symmetricPairValues } from '../../lib/regimes/fixtures.ts';
 import { createModel, runRow, spawnWorker, until, ws, type SpawnedWorker } from './fixtures.ts';
 
@@ -54,6 +56,9 @@ describe('a map run through the API', () => {
     const stored = await db('map_results').where({ id: row.map_result_id }).first();
     expect(stored.cache_key).toBe(row.cache_key);
     expect(stored.second_parameter).toBe('r');
+    // Keyed and stored by both versions: the one-parameter engine seeds the curves, the maps layer continues them.
+    expect(stored.engine_version).toBe(MAP_RESULT_ENGINE);
+    expect(MAP_RESULT_ENGINE).toContain(`+maps-${MAP_ENGINE_VERSION}`);
     expect(Number(stored.second_value)).toBe(0.1);
     // Deflated: the blob is smaller than the JSON it holds.
     expect(new Uint8Array(stored.map_blob).byteLength).toBeLessThan(stored.json_bytes);

@@ -4,19 +4,19 @@
  */
 import type { Knex } from 'knex';
 import { db } from '../db.ts';
-import { ENGINE_VERSION } from '../../atlas/engine-version.ts';
 import { recordAudit } from '../models/audit.ts';
 import { conflict, notFound } from '../models/service-error.ts';
 import { insertOrReuse, type ClaimedRun } from '../runs/queue.ts';
 import { runQuery, toRunInfo, type RunInfo } from '../runs/repository.ts';
 import { decodeMap, type MapComputeOutput, type MapDocument } from './compute.ts';
+import { MAP_RESULT_ENGINE } from './settings.ts';
 
 export async function findMapResultId(cacheKey: string, k: Knex = db): Promise<number | null> {
   const row = await k('map_results').where({ cache_key: cacheKey }).first('id');
   return row ? (row.id as number) : null;
 }
 
-export function mapResultRow(out: MapComputeOutput, engineVersion = ENGINE_VERSION): Record<string, unknown> {
+export function mapResultRow(out: MapComputeOutput, engineVersion = MAP_RESULT_ENGINE): Record<string, unknown> {
   return {
     engine_version: engineVersion, second_parameter: out.second, second_value: out.secondValue,
     curve_count: out.curveCount, curve_point_count: out.curvePointCount, point_count: out.pointCount,

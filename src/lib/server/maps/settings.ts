@@ -6,9 +6,17 @@
  * field (settings.second, settings.secondTo, ...) before anything is stored.
  */
 import { compileTwoParameter } from '../../maps/index.ts';
+import { MAP_ENGINE_VERSION } from '../../maps/map-version.ts';
+import { ENGINE_VERSION } from '../../atlas/engine-version.ts';
 import { ModelError } from '../../model/index.ts';
 import { HttpError } from '../http.ts';
 import { MAP_DEFAULTS, type MapRunSettings, type StoredMapSettings } from './schema.ts';
+
+/**
+ * The engine version a map is keyed and stored by: the one-parameter engine (its diagrams seed the
+ * curves) and the maps layer's own version (src/lib/maps/map-version.ts); a bump of either recomputes.
+ */
+export const MAP_RESULT_ENGINE = `${ENGINE_VERSION}+maps-${MAP_ENGINE_VERSION}`;
 
 const invalid = (field: string, message: string) =>
   new HttpError(400, 'invalid_input', `${field}: ${message}`, { field, issues: [{ field, message: `${field}: ${message}` }] });

@@ -14,7 +14,7 @@ import type { ListRunsQuery, RunSettings, RunStatus } from './schemas.ts';
 import type { EscapeSettings } from '../escapes/schema.ts';
 import { checkRequestBudget, normalizeEscapeSettings } from '../escapes/settings.ts';
 import type { MapRunSettings } from '../maps/schema.ts';
-import { normalizeMapSettings } from '../maps/settings.ts';
+import { MAP_RESULT_ENGINE, normalizeMapSettings } from '../maps/settings.ts';
 
 export interface RunInfo {
   id: number;
@@ -147,7 +147,7 @@ export async function startRun(workspaceId: string, actorId: string | null, inpu
   } else if (input.kind === 'map') {
     // Two-parameter map: the second parameter checked by the engine's compiler, defaults dropped.
     settings = normalizeMapSettings(version.document, input.settings);
-    cacheKey = resultCacheKey('map', version.hash, settings, ENGINE_VERSION);
+    cacheKey = resultCacheKey('map', version.hash, settings, MAP_RESULT_ENGINE);
   } else {
     settings = normalizeSettings(version.document, input.settings as RunSettings);
     cacheKey = resultCacheKey(kind, version.hash, settings, ENGINE_VERSION);
