@@ -7,8 +7,8 @@ import type { RunSettings } from './schemas.ts';
 
 export function normalizeSettings(document: unknown, settings: RunSettings): RunSettings {
   const sweep = (document as { sweep?: { from?: number; to?: number } } | null)?.sweep;
-  const out: Record<string, number> = {};
-  for (const [key, value] of Object.entries(settings) as [keyof RunSettings, number | undefined][]) {
+  const out: Record<string, unknown> = {};
+  for (const [key, value] of Object.entries(settings) as [keyof RunSettings, unknown][]) {
     if (value === undefined) continue;
     if (key === 'from' && sweep?.from === value) continue;
     if (key === 'to' && sweep?.to === value) continue;

@@ -1,5 +1,6 @@
 /** The trace run's settings schema, on its own so that runs/schemas.ts and escapes/schema.ts can both use it. */
 import { z } from 'zod';
+import { startSelectionSettingsSchema } from '../../atlas/trace-settings.ts';
 
 const finite = z.number().finite('must be a finite number');
 
@@ -20,6 +21,10 @@ export const runSettingsSchema = z.object({
   maxStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
   /** Largest parameter change per step, fraction of the sweep width (engine default 1/600). */
   maxParameterStep: z.number().positive('must be positive').max(0.5, 'at most 0.5').optional(),
+  /** Cap on traced branches (engine default 400; a whole 8-node trace needs about 3,300). */
+  maxBranches: z.number().int('must be a whole number').min(1, 'at least 1').max(100_000, 'at most 100000').optional(),
+  /** Which starting patterns (docs/numerics.md §12): the engine's own names and limits. */
+  ...startSelectionSettingsSchema.shape,
 }).strict().superRefine((s, ctx) => {
   if (s.from !== undefined && s.to !== undefined && s.from === s.to) {
     ctx.addIssue({ code: 'custom', path: ['to'], message: 'must differ from settings.from' });
