@@ -16,6 +16,22 @@ export function cubicRoots(r: number): { a: number; m: number; c: number } {
   return { a: roots[0], m: roots[1], c: roots[2] };
 }
 
+/**
+ * An invented lake network (the element of docs/model-format.md, a - b P + P^8 / (1 + P^8) with
+ * b = 0.6 and a per lake), diffusive links `source - target` (cooperative for beta >= 0), swept over
+ * the coupling beta from 0 to `to`.
+ */
+export function lakeNetwork(a: number[], links: { from: number; to: number; weight: number; twoWay?: boolean }[], to = 1) {
+  return {
+    format: 'brinkmap/network-1', name: 'invented lakes',
+    element: { variable: 'P', rate: 'a - b * P + P^8 / (1 + P^8)', parameters: { a: 0.05, b: 0.6 } },
+    nodes: a.map((v, i) => ({ id: `lake${i + 1}`, parameters: { a: v } })),
+    links: links.map((l) => ({ from: `lake${l.from + 1}`, to: `lake${l.to + 1}`, weight: l.weight, ...(l.twoWay ? { twoWay: true } : {}) })),
+    coupling: { parameter: 'beta', value: 0, term: 'source - target' },
+    sweep: { parameter: 'beta', from: 0, to },
+  };
+}
+
 export function cubicNetwork(opts: {
   r: number;
   nodes: string[];

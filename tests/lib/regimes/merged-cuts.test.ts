@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { compileModelJson } from '../../../src/lib/model/index';
 import { traceDiagram } from '../../../src/lib/atlas/index';
+import { lakeNetwork } from './fixtures';
 import { createLabeller, labelRegimes, type RegimeResult } from '../../../src/lib/regimes/index';
 
 /**
@@ -12,17 +13,7 @@ import { createLabeller, labelRegimes, type RegimeResult } from '../../../src/li
  * labelled parameter values.
  */
 
-/** An invented lake network: the element of docs/model-format.md, diffusive links (demo-style data, invented). */
-function lakes(a: number[], links: { from: number; to: number; weight: number; twoWay?: boolean }[], to = 1) {
-  return {
-    format: 'brinkmap/network-1', name: 'invented lakes',
-    element: { variable: 'P', rate: 'a - b * P + P^8 / (1 + P^8)', parameters: { a: 0.05, b: 0.6 } },
-    nodes: a.map((v, i) => ({ id: `lake${i + 1}`, parameters: { a: v } })),
-    links: links.map((l) => ({ from: `lake${l.from + 1}`, to: `lake${l.to + 1}`, weight: l.weight, ...(l.twoWay ? { twoWay: true } : {}) })),
-    coupling: { parameter: 'beta', value: 0, term: 'source - target' },
-    sweep: { parameter: 'beta', from: 0, to },
-  };
-}
+const lakes = lakeNetwork;
 
 /** Invented cubic elements x' = r_i + x - x^3 (r_i spread over [0.05, 0.15]) with diffusive links, as in `npm run bench`. */
 function cubic(nodes: number, links: { from: number; to: number; twoWay?: boolean }[]) {

@@ -1,22 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { compileModelJson } from '../../../src/lib/model/index';
 import { traceDiagram } from '../../../src/lib/atlas/index';
+import { lakeNetwork } from './fixtures';
 import { createLabeller, labelRegimes, resolveOptions } from '../../../src/lib/regimes/index';
 import { branchTargets, followBranch } from '../../../src/lib/regimes/escape-graph';
 import { isIndexOneSaddle } from '../../../src/lib/regimes/equilibria-at';
 import { looksCooperative, orderedLimit } from '../../../src/lib/regimes/start-exits';
 
-/** An invented lake network: the element of docs/model-format.md, diffusive links (cooperative for beta >= 0). */
-function lakes(a: number[], links: { from: number; to: number; weight: number; twoWay?: boolean }[], to = 1) {
-  return {
-    format: 'brinkmap/network-1', name: 'invented lakes',
-    element: { variable: 'P', rate: 'a - b * P + P^8 / (1 + P^8)', parameters: { a: 0.05, b: 0.6 } },
-    nodes: a.map((v, i) => ({ id: `lake${i + 1}`, parameters: { a: v } })),
-    links: links.map((l) => ({ from: `lake${l.from + 1}`, to: `lake${l.to + 1}`, weight: l.weight, ...(l.twoWay ? { twoWay: true } : {}) })),
-    coupling: { parameter: 'beta', value: 0, term: 'source - target' },
-    sweep: { parameter: 'beta', from: 0, to },
-  };
-}
+const lakes = lakeNetwork;
 
 const oneWayChain = lakes([0.08, 0.06, 0.05], [{ from: 0, to: 1, weight: 1 }, { from: 1, to: 2, weight: 1 }], 1.2);
 const mixed = lakes([0.05, 0.07, 0.05], [{ from: 0, to: 1, weight: 1 }, { from: 1, to: 2, weight: 1, twoWay: true }]);
