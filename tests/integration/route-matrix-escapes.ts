@@ -1,4 +1,4 @@
-/** Role-matrix rows for the escape study routes (GET /api/runs/:id/escapes and .csv, POST /api/runs of kind 'escapes'). */
+/** Role-matrix rows for the escape study routes (GET /api/runs/:id/escapes, .csv and /paths, POST /api/runs of kind 'escapes'). */
 // Only the hoisted function `allow` is imported: route-matrix.ts imports this file (its consts are not initialized yet).
 import { allow, type MatrixContext, type RouteCase, type Vars } from './route-matrix.ts';
 
@@ -42,6 +42,10 @@ function escapeRun(c: MatrixContext): Promise<Vars> {
 
 export const escapeRoutes: RouteCase[] = [
   { route: '/api/runs/[id]/escapes', method: 'GET', prepare: escapeRun, path: (c, v) => `/api/runs/${v.runId}/escapes?${q(c)}`, expect: allow(200, ...ALL_ROLES) },
+  {
+    route: '/api/runs/[id]/escapes/paths', method: 'GET', prepare: escapeRun, path: (c, v) => `/api/runs/${v.runId}/escapes/paths?p=0.1&${q(c)}`, expect: allow(409, ...ALL_ROLES),
+    note: 'every role reaches the handler; the run is still queued, so 409 (the 200 is in tests/integration/service/escape-paths.test.ts)',
+  },
   { route: '/api/runs/[id]/escapes.csv', method: 'GET', prepare: escapeRun, path: (c, v) => `/api/runs/${v.runId}/escapes.csv?${q(c)}`, expect: allow(200, ...ALL_ROLES) },
   {
     route: '/api/runs', method: 'POST', prepare: model, path: (c) => `/api/runs?${q(c)}`,
