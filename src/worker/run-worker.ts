@@ -5,14 +5,14 @@
  */
 import { hostname } from 'node:os';
 import { randomBytes } from 'node:crypto';
-import { MessageChannel } from 'node:worker_threads';
+import { MessageChannel, type MessagePort } from 'node:worker_threads';
 import { Piscina } from 'piscina';
 import { ENGINE_VERSION } from '../lib/atlas/engine-version.ts';
 import {
   claimRun, completeRun, failRun, findResultId, heartbeat, releaseRun, type ClaimedRun, type RunError,
 } from '../lib/server/runs/queue.ts';
 import type { ComputeOutput } from '../lib/server/runs/compute.ts';
-import type { ComputeTask, ProgressMessage, TaskResult } from './compute-task.ts';
+import type { ComputeTask, ProgressMessage, TaskFailure, TaskResult } from './compute-task.ts';
 import { notifyRunFinished } from '../lib/server/runs/notify.ts';
 import { availableParallelism } from 'node:os';
 import type { EscapeComputeTask, EscapeTaskResult, PointMessage } from './compute-task.ts';
@@ -22,7 +22,7 @@ import {
 } from '../lib/server/escapes/repository.ts';
 import { findResultDiagram } from '../lib/server/results/repository.ts';
 import { decodeDiagramText } from '../lib/storage/index.ts';
-import type { MapComputeTask, MapTaskResult } from './compute-task.ts';
+import type { MapComputeTask } from './compute-task.ts';
 import type { MapComputeOutput } from '../lib/server/maps/compute.ts';
 import type { StoredMapSettings } from '../lib/server/maps/schema.ts';
 import { completeMapRun, findMapResultId } from '../lib/server/maps/repository.ts';
@@ -156,19 +156,46 @@ export class RunWorker {
     log(`run ${run.id}: claimed (attempt ${run.attempt})`);
     if (run.kind === 'escapes') return this.processEscapes(run);
     if (run.kind === 'map') return this.processMap(run);
-    const reuse = await findResultId(run.cacheKey).catch(() => null);
+    await this.runPooled<ComputeOutput>(run, {
+      findReuse: () => findResultId(run.cacheKey),
+      completeReuse: (reuse) => completeRun(run, this.owner, { reuse }, ENGINE_VERSION),
+      reused: 'stored result',
+      task: (port, cancelFlag): ComputeTask => ({ documentText: run.documentText, settings: run.settings, port, cancelFlag, testDelayMs: this.opts.testDelayMs }),
+      store: (output) => completeRun(run, this.owner, output, ENGINE_VERSION),
+      tooLarge: (output) => `the diagram (${(output.diagramBlob.byteLength / 1048576).toFixed(1)} MB encoded, ${output.pointCount} points) is larger than the database accepts in one statement (max_allowed_packet); narrow the sweep or lower maxPointsPerBranch, or raise max_allowed_packet`,
+      done: (output, storingMs) => {
+        const f = output.phasesMs;
+        const stored = `${output.diagramBlob.byteLength + Buffer.byteLength(output.regimesJson)} bytes stored`;
+        return `done (${output.branchCount} branches, ${output.pointCount} points, ${output.computeMs} ms: trace ${f.trace}, labelling ${f.label}, critical coupling ${f.onset}, encoding ${f.encode}; ${stored} in ${storingMs} ms)`;
+      },
+    });
+  }
+
+  /**
+   * A run computed by one pool thread and stored whole when it finishes (trace and map runs): reuse
+   * of a stored result with the same cache key, else the thread with progress, lease heartbeat and the
+   * shared cancel flag; then hand-back (worker stopping), discard (cancelled or taken over), store
+   * (a result over max_allowed_packet fails the run for good), or a failed attempt (retried unless
+   * deterministic). Mail on done and on final failure.
+   */
+  private async runPooled<O extends { readonly cancelled?: boolean }>(run: ClaimedRun, how: {
+    findReuse: () => Promise<number | null>;
+    completeReuse: (reuse: number) => Promise<boolean>;
+    reused: string;
+    task: (port: MessagePort, cancelFlag: SharedArrayBuffer) => object;
+    store: (output: O) => Promise<boolean>;
+    tooLarge: (output: O) => string;
+    done: (output: O, storingMs: number) => string;
+  }): Promise<void> {
+    const log = this.opts.log;
+    const reuse = await how.findReuse().catch(() => null);
     if (reuse !== null) {
-      const ok = await completeRun(run, this.owner, { reuse }, ENGINE_VERSION).catch(() => false);
-      log(`run ${run.id}: ${ok ? `reused stored result ${reuse}` : 'lost before reuse could be recorded'}`);
+      const ok = await how.completeReuse(reuse).catch(() => false);
+      log(`run ${run.id}: ${ok ? `reused ${how.reused} ${reuse}` : 'lost before reuse could be recorded'}`);
       if (ok) await this.notify(run, 'done');
       return;
     }
-    const a: Active = {
-      run,
-      cancelFlag: new Int32Array(new SharedArrayBuffer(4)),
-      abort: new AbortController(),
-      lost: false,
-    };
+    const a: Active = { run, cancelFlag: new Int32Array(new SharedArrayBuffer(4)), abort: new AbortController(), lost: false };
     this.active.add(a);
     // stop() may have run while this run was being looked up: start the thread already cancelled.
     if (this.stopping) Atomics.store(a.cancelFlag, 0, 1);
@@ -176,21 +203,13 @@ export class RunWorker {
     let progress = { fraction: 0, phrase: 'starting' };
     port1.on('message', (m: ProgressMessage) => { progress = m; });
     port1.unref();
-
     const timer = this.startHeartbeat(a, () => ({ fraction: progress.fraction, phrase: progress.phrase }));
 
-    let output: ComputeOutput | null = null;
+    let output: O | null = null;
     let failure: unknown = null;
     let deterministic = false;
     try {
-      const task: ComputeTask = {
-        documentText: run.documentText,
-        settings: run.settings,
-        port: port2,
-        cancelFlag: a.cancelFlag.buffer as SharedArrayBuffer,
-        testDelayMs: this.opts.testDelayMs,
-      };
-      const result: TaskResult = await this.pool.run(task, { transferList: [port2], signal: a.abort.signal });
+      const result = await this.pool.run(how.task(port2, a.cancelFlag.buffer as SharedArrayBuffer), { transferList: [port2], signal: a.abort.signal }) as O | TaskFailure;
       if ('failed' in result) {
         failure = result.failed;
         deterministic = result.failed.deterministic;
@@ -206,7 +225,7 @@ export class RunWorker {
     }
 
     try {
-      if (this.stopping && (a.lost === false) && (output === null || output.cancelled)) {
+      if (this.stopping && !a.lost && (output === null || output.cancelled)) {
         await releaseRun(run, this.owner);
         log(`run ${run.id}: handed back to the queue (worker stopping)`);
         return;
@@ -219,20 +238,17 @@ export class RunWorker {
         let ok: boolean;
         const storing = performance.now();
         try {
-          ok = await completeRun(run, this.owner, output, ENGINE_VERSION);
+          ok = await how.store(output);
         } catch (e) {
-          // A diagram larger than the server's max_allowed_packet fails the same way on every attempt.
+          // A result larger than the server's max_allowed_packet fails the same way on every attempt.
           if ((e as { errno?: number }).errno !== 1153) throw e;
-          const mb = (output.diagramBlob.byteLength / 1048576).toFixed(1);
-          const error = { code: 'result-too-large', message: `the diagram (${mb} MB encoded, ${output.pointCount} points) is larger than the database accepts in one statement (max_allowed_packet); narrow the sweep or lower maxPointsPerBranch, or raise max_allowed_packet` };
+          const error = { code: 'result-too-large', message: how.tooLarge(output) };
           const status = await failRun(run, this.owner, error, false);
           log(`run ${run.id}: ${error.message}`);
           if (status === 'failed') await this.notify(run, 'failed');
           return;
         }
-        const f = output.phasesMs;
-        const stored = `${output.diagramBlob.byteLength + Buffer.byteLength(output.regimesJson)} bytes stored`;
-        log(`run ${run.id}: ${ok ? `done (${output.branchCount} branches, ${output.pointCount} points, ${output.computeMs} ms: trace ${f.trace}, labelling ${f.label}, critical coupling ${f.onset}, encoding ${f.encode}; ${stored} in ${Math.round(performance.now() - storing)} ms)` : 'finished but no longer ours; discarded'}`);
+        log(`run ${run.id}: ${ok ? how.done(output, Math.round(performance.now() - storing)) : 'finished but no longer ours; discarded'}`);
         if (ok) await this.notify(run, 'done');
         return;
       }
@@ -374,76 +390,15 @@ export class RunWorker {
    * Same lease, heartbeat, cancel, retry and mail rules as trace runs.
    */
   private async processMap(run: ClaimedRun): Promise<void> {
-    const log = this.opts.log;
-    const reuse = await findMapResultId(run.cacheKey).catch(() => null);
-    if (reuse !== null) {
-      const ok = await completeMapRun(run, this.owner, { reuse }).catch(() => false);
-      log(`run ${run.id}: ${ok ? `reused stored map ${reuse}` : 'lost before reuse could be recorded'}`);
-      if (ok) await this.notify(run, 'done');
-      return;
-    }
-    const a: Active = { run, cancelFlag: new Int32Array(new SharedArrayBuffer(4)), abort: new AbortController(), lost: false };
-    this.active.add(a);
-    if (this.stopping) Atomics.store(a.cancelFlag, 0, 1);
-    const { port1, port2 } = new MessageChannel();
-    let progress = { fraction: 0, phrase: 'starting' };
-    port1.on('message', (m: ProgressMessage) => { progress = m; });
-    port1.unref();
-    const timer = this.startHeartbeat(a, () => ({ fraction: progress.fraction, phrase: progress.phrase }));
-    let output: MapComputeOutput | null = null;
-    let failure: unknown = null;
-    let deterministic = false;
-    try {
-      const task: MapComputeTask = {
-        kind: 'map', documentText: run.documentText, settings: run.settings as unknown as StoredMapSettings, port: port2,
-        cancelFlag: a.cancelFlag.buffer as SharedArrayBuffer, testDelayMs: this.opts.testDelayMs,
-      };
-      const result: MapTaskResult = await this.pool.run(task, { transferList: [port2], signal: a.abort.signal });
-      if ('failed' in result) {
-        failure = result.failed;
-        deterministic = result.failed.deterministic;
-      } else {
-        output = result;
-      }
-    } catch (e) {
-      failure = e;
-    } finally {
-      clearInterval(timer);
-      port1.close();
-      this.active.delete(a);
-    }
-    try {
-      if (this.stopping && !a.lost && (output === null || output.cancelled)) {
-        await releaseRun(run, this.owner);
-        log(`run ${run.id}: handed back to the queue (worker stopping)`);
-        return;
-      }
-      if (a.lost || output?.cancelled) {
-        log(`run ${run.id}: stopped (cancelled or taken over); nothing stored`);
-        return;
-      }
-      if (output) {
-        let ok: boolean;
-        try {
-          ok = await completeMapRun(run, this.owner, output);
-        } catch (e) {
-          // A map larger than the server's max_allowed_packet fails the same way on every attempt.
-          if ((e as { errno?: number }).errno !== 1153) throw e;
-          const mb = (output.mapBlob.byteLength / 1048576).toFixed(1);
-          const error = { code: 'result-too-large', message: `the map (${mb} MB deflated, ${output.curvePointCount} curve points) is larger than the database accepts in one statement (max_allowed_packet); narrow the ranges or lower maxPointsPerCurve or maxCurves` };
-          const status = await failRun(run, this.owner, error, false);
-          log(`run ${run.id}: ${error.message}`);
-          if (status === 'failed') await this.notify(run, 'failed');
-          return;
-        }
-        log(`run ${run.id}: ${ok ? `done (map: ${output.curveCount} curves, ${output.curvePointCount} curve points, ${output.pointCount} codimension-two points, ${output.computeMs} ms; ${output.mapBlob.byteLength} bytes stored of ${output.jsonBytes} bytes of JSON)` : 'finished but no longer ours; discarded'}`);
-        if (ok) await this.notify(run, 'done');
-        return;
-      }
-      await this.failAttempt(run, failure, deterministic);
-    } catch (e) {
-      log(`run ${run.id}: could not record the outcome (${short(e)}); the lease will lapse and the run be retried`);
-    }
+    await this.runPooled<MapComputeOutput>(run, {
+      findReuse: () => findMapResultId(run.cacheKey),
+      completeReuse: (reuse) => completeMapRun(run, this.owner, { reuse }),
+      reused: 'stored map',
+      task: (port, cancelFlag): MapComputeTask => ({ kind: 'map', documentText: run.documentText, settings: run.settings as unknown as StoredMapSettings, port, cancelFlag, testDelayMs: this.opts.testDelayMs }),
+      store: (output) => completeMapRun(run, this.owner, output),
+      tooLarge: (output) => `the map (${(output.mapBlob.byteLength / 1048576).toFixed(1)} MB deflated, ${output.curvePointCount} curve points) is larger than the database accepts in one statement (max_allowed_packet); narrow the ranges or lower maxPointsPerCurve or maxCurves`,
+      done: (output) => `done (map: ${output.curveCount} curves, ${output.curvePointCount} curve points, ${output.pointCount} codimension-two points, ${output.computeMs} ms; ${output.mapBlob.byteLength} bytes stored of ${output.jsonBytes} bytes of JSON)`,
+    });
   }
 
   /**
