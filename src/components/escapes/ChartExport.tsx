@@ -1,19 +1,13 @@
 /**
- * Export of one escape-study chart with the diagram's export machinery: SVG (the shipped Inter
- * embedded), PNG (that SVG rasterized by the browser, resolution in a pHYs chunk), PDF (pdfkit,
- * loaded on demand), each with the provenance footer (model, version hash, run, engine, noise,
- * paths, seed, date) and an optional caption, light or dark; and the study's data as CSV and JSON.
+ * Export of one escape-study chart (FigureExport): SVG, PNG and PDF with the provenance footer
+ * (model, version hash, run, engine, noise, paths, seed, date) and an optional caption, light or
+ * dark; and the study's data as CSV and JSON.
  */
-import { useEffect, useId, useRef, useState } from 'react';
 import type { ChartFigure } from '../../lib/plot/escape-chart';
 import type { EscapeChartOptions } from '../../lib/plot/escape-charts';
 import { safeFileName } from '../../lib/plot/data-export';
 import { escapeFooter, type EscapeProvenance } from '../../lib/plot/escape-charts';
-import { NIGHT_PALETTE, PAPER_PALETTE } from '../../lib/plot/palette';
-import { withResolution } from '../../lib/plot/paper';
-import { figureToSvg } from '../../lib/plot/svg';
-import { download, svgToPng } from '../export/download';
-import { fontFaceCss } from '../export/fonts';
+import FigureExport from '../export/FigureExport';
 
 export interface ChartExportProps {
   /** Short name for files and the button's label ("sequences"). */
@@ -26,76 +20,22 @@ export interface ChartExportProps {
 }
 
 export default function ChartExport(props: ChartExportProps) {
-  const [open, setOpen] = useState(false);
-  const [caption, setCaption] = useState('');
-  const [withFooter, setWithFooter] = useState(true);
-  const [dark, setDark] = useState(false);
-  const [busy, setBusy] = useState<string | null>(null);
-  const [error, setError] = useState<string | null>(null);
-  const panelId = useId();
-  const rootRef = useRef<HTMLDivElement>(null);
-  const stem = `${props.provenance.modelName}-${props.provenance.runId}-escape-${props.name}`;
-
-  useEffect(() => {
-    if (!open) return;
-    const away = (e: MouseEvent) => { if (rootRef.current && !rootRef.current.contains(e.target as Node)) setOpen(false); };
-    document.addEventListener('mousedown', away);
-    return () => document.removeEventListener('mousedown', away);
-  }, [open]);
-
-  const figure = (): ChartFigure => {
-    const provenance = { ...props.provenance, date: props.provenance.date || new Date().toISOString() };
-    const fig = props.build({ width: 720, palette: dark ? NIGHT_PALETTE : PAPER_PALETTE, dark, caption: caption.trim() || undefined, provenance: withFooter ? provenance : undefined });
-    if (!fig) throw new Error('there is nothing to draw yet');
-    return fig;
-  };
-  const description = escapeFooter(props.provenance).join(' · ');
-  const svgText = async () => { const fig = figure(); return { fig, svg: figureToSvg(fig, { fontFaceCss: await fontFaceCss(), description }) }; };
-  const run = (label: string, task: () => Promise<void>) => async () => {
-    setBusy(label); setError(null);
-    try { await task(); } catch (e) { setError(`${label} failed: ${e instanceof Error ? e.message : String(e)}`); } finally { setBusy(null); }
-  };
-  const exportSvg = run('SVG', async () => { const { svg } = await svgText(); download(new Blob([svg], { type: 'image/svg+xml' }), safeFileName(stem, 'svg')); });
-  const exportPng = (factor: number) => run(`PNG ${factor}×`, async () => {
-    const { fig, svg } = await svgText();
-    const png = new Uint8Array(await (await svgToPng(svg, fig.width, fig.height, factor)).arrayBuffer());
-    download(new Blob([withResolution(png, 96 * factor) as Uint8Array<ArrayBuffer>], { type: 'image/png' }), safeFileName(`${stem}@${factor}x`, 'png'));
-  });
-  const exportPdf = run('PDF', async () => {
-    const { figureToPdf } = await import('../export/pdf');
-    const fig = figure();
-    download(await figureToPdf(fig, { title: fig.title, subject: description }), safeFileName(stem, 'pdf'));
-  });
-
+  const { modelName, runId } = props.provenance;
   return (
-    <div className="dg-export" ref={rootRef} onKeyDown={(e) => { if (e.key === 'Escape' && open) { e.stopPropagation(); setOpen(false); } }}>
-      <button type="button" aria-expanded={open} aria-controls={panelId} onClick={() => setOpen((o) => !o)} data-testid={`export-toggle-${props.name}`}>Export…</button>
-      {open ? (
-        <div className="dg-export-panel" id={panelId} role="group" aria-label={`Export the ${props.label}`}>
-          <label>Caption (optional)
-            <textarea rows={2} value={caption} onChange={(e) => setCaption(e.target.value)} />
-          </label>
-          <label className="dg-check"><input type="checkbox" checked={withFooter} onChange={(e) => setWithFooter(e.target.checked)} /> Provenance footer</label>
-          <p className="dg-muted" style={{ margin: 0, fontSize: '0.75rem' }}>{description}</p>
-          <label>Colours
-            <select value={dark ? 'dark' : 'light'} onChange={(e) => setDark(e.target.value === 'dark')}><option value="light">Light</option><option value="dark">Dark</option></select>
-          </label>
-          <h4>Figure (720 px wide)</h4>
-          <div className="dg-export-actions">
-            <button type="button" onClick={exportSvg} disabled={!!busy} data-testid={`export-svg-${props.name}`}>SVG</button>
-            <button type="button" onClick={exportPng(2)} disabled={!!busy} data-testid={`export-png-${props.name}`}>PNG 2×</button>
-            <button type="button" onClick={exportPng(4)} disabled={!!busy}>PNG 4×</button>
-            <button type="button" onClick={exportPdf} disabled={!!busy} data-testid={`export-pdf-${props.name}`}>PDF</button>
-          </div>
-          <h4>Data behind it (the whole study)</h4>
-          <div className="dg-export-actions">
-            <a className="es-link-button" href={props.csvUrl} download>CSV</a>
-            <a className="es-link-button" href={props.jsonUrl} download={safeFileName(`${props.provenance.modelName}-${props.provenance.runId}-escapes`, 'json')}>JSON</a>
-          </div>
-          {busy ? <p role="status" className="dg-muted" style={{ margin: 0 }}>Preparing {busy}…</p> : null}
-          {error ? <p role="alert" className="dg-error" style={{ margin: 0 }}>{error}</p> : null}
-        </div>
-      ) : null}
-    </div>
+    <FigureExport
+      build={props.build}
+      provenance={props.provenance}
+      description={escapeFooter(props.provenance).join(' · ')}
+      stem={`${modelName}-${runId}-escape-${props.name}`}
+      label={`the ${props.label}`}
+      emptyMessage="there is nothing to draw yet"
+      testId={(what) => `export-${what}-${props.name}`}
+      dataHeading="Data behind it (the whole study)"
+      data={[
+        { label: 'CSV', href: props.csvUrl, download: true },
+        { label: 'JSON', href: props.jsonUrl, download: safeFileName(`${modelName}-${runId}-escapes`, 'json') },
+      ]}
+      linkClass="es-link-button"
+    />
   );
 }
