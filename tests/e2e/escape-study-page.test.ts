@@ -31,7 +31,7 @@ describe('an escape study on the run page', () => {
     const runId = ((await start.json()) as { run: { id: number } }).run.id;
     await expect.poll(async () => ((await (await page.request.get(`${BASE_URL}/api/runs/${runId}`)).json()) as { run: { status: string } }).run.status,
       { timeout: 150_000, interval: 500 }).toBe('done');
-    const api = (await (await page.request.get(`${BASE_URL}/api/runs/${runId}/escapes`)).json()) as { points: { p: number; paths: number; sequences: { order: string[]; count: number }[] }[] };
+    const api = (await (await page.request.get(`${BASE_URL}/api/runs/${runId}/escapes`)).json()) as { points: { p: number; paths: number; sequences: { order: string[]; count: number }[]; barriers: { from: string; barrier: number | null }[]; capped: number }[] };
     await page.goto(`${BASE_URL}/runs/${runId}`);
     await hydrated(page);
     const table = page.getByTestId('escape-table');
@@ -42,6 +42,12 @@ describe('an escape study on the run page', () => {
       expect(Number(cells[1])).toBe(pt.paths);
       const top = [...pt.sequences].sort((a, b) => b.count - a.count)[0];
       expect(cells[2]).toBe(top.order.join(' → '));
+      // The lowest exit barrier is out of the start state (all-base), as the barrier chart draws it,
+      // not the lowest barrier of any state's edge.
+      const out = pt.barriers.filter((b) => b.from === 'all-base' && b.barrier !== null).map((b) => b.barrier!);
+      expect(out.length).toBeGreaterThan(0);
+      expect(Number(cells[6])).toBeCloseTo(Math.min(...out), 4);
+      expect(cells[7]).toBe(pt.capped > 0 ? `${pt.capped} of ${pt.paths}` : '0');
     }
     expect(await page.getByTestId('run-diagram').count()).toBe(0);
     expect(await page.getByRole('link', { name: 'CSV' }).getAttribute('href')).toBe(`/api/runs/${runId}/escapes.csv`);
