@@ -18,6 +18,7 @@ import type { PlotPalette } from '../../lib/plot/palette';
 import { isDarkTheme, readPalette, watchTheme } from '../diagram/theme';
 import { useWidth } from '../diagram/use-width';
 import ChartExport from './ChartExport';
+import PathPicture from './PathPicture';
 import '../diagram/diagram.css';
 import './escapes.css';
 
@@ -215,6 +216,10 @@ export default function EscapeView(props: EscapeViewProps) {
           <p className="dg-muted es-what">Share of paths that have not yet had their k-th escape by time t, from the stored 20-bin histograms (exact at the bin edges); paths capped at the time limit count as still waiting.</p>
           <Chart name="survival" fig={survival} />
         </section>
+      ) : null}
+      {data?.run.status === 'done' && data.study && done.length > 0 && (done[0].escapeTimes.length === 2 || done[0].escapeTimes.length === 3) ? (
+        // Path picture: only for 2- and 3-variable models (one escape-time row per node).
+        <PathPicture runId={props.runId} parameter={view?.parameter ?? props.parameter} values={done.map((q) => q.p)} width={screenWidth} palette={palette} provenance={provenance} />
       ) : null}
       <p className="dg-muted es-what">Model results are indicative; defer to domain experts and local regulation.</p>
     </div>
