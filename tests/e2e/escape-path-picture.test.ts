@@ -72,7 +72,10 @@ describe('the path picture of an escape study', () => {
 
     // Projection axes: (x1, x3).
     await section.getByTestId('path-axis-1').selectOption('2');
-    await expect.poll(() => section.locator('svg text').allInnerTexts().then((t) => t.join(' '))).toContain(`Projection on (${pic.names[0]}, ${pic.names[2]})`);
+    const axisLabels = () => section.locator('svg text').evaluateAll((els) => els.map((e) => e.textContent ?? ''));
+    expect(await axisLabels()).not.toContain(pic.names[2]);
+    await expect.poll(axisLabels).toContain(pic.names[2]);
+    expect((await axisLabels()).join(' ')).toContain(`${pic.names[1]} not shown`);
 
     // Export as SVG: well-formed, with the provenance footer.
     await section.getByTestId(`export-toggle-paths-${formatValue(p)}`).click();

@@ -71,7 +71,7 @@ export function pathFigure(pic: PathPicture, o: PathFigureOptions = {}): ChartFi
   // Sample paths, back-most: thin, translucent, muted ink.
   for (const sp of pic.samples) {
     if (sp.points.length < 2) continue;
-    items.push({ t: 'path', d: line(sp.points), stroke: pal.muted, strokeWidth: 0.8, opacity: 0.45, fill: 'none', clip: true, linecap: 'round', data: { layer: 'sample', path: String(sp.index) } });
+    items.push({ t: 'path', d: line(sp.points), stroke: pal.muted, strokeWidth: 0.7, opacity: 0.35, fill: 'none', clip: true, linecap: 'round', data: { layer: 'sample', path: String(sp.index) } });
     const end = sp.points[sp.points.length - 1];
     const escaped = sp.escapeTimes.map((t, j) => `${pic.names[j]} ${t === null || !Number.isFinite(t) ? 'not escaped' : `escaped at t = ${formatValue(t, 6)}`}`);
     marks.push({ id: `sample-${sp.index}`, kind: 'point', series: -1, x: pic.p, cx: X(end), cy: Y(end), label: `sample path ${sp.index + 1}`, readout: [
@@ -105,10 +105,17 @@ export function pathFigure(pic: PathPicture, o: PathFigureOptions = {}): ChartFi
     ] });
   }
   // Stable states: filled discs, the start state ringed.
+  const placed: [number, number, number][] = [];
   pic.states.forEach((s, k) => {
     if (k === pic.start) items.push({ t: 'path', d: shapePath('circle', X(s.x), Y(s.x), 9), fill: 'none', stroke: pal.stable, strokeWidth: 1.4, clip: true });
     items.push({ t: 'path', d: shapePath('circle', X(s.x), Y(s.x), 5.5), fill: pal.stable, stroke: pal.paper, strokeWidth: 1, clip: true, data: { mark: 'state', state: String(k) } });
-    items.push({ t: 'text', x: X(s.x) + 9, y: Y(s.x) - 8, text: s.label, size: 10, anchor: 'start', fill: pal.ink, clip: true });
+    // Name beside the disc unless another state's name is already there (projections stack states;
+    // the readout always names it).
+    const lx0 = X(s.x) + 9, ly0 = Y(s.x) - 8;
+    if (!placed.some(([px, py, w]) => Math.abs(py - ly0) < 12 && lx0 < px + w && px < lx0 + s.label.length * 5.6)) {
+      items.push({ t: 'text', x: lx0, y: ly0, text: s.label, size: 10, anchor: 'start', fill: pal.ink, clip: true });
+      placed.push([lx0, ly0, s.label.length * 5.6]);
+    }
     marks.push({ id: `state-${k}`, kind: 'point', series: -1, x: pic.p, cx: X(s.x), cy: Y(s.x), label: `stable state ${s.label}`, readout: [
       `Stable state ${s.label}${k === pic.start ? ' (start of the paths)' : ''} (${at})`,
       `x = ${vec(s.x)}`,
