@@ -71,11 +71,13 @@ describe('the path picture of an escape study', () => {
     await section.screenshot({ path: screenshotPath('escape-path-picture-saddle') });
 
     // Projection axes: (x1, x3).
+    expect(await section.locator('[data-testid=escape-chart-paths] svg text[transform^="rotate(-90"]').textContent()).toBe(pic.names[1]);
     await section.getByTestId('path-axis-1').selectOption('2');
-    const axisLabels = () => section.locator('svg text').evaluateAll((els) => els.map((e) => e.textContent ?? ''));
-    expect(await axisLabels()).not.toContain(pic.names[2]);
-    await expect.poll(axisLabels).toContain(pic.names[2]);
-    expect((await axisLabels()).join(' ')).toContain(`${pic.names[1]} not shown`);
+    // The vertical axis title is the one rotated text of the figure.
+    const yTitle = () => section.locator('[data-testid=escape-chart-paths] svg text[transform^="rotate(-90"]').textContent();
+    await expect.poll(yTitle).toBe(pic.names[2]);
+    const texts = await section.locator('[data-testid=escape-chart-paths] svg text').evaluateAll((els) => els.map((e) => e.textContent ?? '').join(' '));
+    expect(texts).toContain(`${pic.names[1]} not shown`);
 
     // Export as SVG: well-formed, with the provenance footer.
     await section.getByTestId(`export-toggle-paths-${formatValue(p)}`).click();
@@ -85,7 +87,11 @@ describe('the path picture of an escape study', () => {
     expect(svg).toContain('indicative');
     expect(svg).toContain('data-layer="minimum-action"');
 
+    await section.getByTestId(`export-toggle-paths-${formatValue(p)}`).click();
+    expect(await section.getByTestId(`export-svg-paths-${formatValue(p)}`).count()).toBe(0);
     await section.getByTestId('path-axis-1').selectOption('1');
+    // A saddle's readout in the pictures (focused: in a projection another mark may lie on top of it).
+    await section.locator(`[data-testid=escape-mark][aria-label^="${label}"]`).focus();
     for (const theme of ['light', 'dark'] as const) {
       await page.evaluate((t) => { document.documentElement.dataset.theme = t; window.dispatchEvent(new CustomEvent('bm-theme-change', { detail: t })); }, theme);
       await page.waitForTimeout(300);
