@@ -19,7 +19,8 @@ let modelId: number;
 beforeAll(async () => {
   [w, other] = await Promise.all([workspaceWithRoles('Path pictures'), workspaceWithRoles('Path picture outsiders')]);
   worker = spawnWorker('default');
-  ({ modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0502 }), 'Path picture lakes'));
+  // A document of its own (the data directory outlives a test run): the study is computed by this worker, not reused.
+  ({ modelId } = await createModel(w.modeler, w.workspaceId, twoLakes({ a2: 0.0502 + (Date.now() % 100_000) * 1e-10 }), 'Path picture lakes'));
   const start = await w.modeler.post(ws('/api/runs', w.workspaceId), { modelId, kind: 'escapes', settings: { noise: 0.45, values: [0.05, 0.15], paths: 50, seed: 3 } });
   expect(start.status, start.text).toBe(201);
   runId = start.body.run.id;
