@@ -11,7 +11,7 @@ import type { PlotPalette } from '../../lib/plot/palette';
 import { isDarkTheme, readPalette, watchTheme } from '../diagram/theme';
 import { useWidth } from '../diagram/use-width';
 import ChartExport from './ChartExport';
-import { Chart } from './EscapeView';
+import Chart from './Chart';
 import '../diagram/diagram.css';
 import './escapes.css';
 

@@ -7,17 +7,16 @@
  * page's theme; every mark is focusable and its readout gives the exact stored numbers. While the
  * run goes on the island re-reads /api/runs/:id/escapes, so finished values appear as they come.
  */
-import { useCallback, useEffect, useId, useMemo, useRef, useState } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import type { EscapePoint } from '../../lib/server/escapes/rows';
-import type { ChartFigure, ChartMark } from '../../lib/plot/escape-chart';
+import type { ChartMark } from '../../lib/plot/escape-chart';
 import { escapeChart, type EscapeChartKind, type EscapeChartOptions, type EscapeProvenance, type EscapeStudyView } from '../../lib/plot/escape-charts';
-import type { Prim } from '../../lib/plot/figure';
 import { formatValue } from '../../lib/plot/ticks';
-import { MONO } from '../../lib/plot/svg';
 import type { PlotPalette } from '../../lib/plot/palette';
 import { isDarkTheme, readPalette, watchTheme } from '../diagram/theme';
 import { useWidth } from '../diagram/use-width';
 import ChartExport from './ChartExport';
+import Chart from './Chart';
 import PathPicture from './PathPicture';
 import '../diagram/diagram.css';
 import './escapes.css';
@@ -42,66 +41,6 @@ const CHARTS: { kind: Exclude<EscapeChartKind, 'survival'>; title: string; what:
   { kind: 'sequences', title: 'Escape orders', what: 'Probability of each order in which the elements tip: Monte Carlo estimates as points with 95 % intervals (Wilson), the weak-noise prediction as dashed lines.' },
   { kind: 'timing', title: 'Escape times', what: 'Mean time to the k-th escape (95 % interval of the mean) and mean time between consecutive escapes, on a log axis; dashed: the weak-noise prediction of the mean k-th escape time.' },
 ];
-
-function PrimNode({ p, clipId }: { p: Prim; clipId: string }) {
-  const clip = p.clip ? `url(#${clipId})` : undefined;
-  const data = Object.fromEntries(Object.entries(p.data ?? {}).map(([k, v]) => [`data-${k}`, v]));
-  switch (p.t) {
-    case 'rect':
-      return <rect x={p.x} y={p.y} width={p.w} height={p.h} fill={p.fill} fillOpacity={p.opacity} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} clipPath={clip} {...data} />;
-    case 'path':
-      return <path d={p.d} fill={p.fill ?? 'none'} fillRule={p.fillRule} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} strokeDasharray={p.dash?.join(' ')} strokeLinecap={p.linecap} strokeLinejoin={p.linecap ? 'round' : undefined} opacity={p.opacity} clipPath={clip} {...data} />;
-    case 'text':
-      return <text x={p.x} y={p.y} fontSize={p.size} fontWeight={p.weight === 600 ? 600 : undefined} fontStyle={p.italic ? 'italic' : undefined} textAnchor={p.anchor} fill={p.fill} fontFamily={p.mono ? MONO : undefined} transform={p.rotate ? `rotate(${p.rotate} ${p.x} ${p.y})` : undefined} clipPath={clip}>{p.text}</text>;
-  }
-}
-
-/** One chart: the figure, focusable marks over it, a readout that follows hover and focus. */
-export function Chart({ name, fig, onPick, picked }: { name: string; fig: ChartFigure; onPick?: (m: ChartMark) => void; picked?: string | null }) {
-  const [active, setActive] = useState<ChartMark | null>(null);
-  const clipId = `es-clip-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
-  const shown = active ?? fig.marks.find((m) => m.id === picked) ?? null;
-  return (
-    <div className="es-chart" data-testid={`escape-chart-${name}`}>
-      <div className="es-plot" style={{ maxWidth: fig.width }}>
-        <svg viewBox={`0 0 ${fig.width} ${fig.height}`} width="100%" role="group" aria-label={fig.title} style={{ display: 'block' }}>
-          <defs><clipPath id={clipId}><rect x={fig.plot.x} y={fig.plot.y} width={fig.plot.w} height={fig.plot.h} /></clipPath></defs>
-          <rect width={fig.width} height={fig.height} fill={fig.background} />
-          {fig.items.map((p, i) => <PrimNode key={i} p={p} clipId={clipId} />)}
-          {shown ? <circle className="es-ring" cx={shown.cx} cy={shown.cy} r={8.5} /> : null}
-          {fig.marks.map((m) => (
-            <circle
-              key={m.id}
-              className="es-hit"
-              cx={m.cx}
-              cy={m.cy}
-              r={8}
-              tabIndex={0}
-              role="button"
-              aria-label={m.readout.join('; ')}
-              data-testid="escape-mark"
-              data-kind={m.kind}
-              data-series={m.label}
-              onMouseEnter={() => setActive(m)}
-              onMouseLeave={() => setActive((a) => (a?.id === m.id ? null : a))}
-              onFocus={() => setActive(m)}
-              onBlur={() => setActive((a) => (a?.id === m.id ? null : a))}
-              onClick={() => onPick?.(m)}
-              onKeyDown={(e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); onPick?.(m); } }}
-            />
-          ))}
-        </svg>
-        {shown ? (
-          <div className="dg-tooltip es-tooltip" role="status" data-testid="escape-readout"
-            style={{ left: `${(shown.cx / fig.width) * 100}%`, top: `${(shown.cy / fig.height) * 100}%`, transform: shown.cx > fig.width * 0.6 ? 'translate(calc(-100% - 12px), -50%)' : undefined }}>
-            <div className="dg-tooltip-head">{shown.readout[0]}</div>
-            {shown.readout.slice(1).map((line, i) => <div key={i}>{line}</div>)}
-          </div>
-        ) : null}
-      </div>
-    </div>
-  );
-}
 
 export default function EscapeView(props: EscapeViewProps) {
   const [data, setData] = useState<Loaded | null>(null);

@@ -11,7 +11,7 @@ import type { EscapeProvenance } from '../../lib/plot/escape-charts';
 import { pathFigure } from '../../lib/plot/escape-paths';
 import type { PlotPalette } from '../../lib/plot/palette';
 import { formatValue } from '../../lib/plot/ticks';
-import { Chart } from './EscapeView';
+import Chart from './Chart';
 import ChartExport from './ChartExport';
 
 export interface PathPictureProps {

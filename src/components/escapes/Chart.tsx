@@ -1,0 +1,69 @@
+/**
+ * One escape-study chart on screen: the Figure (the same one the export writes), focusable marks over
+ * it, and a readout that follows hover and focus. Used by EscapeView, PathPicture and EscapeCompare.
+ */
+import { useId, useState } from 'react';
+import type { ChartFigure, ChartMark } from '../../lib/plot/escape-chart';
+import type { Prim } from '../../lib/plot/figure';
+import { MONO } from '../../lib/plot/svg';
+
+function PrimNode({ p, clipId }: { p: Prim; clipId: string }) {
+  const clip = p.clip ? `url(#${clipId})` : undefined;
+  const data = Object.fromEntries(Object.entries(p.data ?? {}).map(([k, v]) => [`data-${k}`, v]));
+  switch (p.t) {
+    case 'rect':
+      return <rect x={p.x} y={p.y} width={p.w} height={p.h} fill={p.fill} fillOpacity={p.opacity} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} clipPath={clip} {...data} />;
+    case 'path':
+      return <path d={p.d} fill={p.fill ?? 'none'} fillRule={p.fillRule} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} strokeDasharray={p.dash?.join(' ')} strokeLinecap={p.linecap} strokeLinejoin={p.linecap ? 'round' : undefined} opacity={p.opacity} clipPath={clip} {...data} />;
+    case 'text':
+      return <text x={p.x} y={p.y} fontSize={p.size} fontWeight={p.weight === 600 ? 600 : undefined} fontStyle={p.italic ? 'italic' : undefined} textAnchor={p.anchor} fill={p.fill} fontFamily={p.mono ? MONO : undefined} transform={p.rotate ? `rotate(${p.rotate} ${p.x} ${p.y})` : undefined} clipPath={clip}>{p.text}</text>;
+  }
+}
+
+/** One chart: the figure, focusable marks over it, a readout that follows hover and focus. */
+export default function Chart({ name, fig, onPick, picked }: { name: string; fig: ChartFigure; onPick?: (m: ChartMark) => void; picked?: string | null }) {
+  const [active, setActive] = useState<ChartMark | null>(null);
+  const clipId = `es-clip-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
+  const shown = active ?? fig.marks.find((m) => m.id === picked) ?? null;
+  return (
+    <div className="es-chart" data-testid={`escape-chart-${name}`}>
+      <div className="es-plot" style={{ maxWidth: fig.width }}>
+        <svg viewBox={`0 0 ${fig.width} ${fig.height}`} width="100%" role="group" aria-label={fig.title} style={{ display: 'block' }}>
+          <defs><clipPath id={clipId}><rect x={fig.plot.x} y={fig.plot.y} width={fig.plot.w} height={fig.plot.h} /></clipPath></defs>
+          <rect width={fig.width} height={fig.height} fill={fig.background} />
+          {fig.items.map((p, i) => <PrimNode key={i} p={p} clipId={clipId} />)}
+          {shown ? <circle className="es-ring" cx={shown.cx} cy={shown.cy} r={8.5} /> : null}
+          {fig.marks.map((m) => (
+            <circle
+              key={m.id}
+              className="es-hit"
+              cx={m.cx}
+              cy={m.cy}
+              r={8}
+              tabIndex={0}
+              role="button"
+              aria-label={m.readout.join('; ')}
+              data-testid="escape-mark"
+              data-kind={m.kind}
+              data-series={m.label}
+              onMouseEnter={() => setActive(m)}
+              onMouseLeave={() => setActive((a) => (a?.id === m.id ? null : a))}
+              onFocus={() => setActive(m)}
+              onBlur={() => setActive((a) => (a?.id === m.id ? null : a))}
+              onClick={() => onPick?.(m)}
+              onKeyDown={(e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); onPick?.(m); } }}
+            />
+          ))}
+        </svg>
+        {shown ? (
+          <div className="dg-tooltip es-tooltip" role="status" data-testid="escape-readout"
+            style={{ left: `${(shown.cx / fig.width) * 100}%`, top: `${(shown.cy / fig.height) * 100}%`, transform: shown.cx > fig.width * 0.6 ? 'translate(calc(-100% - 12px), -50%)' : undefined }}>
+            <div className="dg-tooltip-head">{shown.readout[0]}</div>
+            {shown.readout.slice(1).map((line, i) => <div key={i}>{line}</div>)}
+          </div>
+        ) : null}
+      </div>
+    </div>
+  );
+}
+
