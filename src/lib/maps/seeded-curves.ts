@@ -162,7 +162,7 @@ function foldPoints(ext: SaddleNodeSystem, ys: readonly Float64Array[], curve: s
         : {
           type: 'bogdanov-takens', p: [y[2 * n], y[2 * n + 1]], x: Array.from(y.subarray(0, n)), curves: [curve],
           evidence: {
-            reason: `the left and right null vectors of the Jacobian become orthogonal along the saddle-node curve (w·v = ${ta.bt.toPrecision(3)} before, ${tb.bt.toPrecision(3)} after): the zero eigenvalue becomes double (a Jordan block), where a Hopf curve ends on the fold curve`,
+            reason: `the left and right null vectors of the Jacobian become orthogonal along the saddle-node curve (w·v = ${ta.bt.toPrecision(3)} before, ${tb.bt.toPrecision(3)} after): the zero eigenvalue becomes double (a Jordan block), where generically a Hopf curve ends on the fold curve (Kuznetsov §8.4; see the note when this map has none there)`,
             testFunction: 'w·v with J v = 0, Jᵀw = 0, |v| = 1',
             before: ta.bt, after: tb.bt, atPoint: hit.value, converged: hit.converged,
           },

@@ -151,7 +151,7 @@ export function buildMapFigure(input: MapFigureInput): MapFigure {
     items.push({ t: 'path', d: mapPointPath(pt.type, cx, cy, 8), fill: mapPointColour(pt.type, pal), stroke: pal.paper, strokeWidth: 1.3, clip: true, data: { point: pt.id, type: pt.type } });
     marks.push({
       id: pt.id, kind: 'point', type: pt.type, cx: r2(cx), cy: r2(cy), p: pt.p,
-      readout: mapReadout(names, `${mapPointLabel(pt.type)} point ${pt.id} (on ${pt.curves.join(', ')})`, pt.p, pt.x, input.variables, [String(pt.evidence.reason)]),
+      readout: mapReadout(names, `${mapPointLabel(pt.type)} point ${pt.id} (on ${pt.curves.join(', ')})`, pt.p, pt.x, input.variables, [String(pt.evidence.reason), ...(pt.note ? [`Note: ${pt.note}`] : [])]),
     });
   }
 

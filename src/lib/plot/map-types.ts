@@ -8,7 +8,7 @@ export interface MapDocumentView {
   readonly parameters: readonly [string, string] | readonly string[];
   readonly ranges: { readonly first: readonly [number, number] | readonly number[]; readonly second: readonly [number, number] | readonly number[] };
   readonly curves: readonly Pick<MapCurve, 'id' | 'type' | 'points'>[];
-  readonly points: readonly Pick<MapPoint, 'id' | 'type' | 'p' | 'x' | 'curves' | 'evidence'>[];
+  readonly points: readonly Pick<MapPoint, 'id' | 'type' | 'p' | 'x' | 'curves' | 'evidence' | 'note'>[];
   readonly regions: readonly Pick<MapRegion, 'id' | 'regime' | 'samples'>[];
   readonly diagnostics?: readonly { readonly level: string; readonly code: string; readonly message: string }[];
 }
