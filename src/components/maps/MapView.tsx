@@ -8,16 +8,15 @@
  * export writes (lib/plot/map-figure.ts), drawn as SVG in the page's theme.
  */
 import { useCallback, useEffect, useId, useMemo, useRef, useState } from 'react';
-import type { Prim } from '../../lib/plot/figure';
 import { buildMapFigure, nearestMark, pixelToParameters, type MapFigureInput, type MapMark } from '../../lib/plot/map-figure';
 import type { MapDocumentView } from '../../lib/plot/map-types';
 import type { PlotPalette } from '../../lib/plot/palette';
 import type { Provenance } from '../../lib/plot/provenance';
-import { MONO } from '../../lib/plot/svg';
 import { formatValue } from '../../lib/plot/ticks';
 import { isDarkTheme, readPalette, watchTheme } from '../diagram/theme';
 import { useWidth } from '../diagram/use-width';
 import MapExport from './MapExport';
+import PrimNode from '../export/PrimNode';
 import { documentAtSecond } from '../../lib/plot/map-slice';
 import '../diagram/diagram.css';
 import './maps.css';
@@ -31,19 +30,6 @@ export interface MapViewProps {
   readonly variables?: readonly string[];
   /** Editors only: the map's model version, for "trace the diagram at this value" (a new version with the value set). */
   readonly start?: { readonly modelId: number; readonly versionNumber: number };
-}
-
-function PrimNode({ p, clipId }: { p: Prim; clipId: string }) {
-  const clip = p.clip ? `url(#${clipId})` : undefined;
-  const data = Object.fromEntries(Object.entries(p.data ?? {}).map(([k, v]) => [`data-${k}`, v]));
-  switch (p.t) {
-    case 'rect':
-      return <rect x={p.x} y={p.y} width={p.w} height={p.h} fill={p.fill} fillOpacity={p.opacity} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} clipPath={clip} {...data} />;
-    case 'path':
-      return <path d={p.d} fill={p.fill ?? 'none'} fillRule={p.fillRule} stroke={p.stroke} strokeWidth={p.stroke ? p.strokeWidth ?? 1 : undefined} strokeDasharray={p.dash?.join(' ')} strokeLinecap={p.linecap} strokeLinejoin={p.linecap ? 'round' : undefined} opacity={p.opacity} clipPath={clip} {...data} />;
-    case 'text':
-      return <text x={p.x} y={p.y} fontSize={p.size} fontWeight={p.weight === 600 ? 600 : undefined} fontStyle={p.italic ? 'italic' : undefined} textAnchor={p.anchor} fill={p.fill} fontFamily={p.mono ? MONO : undefined} transform={p.rotate ? `rotate(${p.rotate} ${p.x} ${p.y})` : undefined} clipPath={clip} {...data}>{p.text}</text>;
-  }
 }
 
 export default function MapView(props: MapViewProps) {
