@@ -48,11 +48,16 @@ export function spawnWorker(queue: string, env: Record<string, string> = {}): Sp
   return {
     child,
     output: () => out,
-    stop: () => new Promise((resolve) => {
-      if (child.exitCode !== null || child.signalCode !== null) return resolve(child.exitCode);
-      child.once('exit', (code) => resolve(code));
-      child.kill('SIGTERM');
-    }),
+    stop: async () => {
+      // SIGTERM before the worker has loaded (its handlers are set once main.ts runs, after the
+      // engine's modules) ends it by the signal, exit code null: wait for its start line first.
+      await until('the worker to start', async () => out.includes('started as') || child.exitCode !== null || child.signalCode !== null, 60_000, 50).catch(() => undefined);
+      return new Promise((resolve) => {
+        if (child.exitCode !== null || child.signalCode !== null) return resolve(child.exitCode);
+        child.once('exit', (code) => resolve(code));
+        child.kill('SIGTERM');
+      });
+    },
   };
 }
 
