@@ -122,7 +122,9 @@ function powerSensitivity(root: MathNode, scope: Record<string, number>): number
   let spread = 0;
   for (const d of [2e-15, -2e-15]) {
     const v = perturbed.evaluate({ ...scope, __d: d });
-    if (typeof v === 'number' && typeof base === 'number') spread = Math.max(spread, Math.abs(v - base));
+    // A perturbed value that is not a finite number (sqrt(1 - tanh(u)^2) with tanh(u)^2 pushed past 1)
+    // means the evaluation is unboundedly sensitive there, like a complex one.
+    if (typeof v === 'number' && Number.isFinite(v) && typeof base === 'number') spread = Math.max(spread, Math.abs(v - base));
     else spread = Infinity;
   }
   return spread;
@@ -219,7 +221,9 @@ describe('compiled expressions against mathjs (fast-check)', () => {
           }
         }
       }),
-      { numRuns: 800 },
+      // A case fast-check found (seed 1848712482): tanh(u) rounds to -1, so the power sensitivity of
+      // mathjs's 1 - tanh(u)^2 was NaN and no tolerance held, although both values agree to 2e-16.
+      { numRuns: 800, examples: [['asin(tanh((x) / (x * -(y)) * -(pi))) + 0.001 + x + asin(tanh(x))', [-0.001, -0.1780449529629571]]] },
     );
   });
 });
