@@ -68,6 +68,29 @@ export default function computeTask(task: ComputeTask | EscapeComputeTask | MapC
   return traceTask(task as ComputeTask);
 }
 
+/**
+ * The thread's answer for an error the computation threw: invalid models and settings, and refused
+ * studies, fail the same way on every attempt (deterministic, no retry); anything else may be retried.
+ */
+function taskFailure(e: unknown): TaskFailure {
+  const err = e as { name?: string; message?: string; issues?: unknown; code?: string };
+  if (err?.name === 'ModelError') return { failed: { code: 'model-error', message: err.message ?? 'invalid model', issues: err.issues, deterministic: true } };
+  if (err?.name === 'EscapeStudyRefused') return { failed: { code: err.code ?? 'refused', message: err.message ?? 'refused', deterministic: true } };
+  if (err?.name === 'NoiseSettingError') return { failed: { code: 'invalid-settings', message: err.message ?? 'invalid settings', deterministic: true } };
+  return { failed: { code: 'compute-error', message: `${err?.name ?? 'Error'}: ${err?.message ?? String(e)}`.slice(0, 500), deterministic: false } };
+}
+
+/** Progress to the worker over the task's port, at most every PROGRESS_INTERVAL_MS unless forced. */
+function progressPoster(port: MessagePort): (fraction: number, phrase: string, force?: boolean, values?: ValueProgress[]) => void {
+  let last = 0;
+  return (fraction, phrase, force = false, values) => {
+    const now = Date.now();
+    if (!force && now - last < PROGRESS_INTERVAL_MS) return;
+    last = now;
+    port.postMessage({ fraction, phrase, ...(values ? { values: values.map((v) => ({ ...v })) } : {}) } satisfies ProgressMessage);
+  };
+}
+
 function testDelay(task: { testDelayMs: number }, flag: Int32Array, post: (f: number, phrase: string, force?: boolean) => void, share: number): void {
   const until = Date.now() + task.testDelayMs;
   while (Atomics.load(flag, 0) !== 1 && Date.now() < until) {
@@ -80,19 +103,13 @@ function testDelay(task: { testDelayMs: number }, flag: Int32Array, post: (f: nu
 async function escapeTask(task: EscapeComputeTask): Promise<EscapeTaskResult> {
   const flag = new Int32Array(task.cancelFlag);
   const isCancelled = () => Atomics.load(flag, 0) === 1;
-  let last = 0;
-  const post = (fraction: number, phrase: string, force = false, values?: ValueProgress[]) => {
-    const now = Date.now();
-    if (!force && now - last < PROGRESS_INTERVAL_MS) return;
-    last = now;
-    task.port.postMessage({ fraction, phrase, values: values?.map((v) => ({ ...v })) } satisfies ProgressMessage);
-  };
+  const post = progressPoster(task.port);
   // Acknowledgements of stored points come back over the same port.
   const acks: (() => void)[] = [];
   task.port.on('message', (m: { stored?: number }) => { if (m && typeof m.stored === 'number') acks.shift()?.(); });
   let pool: EscapePool | null = null;
   try {
-    if (task.testDelayMs > 0) testDelay(task, flag, (f, p, force) => post(f, p, force), 0);
+    if (task.testDelayMs > 0) testDelay(task, flag, post, 0);
     if (isCancelled()) return { kind: 'escapes', cancelled: true, summary: null };
     const model = JSON.parse(task.documentText);
     let runner: StudyRunner;
@@ -118,11 +135,7 @@ async function escapeTask(task: EscapeComputeTask): Promise<EscapeTaskResult> {
     });
     return { kind: 'escapes', ...out };
   } catch (e) {
-    const err = e as { name?: string; message?: string; issues?: unknown; code?: string };
-    if (err?.name === 'ModelError') return { failed: { code: 'model-error', message: err.message ?? 'invalid model', issues: err.issues, deterministic: true } };
-    if (err?.name === 'EscapeStudyRefused') return { failed: { code: err.code ?? 'refused', message: err.message ?? 'refused', deterministic: true } };
-    if (err?.name === 'NoiseSettingError') return { failed: { code: 'invalid-settings', message: err.message ?? 'invalid settings', deterministic: true } };
-    return { failed: { code: 'compute-error', message: `${err?.name ?? 'Error'}: ${err?.message ?? String(e)}`.slice(0, 500), deterministic: false } };
+    return taskFailure(e);
   } finally {
     await pool?.close().catch(() => undefined);
     task.port.close();
@@ -132,24 +145,10 @@ async function escapeTask(task: EscapeComputeTask): Promise<EscapeTaskResult> {
 function traceTask(task: ComputeTask): TaskResult {
   const flag = new Int32Array(task.cancelFlag);
   const isCancelled = () => Atomics.load(flag, 0) === 1;
-  let last = 0;
-  const post = (fraction: number, phrase: string, force = false) => {
-    const now = Date.now();
-    if (!force && now - last < PROGRESS_INTERVAL_MS) return;
-    last = now;
-    task.port.postMessage({ fraction, phrase } satisfies ProgressMessage);
-  };
+  const post = progressPoster(task.port);
   const delayShare = task.testDelayMs > 0 ? 0.5 : 0;
   try {
-    if (task.testDelayMs > 0) {
-      // Atomics.wait sleeps the thread but wakes as soon as the flag is set (Atomics.notify).
-      const until = Date.now() + task.testDelayMs;
-      while (!isCancelled() && Date.now() < until) {
-        const left = until - Date.now();
-        post(delayShare * (1 - left / task.testDelayMs), 'test delay before computing', true);
-        Atomics.wait(flag, 0, 0, Math.min(50, Math.max(1, left)));
-      }
-    }
+    if (task.testDelayMs > 0) testDelay(task, flag, post, delayShare);
     if (isCancelled()) {
       return { diagramBlob: new Uint8Array(0), regimesJson: '', previewPoints: 0, branchCount: 0, pointCount: 0, specialPointCount: 0, computeMs: 0, phasesMs: { trace: 0, label: 0, onset: 0, encode: 0 }, cancelled: true };
     }
@@ -159,11 +158,7 @@ function traceTask(task: ComputeTask): TaskResult {
     });
     return out;
   } catch (e) {
-    const err = e as { name?: string; message?: string; issues?: unknown };
-    if (err?.name === 'ModelError') {
-      return { failed: { code: 'model-error', message: err.message ?? 'invalid model', issues: err.issues, deterministic: true } };
-    }
-    return { failed: { code: 'compute-error', message: `${err?.name ?? 'Error'}: ${err?.message ?? String(e)}`.slice(0, 500), deterministic: false } };
+    return taskFailure(e);
   } finally {
     task.port.close();
   }
@@ -172,13 +167,7 @@ function traceTask(task: ComputeTask): TaskResult {
 function mapTask(task: MapComputeTask): MapTaskResult {
   const flag = new Int32Array(task.cancelFlag);
   const isCancelled = () => Atomics.load(flag, 0) === 1;
-  let last = 0;
-  const post = (fraction: number, phrase: string, force = false) => {
-    const now = Date.now();
-    if (!force && now - last < PROGRESS_INTERVAL_MS) return;
-    last = now;
-    task.port.postMessage({ fraction, phrase } satisfies ProgressMessage);
-  };
+  const post = progressPoster(task.port);
   const delayShare = task.testDelayMs > 0 ? 0.5 : 0;
   try {
     if (task.testDelayMs > 0) testDelay(task, flag, post, delayShare);
@@ -190,9 +179,7 @@ function mapTask(task: MapComputeTask): MapTaskResult {
       isCancelled,
     });
   } catch (e) {
-    const err = e as { name?: string; message?: string; issues?: unknown };
-    if (err?.name === 'ModelError') return { failed: { code: 'model-error', message: err.message ?? 'invalid model', issues: err.issues, deterministic: true } };
-    return { failed: { code: 'compute-error', message: `${err?.name ?? 'Error'}: ${err?.message ?? String(e)}`.slice(0, 500), deterministic: false } };
+    return taskFailure(e);
   } finally {
     task.port.close();
   }
