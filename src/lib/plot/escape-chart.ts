@@ -10,6 +10,7 @@ import { scaleLog } from 'd3';
 import { wrapText, type Figure, type Prim } from './figure';
 import { PAPER_PALETTE, type PlotPalette } from './palette';
 import { linearAxis, type Tick } from './ticks';
+import { drawAxes, r2 } from './figure';
 
 export type MarkerShape = 'circle' | 'square' | 'triangle' | 'diamond' | 'down' | 'hexagon';
 export const MARKER_SHAPES: readonly MarkerShape[] = ['circle', 'square', 'triangle', 'diamond', 'down', 'hexagon'];
@@ -92,7 +93,6 @@ export interface ChartMark {
 
 export interface ChartFigure extends Figure { readonly marks: ChartMark[] }
 
-const r2 = (v: number) => Math.round(v * 100) / 100;
 
 /** Path of a marker of `shape` centred at (cx, cy) within radius r. */
 export function shapePath(shape: MarkerShape, cx: number, cy: number, r: number): string {
@@ -211,17 +211,7 @@ export function buildChart(input: ChartInput): ChartFigure {
   }
 
   const axisY = plot.y + plot.h;
-  items.push({ t: 'path', d: `M${plot.x},${axisY}H${plot.x + plot.w}M${plot.x},${plot.y}V${axisY}`, stroke: pal.ink, strokeWidth: 1, fill: 'none' });
-  for (const t of px.ticks) {
-    items.push({ t: 'path', d: `M${r2(t.pos)},${axisY}v5`, stroke: pal.ink, strokeWidth: 1 });
-    items.push({ t: 'text', x: r2(t.pos), y: axisY + 17, text: t.label, size: 10.5, anchor: 'middle', fill: pal.ink, mono: true });
-  }
-  for (const t of yTicks) {
-    items.push({ t: 'path', d: `M${plot.x - 5},${r2(t.pos)}h5`, stroke: pal.ink, strokeWidth: 1 });
-    items.push({ t: 'text', x: plot.x - 8, y: r2(t.pos + 3.5), text: t.label, size: 10.5, anchor: 'end', fill: pal.ink, mono: true });
-  }
-  items.push({ t: 'text', x: plot.x + plot.w / 2, y: axisY + 36, text: input.xLabel, size: 12, anchor: 'middle', fill: pal.ink, weight: 600 });
-  items.push({ t: 'text', x: 16, y: plot.y + plot.h / 2, text: input.yLabel, size: 12, anchor: 'middle', fill: pal.ink, weight: 600, rotate: -90 });
+  drawAxes(items, pal, plot, px.ticks, yTicks, input.xLabel, input.yLabel);
 
   // Legend: per series its marker (and its line style when it has one).
   let ly = axisY + m.bottom + 14;

@@ -16,6 +16,7 @@ import { PAPER_PALETTE, type PlotPalette } from './palette';
 import { linearAxis, formatValue } from './ticks';
 import { SERIES_DARK, SERIES_LIGHT, shapePath, type ChartFigure, type ChartMark } from './escape-chart';
 import { escapeFooter, type EscapeProvenance } from './escape-charts';
+import { drawAxes, r2 } from './figure';
 
 export interface PathFigureOptions {
   /** State-variable indices on the horizontal and vertical axis; default [0, 1]. */
@@ -30,7 +31,6 @@ export interface PathFigureOptions {
 /** Dash patterns of the minimum-action paths, one per saddle out of the start state (solid first). */
 const DASHES: (number[] | undefined)[] = [undefined, [7, 3], [2, 3], [9, 3, 2, 3]];
 
-const r2 = (v: number) => Math.round(v * 100) / 100;
 const vec = (x: readonly number[]) => `(${x.map((v) => formatValue(v, 8)).join(', ')})`;
 
 /** The picture at its value, with the two axes `axes` (throws RangeError for a bad axis pair). */
@@ -124,17 +124,7 @@ export function pathFigure(pic: PathPicture, o: PathFigureOptions = {}): ChartFi
   });
 
   const axisY = plot.y + plot.h;
-  items.push({ t: 'path', d: `M${plot.x},${axisY}H${plot.x + plot.w}M${plot.x},${plot.y}V${axisY}`, stroke: pal.ink, strokeWidth: 1, fill: 'none' });
-  for (const t of xa.ticks) {
-    items.push({ t: 'path', d: `M${r2(t.pos)},${axisY}v5`, stroke: pal.ink, strokeWidth: 1 });
-    items.push({ t: 'text', x: r2(t.pos), y: axisY + 17, text: t.label, size: 10.5, anchor: 'middle', fill: pal.ink, mono: true });
-  }
-  for (const t of ya.ticks) {
-    items.push({ t: 'path', d: `M${plot.x - 5},${r2(t.pos)}h5`, stroke: pal.ink, strokeWidth: 1 });
-    items.push({ t: 'text', x: plot.x - 8, y: r2(t.pos + 3.5), text: t.label, size: 10.5, anchor: 'end', fill: pal.ink, mono: true });
-  }
-  items.push({ t: 'text', x: plot.x + plot.w / 2, y: axisY + 36, text: xName, size: 12, anchor: 'middle', fill: pal.ink, weight: 600 });
-  items.push({ t: 'text', x: 16, y: plot.y + plot.h / 2, text: yName, size: 12, anchor: 'middle', fill: pal.ink, weight: 600, rotate: -90 });
+  drawAxes(items, pal, plot, xa.ticks, ya.ticks, xName, yName);
 
   // Legend.
   let ly = axisY + m.bottom + 14;

@@ -13,7 +13,7 @@ import { provenanceLine, type Provenance } from './provenance';
 import { splitRuns } from './runs';
 import { labelWidth, stackRows } from './stack-rows';
 import { thinToBudget } from './thin';
-import { integerTicks, linearAxis } from './ticks';
+import { integerTicks, linearAxis, type Tick } from './ticks';
 
 export type Prim =
   | { readonly t: 'rect'; x: number; y: number; w: number; h: number; fill: string; opacity?: number; stroke?: string; strokeWidth?: number; clip?: boolean; data?: Record<string, string> }
@@ -58,7 +58,28 @@ export const UNSTABLE_WIDTH = 1.3;
 export const UNSTABLE_DASH = [6, 4];
 export const REGIME_LABEL = { weak: 'weak coupling', intermediate: 'intermediate coupling', strong: 'strong coupling' } as const;
 
-const r2 = (v: number) => Math.round(v * 100) / 100;
+/** Coordinates rounded to 1/100 px (smaller SVG, same picture). */
+export const r2 = (v: number) => Math.round(v * 100) / 100;
+
+/**
+ * The axes of a plot rectangle, as every Brinkmap figure draws them: the left and bottom lines, tick
+ * marks with their labels (mono, 10.5 px), the x title under the ticks and the y title turned along
+ * the left edge.
+ */
+export function drawAxes(items: Prim[], pal: PlotPalette, plot: Figure['plot'], xTicks: readonly Tick[], yTicks: readonly Tick[], xTitle: string, yTitle: string): void {
+  const axisY = plot.y + plot.h;
+  items.push({ t: 'path', d: `M${plot.x},${axisY}H${plot.x + plot.w}M${plot.x},${plot.y}V${axisY}`, stroke: pal.ink, strokeWidth: 1, fill: 'none' });
+  for (const t of xTicks) {
+    items.push({ t: 'path', d: `M${r2(t.pos)},${axisY}v5`, stroke: pal.ink, strokeWidth: 1 });
+    items.push({ t: 'text', x: r2(t.pos), y: axisY + 17, text: t.label, size: 10.5, anchor: 'middle', fill: pal.ink, mono: true });
+  }
+  for (const t of yTicks) {
+    items.push({ t: 'path', d: `M${plot.x - 5},${r2(t.pos)}h5`, stroke: pal.ink, strokeWidth: 1 });
+    items.push({ t: 'text', x: plot.x - 8, y: r2(t.pos + 3.5), text: t.label, size: 10.5, anchor: 'end', fill: pal.ink, mono: true });
+  }
+  items.push({ t: 'text', x: plot.x + plot.w / 2, y: axisY + 36, text: xTitle, size: 12, anchor: 'middle', fill: pal.ink, weight: 600 });
+  items.push({ t: 'text', x: 16, y: plot.y + plot.h / 2, text: yTitle, size: 12, anchor: 'middle', fill: pal.ink, weight: 600, rotate: -90 });
+}
 
 /** Extent [min, max] of p and of the projected state over all points and special points. */
 export function diagramExtent(diagram: Diagram, projection: Projection): { p: [number, number]; y: [number, number] } {
@@ -161,19 +182,9 @@ export function buildFigure(input: FigureInput): Figure {
 
   // Axis lines, tick labels, titles.
   const axisY = plot.y + plot.h;
-  items.push({ t: 'path', d: `M${plot.x},${axisY}H${plot.x + plot.w}M${plot.x},${plot.y}V${axisY}`, stroke: pal.ink, strokeWidth: 1, fill: 'none' });
-  for (const t of px.ticks) {
-    items.push({ t: 'path', d: `M${r2(t.pos)},${axisY}v5`, stroke: pal.ink, strokeWidth: 1 });
-    items.push({ t: 'text', x: r2(t.pos), y: axisY + 17, text: t.label, size: 10.5, anchor: 'middle', fill: pal.ink, mono: true });
-  }
-  for (const t of yTicks) {
-    items.push({ t: 'path', d: `M${plot.x - 5},${r2(t.pos)}h5`, stroke: pal.ink, strokeWidth: 1 });
-    items.push({ t: 'text', x: plot.x - 8, y: r2(t.pos + 3.5), text: t.label, size: 10.5, anchor: 'end', fill: pal.ink, mono: true });
-  }
   const xTitle = input.xLabel?.trim() || `parameter ${diagram.parameter}`;
   const yTitle = input.yLabel?.trim() || projectionLabel(projection, diagram.variables);
-  items.push({ t: 'text', x: plot.x + plot.w / 2, y: axisY + 36, text: xTitle, size: 12, anchor: 'middle', fill: pal.ink, weight: 600 });
-  items.push({ t: 'text', x: 16, y: plot.y + plot.h / 2, text: yTitle, size: 12, anchor: 'middle', fill: pal.ink, weight: 600, rotate: -90 });
+  drawAxes(items, pal, plot, px.ticks, yTicks, xTitle, yTitle);
 
   // Legend: line styles, then the glyphs of the types present.
   let ly = axisY + m.bottom + 14;

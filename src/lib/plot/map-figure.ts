@@ -16,6 +16,7 @@ import { regionPieces } from './map-regions';
 import { MAP_CURVE_LABEL, MAP_CURVE_STYLE, MAP_CURVE_TYPES, MAP_POINT_TYPES, mapCurveColour, mapPointColour, mapPointLabel, mapPointPath } from './map-glyphs';
 import { REGIME_LABEL } from './figure';
 import type { Regime } from '../regimes/types';
+import { drawAxes, r2 } from './figure';
 
 export interface MapMark {
   readonly id: string;
@@ -54,7 +55,6 @@ export interface MapFigureInput {
   readonly focusPerCurve?: number;
 }
 
-const r2 = (v: number) => Math.round(v * 100) / 100;
 
 /** Readout lines of a curve point or a codimension-two point, exact stored numbers (formatValue, 6 significant digits for the state). */
 export function mapReadout(names: readonly string[], head: string, p: readonly [number, number], x: readonly number[], variables?: readonly string[], extra: string[] = []): string[] {
@@ -157,17 +157,7 @@ export function buildMapFigure(input: MapFigureInput): MapFigure {
 
   // Axes.
   const axisY = plot.y + plot.h;
-  items.push({ t: 'path', d: `M${plot.x},${axisY}H${plot.x + plot.w}M${plot.x},${plot.y}V${axisY}`, stroke: pal.ink, strokeWidth: 1, fill: 'none' });
-  for (const t of xAxis.ticks) {
-    items.push({ t: 'path', d: `M${r2(t.pos)},${axisY}v5`, stroke: pal.ink, strokeWidth: 1 });
-    items.push({ t: 'text', x: r2(t.pos), y: axisY + 17, text: t.label, size: 10.5, anchor: 'middle', fill: pal.ink, mono: true });
-  }
-  for (const t of yAxis.ticks) {
-    items.push({ t: 'path', d: `M${plot.x - 5},${r2(t.pos)}h5`, stroke: pal.ink, strokeWidth: 1 });
-    items.push({ t: 'text', x: plot.x - 8, y: r2(t.pos + 3.5), text: t.label, size: 10.5, anchor: 'end', fill: pal.ink, mono: true });
-  }
-  items.push({ t: 'text', x: plot.x + plot.w / 2, y: axisY + 36, text: `swept parameter ${names[0]}`, size: 12, anchor: 'middle', fill: pal.ink, weight: 600 });
-  items.push({ t: 'text', x: 16, y: plot.y + plot.h / 2, text: `second parameter ${names[1]}`, size: 12, anchor: 'middle', fill: pal.ink, weight: 600, rotate: -90 });
+  drawAxes(items, pal, plot, xAxis.ticks, yAxis.ticks, `swept parameter ${names[0]}`, `second parameter ${names[1]}`);
 
   // Legend: the curve types present, the point types present, the regimes present, the slice.
   let ly = axisY + m.bottom + 14;
