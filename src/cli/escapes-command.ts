@@ -28,7 +28,8 @@ Options:
   --noise S     noise level sigma > 0; default the document's noise.amplitude
   --paths N     number of paths, 1 to 10^7; default 1000
   --dt H        time step > 0; default 0.05 / (fastest eigenvalue modulus at the start state)
-  --t-max T     time cap per path > 0; default 10 x the predicted mean last-escape time (else 1000)
+  --t-max T     time cap per path > 0; default from a pilot of the first 32 paths: 5 x their
+                longest last-escape time, at least 10 x the predicted mean (docs/noise.md)
   --seed K      integer seed in [0, 2^32 - 1]; default 1 (path i uses MT19937 keyed [K, i])
   --threads M   worker threads, 1 to the number of cores; default 1 (same output for any M)
   --start S     all-base (default) or all-tipped

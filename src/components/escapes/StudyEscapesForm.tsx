@@ -202,7 +202,7 @@ export default function StudyEscapesForm(props: StudyEscapesFormProps) {
         <div className="ed-three">
           {field('paths', 'Paths per value', paths, setPaths, 'Monte Carlo paths at each value')}
           {field('dt', 'Step dt (optional)', dt, setDt, 'default: 0.05 / fastest rate at the start state')}
-          {field('tMax', 'Time cap (optional)', tMax, setTMax, 'default: 10 × the predicted time to the last escape')}
+          {field('tMax', 'Time cap (optional)', tMax, setTMax, 'default: from a pilot of the first 32 paths (5 × their longest time to the last escape, at least 10 × the predicted one)')}
           {field('seed', 'Seed', seed, setSeed, 'the same seed at every value')}
           {field('threads', 'Threads', threads, setThreads, `the numbers do not depend on it; this server has ${props.cores} core${props.cores === 1 ? '' : 's'}`)}
         </div>

@@ -17,6 +17,7 @@ import { defaultStep, compareSteps, type StepCheck } from './step-size';
 import { checkBudget, estimateWork, DEFAULT_BUDGET, type WorkEstimate } from './budget';
 import { escapeStatistics, summarizeTimes, type EscapeStatistics } from './escape-statistics';
 import type { CancelSignal, Progress } from './types';
+import { chooseTimeCap, type TimeCap } from './time-cap';
 
 export type EscapeStart = 'all-base' | 'all-tipped';
 
@@ -25,7 +26,7 @@ export interface EscapeStudyOptions {
   readonly paths?: number;
   /** Step; default defaultStep(eigenvalues of the start state). */
   readonly dt?: number;
-  /** Time cap per path; default 10 × the predicted mean last-escape time, or 1000 when that is not finite. */
+  /** Time cap per path; default from a pilot of the study's first paths (time-cap.ts). */
   readonly tMax?: number;
   /** Default 1. */
   readonly seed?: number;
@@ -50,6 +51,8 @@ export interface PreparedEscapes {
   readonly stepCheckPaths: number;
   readonly prediction: Prediction;
   readonly estimate: WorkEstimate;
+  /** How tMax was chosen (time-cap.ts). */
+  readonly timeCap: Omit<TimeCap, 'diagnostics'>;
   readonly diagnostics: Diagnostic[];
 }
 
@@ -89,10 +92,7 @@ export function prepareEscapes(system: CompiledSystem, diagram: Diagram, spec: N
   const state = graph.states[startIndex];
   const dt = options.dt ?? defaultStep(state.eigenvalues);
   const last = prediction.meanLastEscape;
-  const tMax = options.tMax ?? (Number.isFinite(last) && last > 0 ? 10 * last : 1000);
   const stepCheckPaths = Math.min(paths, options.stepCheckPaths ?? 500);
-  const estimate = estimateWork(paths + 2 * stepCheckPaths, system.dimension, dt, tMax, last);
-  checkBudget(estimate, options.budget ?? DEFAULT_BUDGET);
   const setup: EscapeSetup = {
     p,
     sigma: sigmaOf(spec),
@@ -101,8 +101,21 @@ export function prepareEscapes(system: CompiledSystem, diagram: Diagram, spec: N
     returnLevels: Float64Array.from(graph.roles, (r) => r.threshold),
     direction,
   };
+  // Refuse before the pilot when the prediction alone is over the budget (the check as it was
+  // before the pilot existed).
+  const budget = options.budget ?? DEFAULT_BUDGET;
+  const before = options.tMax ?? (Number.isFinite(last) && last > 0 ? 10 * last : 1000);
+  checkBudget(estimateWork(paths + 2 * stepCheckPaths, system.dimension, dt, before, last), budget);
+  // The cap, from a pilot of the study's first paths unless given (time-cap.ts); the budget counts
+  // the pilot's mean last escape as the expected time when it has one.
+  const { diagnostics: capNotes, ...timeCap } = chooseTimeCap(system, setup, { dt, seed, paths }, last, options.tMax);
+  diagnostics.push(...capNotes);
+  const tMax = timeCap.tMax;
+  const fromPilot = Number.isFinite(timeCap.expectedTime);
+  const estimate = estimateWork(paths + 2 * stepCheckPaths, system.dimension, dt, tMax, fromPilot ? timeCap.expectedTime : last, fromPilot ? 'pilot' : 'prediction');
+  checkBudget(estimate, budget);
   const names = [...(system.network?.nodeIds ?? system.variables)];
-  return { p, setup, names, paths, dt, tMax, seed, stepCheckPaths, prediction, estimate, diagnostics };
+  return { p, setup, names, paths, dt, tMax, seed, stepCheckPaths, prediction, estimate, timeCap, diagnostics };
 }
 
 export interface EscapeReport {

@@ -29,7 +29,7 @@ export const escapeSettingsSchema = z.object({
   paths: z.number().int('must be a whole number').min(1, 'at least 1').max(MAX_SERVICE_PATHS, `at most ${MAX_SERVICE_PATHS}`).default(1000),
   /** Euler–Maruyama step; default 0.05 / fastest eigenvalue modulus at the start state. */
   dt: z.number().finite('must be a finite number').positive('must be positive').optional(),
-  /** Time cap per path; default 10 x the predicted mean last-escape time (else 1000). */
+  /** Time cap per path; default from a pilot of the first paths (src/lib/noise/time-cap.ts). */
   tMax: z.number().finite('must be a finite number').positive('must be positive').optional(),
   seed: z.number().int('must be a whole number').min(0, 'at least 0').max(4294967295, 'at most 4294967295').default(1),
   /** Threads of the escape pool; the numbers are the same for any count. */
