@@ -51,7 +51,10 @@ export const GET = handler(async ({ locals, params, url }) => {
     const diagram = JSON.parse(atlas.diagramJson) as Diagram;
     try {
       picture = pathPicture(system, diagram, resolveNoise(document, settings.noise), point.p, {
-        paths, seed: settings.seed, start: settings.start, dt: settings.dt, tMax: settings.tMax,
+        // The cap and step the study used at this value (stored with the point): the default cap
+        // comes from a pilot of the study's first 32 paths, which a picture of a few paths would
+        // not reproduce.
+        paths, seed: settings.seed, start: settings.start, dt: point.dt ?? settings.dt, tMax: point.tMax ?? settings.tMax,
       });
     } catch (e) {
       if (e instanceof Error && e.name === 'NoiseSettingError') throw conflict(`no path picture at ${r.study.parameter} = ${point.p}: ${e.message}`);
