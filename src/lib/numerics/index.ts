@@ -6,6 +6,8 @@ export * from './newton.js';
 export * from './bordered.js';
 export * from './eigenvalues.js';
 export * from './branch-point-data.js';
+export * from './extended-system.js';
+export * from './continue-curve.js';
 export * from './pseudo-arclength.js';
 export * from './locate.js';
 export * from './branch-switch.js';
