@@ -63,3 +63,8 @@ export interface StoredMapSettings {
   readonly maxPointsPerCurve?: number;
   readonly maxCurves?: number;
 }
+
+/** POST /api/runs/:id/slices: the value of the map's second parameter to cut at (src/lib/server/maps/slices.ts). */
+export const startSliceSchema = z.object({
+  value: z.number({ required_error: 'required: the value of the second parameter', invalid_type_error: 'must be a number' }).finite('must be a finite number'),
+}).strict();

@@ -11,6 +11,21 @@ import { criticalCoupling, OnsetInputError, type CriticalCouplingResult } from '
 import type { Diagram } from '../../atlas/types.ts';
 import type { RunSettings } from './schemas.ts';
 import { encodeForStorage } from '../results/stored-diagram.ts';
+import { documentAtSecond } from '../../plot/map-slice.ts';
+
+/**
+ * The document the run traces: the stored version, or a copy with the settings' override applied (a
+ * slice of a map, docs/maps.md "From the map back to one parameter"; the name was checked when the
+ * run started, so a missing one is a broken contract). The engine gets the settings without it.
+ */
+export function documentForRun(documentText: string, settings: RunSettings): { document: unknown; engineSettings: Omit<RunSettings, 'override'> } {
+  const { override, ...engineSettings } = settings;
+  const document = JSON.parse(documentText) as unknown;
+  if (!override) return { document, engineSettings };
+  const changed = documentAtSecond(document, override.parameter, override.value);
+  if (!changed) throw new Error(`settings.override.parameter: the model version has no parameter ${override.parameter}`);
+  return { document: changed, engineSettings };
+}
 
 export interface ComputeHooks {
   /** fraction in 0..1 of the whole run, and a short phrase saying what is being done. */
@@ -40,8 +55,9 @@ const ONSET_AT = 0.95;
 export function computeTrace(documentText: string, settings: RunSettings, hooks: ComputeHooks): ComputeOutput {
   const started = performance.now();
   hooks.onProgress(0, 'compiling the model');
-  const system = compileModelJson(JSON.parse(documentText));
-  const diagram: Diagram = traceDiagram(system, { ...settings }, {
+  const { document, engineSettings } = documentForRun(documentText, settings);
+  const system = compileModelJson(document);
+  const diagram: Diagram = traceDiagram(system, { ...engineSettings }, {
     onProgress: (f: number, phrase: string) => hooks.onProgress(TRACE_SHARE * Math.min(1, Math.max(0, f)), phrase),
     isCancelled: () => hooks.isCancelled(),
   });

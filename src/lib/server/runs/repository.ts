@@ -10,6 +10,7 @@ import { requireVersion } from '../models/repository.ts';
 import { conflict, notFound } from '../models/service-error.ts';
 import { resultCacheKey } from './cache-key.ts';
 import { normalizeSettings } from './normalize-settings.ts';
+import { checkOverride } from './override.ts';
 import type { ListRunsQuery, RunSettings, RunStatus } from './schemas.ts';
 import type { EscapeSettings } from '../escapes/schema.ts';
 import { checkRequestBudget, normalizeEscapeSettings } from '../escapes/settings.ts';
@@ -39,6 +40,8 @@ export interface RunInfo {
   escapeStudyId: number | null;
   /** Map runs: the stored map (map_results). */
   mapResultId: number | null;
+  /** A trace run cut from a map at one value of its second parameter (settings.override holds it): the map run. */
+  sliceOf: number | null;
   reused: boolean;
   error: { code: string; message: string; [k: string]: unknown } | null;
   queuedAt: string;
@@ -73,6 +76,7 @@ export function toRunInfo(r: Row): RunInfo {
     resultId: r.result_id,
     escapeStudyId: r.escape_study_id ?? null,
     mapResultId: r.map_result_id ?? null,
+    sliceOf: r.slice_of_run_id ?? null,
     reused: Boolean(r.reused),
     error: parseJson(r.error),
     queuedAt: iso(r.queued_at)!,
@@ -127,6 +131,8 @@ export type StartRunInput = {
   /** Worker queue name; the API always uses 'default' (tests and deployments may route elsewhere). */
   queue?: string;
   maxAttempts?: number;
+  /** Trace runs only: the map run this one is a slice of (src/lib/server/maps/slices.ts). */
+  sliceOf?: number;
 } & ({ kind?: 'trace'; settings: RunSettings } | { kind: 'escapes'; settings: EscapeSettings } | { kind: 'map'; settings: MapRunSettings });
 
 /**
@@ -149,7 +155,9 @@ export async function startRun(workspaceId: string, actorId: string | null, inpu
     settings = normalizeMapSettings(version.document, input.settings);
     cacheKey = resultCacheKey('map', version.hash, settings, MAP_RESULT_ENGINE);
   } else {
-    settings = normalizeSettings(version.document, input.settings as RunSettings);
+    const s = input.settings as RunSettings;
+    if (s.override) checkOverride(version.document, s.override);
+    settings = normalizeSettings(version.document, s);
     cacheKey = resultCacheKey(kind, version.hash, settings, ENGINE_VERSION);
   }
   const runId = await db.transaction(async (trx) => {
@@ -171,6 +179,7 @@ export async function startRun(workspaceId: string, actorId: string | null, inpu
       notify: input.notify,
       max_attempts: input.maxAttempts ?? 3,
       engine_version: ENGINE_VERSION,
+      ...(input.sliceOf !== undefined && kind === 'trace' ? { slice_of_run_id: input.sliceOf } : {}),
     };
     const [id] = await trx('runs').insert(stored
       ? { ...base, status: 'done', progress: 1, phrase: 'reused a stored result of identical inputs', [storeColumn]: stored.id, reused: true,

@@ -1,18 +1,38 @@
 import { z } from 'zod';
 import { escapeSettingsSchema } from '../escapes/schema.ts';
 import { mapSettingsSchema } from '../maps/schema.ts';
-import { runSettingsSchema } from './trace-settings-schema.ts';
+import { refineRunSettings, runSettingsObject, runSettingsSchema } from './trace-settings-schema.ts';
 
 export { runSettingsSchema };
 
-export type RunSettings = z.infer<typeof runSettingsSchema>;
+/**
+ * One model parameter set to another value for this trace only, without a new model version (a slice
+ * of a two-parameter map at a clicked value, docs/maps.md "From the map back to one parameter"). The
+ * name is checked against the version's document when the run starts (a parameter the map could vary:
+ * the coupling parameter or an element parameter that not every node overrides, any parameter of an
+ * ode document; never the swept one): 400 naming settings.override.parameter. Any finite value; the
+ * slices route further keeps it inside the map's range (field `value`). Part of the settings, so part
+ * of the cache key: the same value again reuses the stored result.
+ */
+export const parameterOverrideSchema = z.object({
+  parameter: z.string({ required_error: 'required: the name of the parameter', invalid_type_error: 'must be a parameter name' })
+    .min(1, 'required: the name of the parameter').max(200, 'at most 200 characters'),
+  value: z.number({ required_error: 'required: the value', invalid_type_error: 'must be a number' }).finite('must be a finite number'),
+}).strict();
+
+export type ParameterOverride = z.infer<typeof parameterOverrideSchema>;
+
+/** A trace run's settings: the engine's knobs (./trace-settings-schema.ts) and the optional override. */
+export const traceRunSettingsSchema = runSettingsObject.extend({ override: parameterOverrideSchema.optional() }).strict().superRefine(refineRunSettings);
+
+export type RunSettings = z.infer<typeof traceRunSettingsSchema>;
 
 const startTraceRunSchema = z.object({
   modelId: z.number().int().positive(),
   /** Version number within the model; the latest when absent. */
   version: z.number().int().positive().optional(),
   kind: z.literal('trace'),
-  settings: runSettingsSchema.default({}),
+  settings: traceRunSettingsSchema.default({}),
   /** Send the person who started the run an e-mail when it finishes or fails. */
   notify: z.boolean().default(false),
 }).strict();

@@ -10,7 +10,7 @@ const finite = z.number().finite('must be a finite number');
  * and the engine's defaults apply otherwise. The settings are part of the result's identity, so
  * they are kept small and explicit (no free-form keys).
  */
-export const runSettingsSchema = z.object({
+export const runSettingsObject = z.object({
   from: finite.optional(),
   to: finite.optional(),
   /** Cap on points per branch (engine default 20000). */
@@ -25,12 +25,17 @@ export const runSettingsSchema = z.object({
   maxBranches: z.number().int('must be a whole number').min(1, 'at least 1').max(100_000, 'at most 100000').optional(),
   /** Which starting patterns (docs/numerics.md §12): the engine's own names and limits. */
   ...startSelectionSettingsSchema.shape,
-}).strict().superRefine((s, ctx) => {
+});
+
+/** The checks across fields, shared by runSettingsSchema and the trace run's schema with its override (./schemas.ts). */
+export function refineRunSettings(s: { from?: number; to?: number; minStep?: number; maxStep?: number }, ctx: z.RefinementCtx): void {
   if (s.from !== undefined && s.to !== undefined && s.from === s.to) {
     ctx.addIssue({ code: 'custom', path: ['to'], message: 'must differ from settings.from' });
   }
   if (s.minStep !== undefined && s.maxStep !== undefined && s.minStep > s.maxStep) {
     ctx.addIssue({ code: 'custom', path: ['minStep'], message: 'must not exceed settings.maxStep' });
   }
-});
+}
+
+export const runSettingsSchema = runSettingsObject.strict().superRefine(refineRunSettings);
 
