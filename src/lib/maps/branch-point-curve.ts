@@ -16,7 +16,7 @@
  * The full system's fold system is singular there (the extra F-equations are dependent), which is why
  * the restriction is used.
  */
-import type { ExtendedSystem } from './curve-continuation.js';
+import type { ExtendedSystem } from '../numerics/extended-system.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 import { DenseLu } from '../numerics/dense-lu.js';
 

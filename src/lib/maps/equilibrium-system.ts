@@ -1,11 +1,11 @@
 /**
  * Equilibrium branches at a fixed second parameter as an ExtendedSystem (docs/maps.md §2):
- * G(x, a) = F(x, a, b0) in y = (x, a), DG = [J_x | F_a]. The same equations the one-parameter
- * engine (src/lib/numerics/pseudo-arclength.ts) continues, here for the maps layer's own driver
- * (curve-continuation.ts): it is what makes that driver the one for equilibria, fold and Hopf curves.
- * The product's one-parameter diagrams keep using the numerics driver (unchanged results).
+ * G(x, a) = F(x, a, b0) in y = (x, a), DG = [J_x | F_a], on the two-parameter compiler's functions.
+ * The one-parameter engine continues the same equations on its own compiled system
+ * (numerics/pseudo-arclength.ts, EquilibriumBranch); both go through the one driver
+ * (numerics/continue-curve.ts), as do the saddle-node, Hopf and pitchfork curves.
  */
-import type { ExtendedSystem } from './curve-continuation.js';
+import type { ExtendedSystem } from '../numerics/extended-system.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 
 export class EquilibriumSystem implements ExtendedSystem {

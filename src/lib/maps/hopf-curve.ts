@@ -13,7 +13,7 @@
  * c is kept inside the invariant subspace and orthogonal to v: c = J v - (v . J v) v, normalized
  * (J maps the subspace into itself), renewed when it has turned by more than about 8 degrees.
  */
-import type { ExtendedSystem } from './curve-continuation.js';
+import type { ExtendedSystem } from '../numerics/extended-system.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 
 export class HopfSystem implements ExtendedSystem {

@@ -2,7 +2,7 @@
  * Location of a test function's zero between two consecutive points of a curve (docs/maps.md §4).
  */
 import { dot } from '../numerics/vector.js';
-import { correctOn, type ExtendedSystem } from './curve-continuation.js';
+import { correctExtended, type ExtendedSystem } from '../numerics/extended-system.js';
 
 export interface Located {
   readonly y: Float64Array;
@@ -40,7 +40,7 @@ export function locateOnChord(ext: ExtendedSystem, ya: Float64Array, yb: Float64
     const u = (lo * fhi - hi * flo) / (fhi - flo);
     const g = new Float64Array(N);
     for (let k = 0; k < N; k++) g[k] = ya[k] + u * (yb[k] - ya[k]);
-    const r = correctOn(ext, g, chord, dot(chord, g), { residualTolerance: 1e-12, stepTolerance: 1e-13, maxIterations: 20, earlyStep: 1e-13, maxDisplacement: len });
+    const r = correctExtended(ext, g, chord, dot(chord, g), { residualTolerance: 1e-12, stepTolerance: 1e-13, maxIterations: 20, earlyStepTolerance: 1e-13, maxDisplacement: len });
     if (!r.converged && !(r.residual < 1e-11)) break;
     const value = test(r.y);
     if (!Number.isFinite(value)) break;

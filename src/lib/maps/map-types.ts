@@ -1,7 +1,10 @@
 /** Shapes and settings of a two-parameter map (docs/maps.md). Plain arrays, so a map serializes to JSON as it is. */
 import type { Diagnostic } from '../atlas/types.js';
 import type { Regime } from '../regimes/types.js';
-import type { CurveEnd } from './curve-continuation.js';
+import type { CurveEnd } from '../numerics/continue-curve.js';
+
+/** How a direction of a map curve ended: the driver's ends, or stopped at a Bogdanov-Takens point (a Hopf curve, where it turns into neutral saddles). */
+export type MapCurveEnd = CurveEnd | 'bogdanov-takens';
 
 export interface MapSettings {
   /** Range of the swept (first) parameter; default the system's sweep. */
@@ -66,7 +69,7 @@ export interface MapCurve {
   readonly id: string;
   readonly type: MapCurveType;
   readonly points: MapCurvePoint[];
-  readonly ends: [CurveEnd, CurveEnd];
+  readonly ends: [MapCurveEnd, MapCurveEnd];
   /** The one-parameter special point it was continued from (at first = p, second = second), and which parameter that diagram swept. */
   readonly seed: { readonly second: number; readonly p: number; readonly x: number[]; readonly swept?: 'first' | 'second' };
 }

@@ -18,7 +18,7 @@
  * d^2F_i/dx_j dx_k v_j v_k; a cusp is a simple zero of a2 along the curve. Bogdanov-Takens test:
  * w . v with unnormalized null vectors (foldTests).
  */
-import type { ExtendedSystem } from './curve-continuation.js';
+import type { ExtendedSystem } from '../numerics/extended-system.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 import { DenseLu } from '../numerics/dense-lu.js';
 

@@ -7,10 +7,11 @@
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
 import type { Diagnostic, SpecialPoint } from '../atlas/types.js';
 import { findSymmetry, SymmetricBranchPointSystem } from './branch-point-curve.js';
-import { continueCurve, correctOn, startTangent, type CurveDirection, type CurveEnd, type CurveHooks, type CurveOptions, type CurvePoint, type ExtendedSystem } from './curve-continuation.js';
+import { continueCurve, type CurveDirection, type CurveHooks, type CurveOptions } from '../numerics/continue-curve.js';
+import { correctExtended, startTangent, type CurvePoint, type ExtendedSystem } from '../numerics/extended-system.js';
 import { HopfSystem } from './hopf-curve.js';
 import { locateOnChord } from './locate-on-curve.js';
-import type { MapCurve, MapPoint } from './map-types.js';
+import type { MapCurve, MapCurveEnd, MapPoint } from './map-types.js';
 import { SaddleNodeSystem } from './saddle-node-curve.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 
@@ -31,22 +32,26 @@ export function nullVector(j: Float64Array, n: number): Float64Array {
   return v;
 }
 
-/** Trace a curve both ways from y0 and join the halves: [minus reversed, y0, plus]. */
+/**
+ * Trace a curve both ways from y0 with the one pseudo-arclength driver (numerics/continue-curve.ts, its
+ * default policies: a new factorization for each tangent, ends inside the box when a bound cannot be
+ * solved, closed loops detected) and join the halves: [minus reversed, y0, plus].
+ */
 function bothWays(
-  ext: ExtendedSystem & { c: Float64Array }, y0: Float64Array, t0: Float64Array, o: CurveOptions, hooks: CurveHooks,
-): { pts: CurvePoint[]; ends: [CurveEnd, CurveEnd] } {
+  ext: ExtendedSystem & { c: Float64Array }, y0: Float64Array, t0: Float64Array, o: CurveOptions, hooks: CurveHooks<CurvePoint, 'bogdanov-takens'>,
+): { pts: CurvePoint[]; ends: [MapCurveEnd, MapCurveEnd] } {
   const c0 = Float64Array.from(ext.c);
-  const plus = continueCurve(ext, y0, t0, o, hooks);
-  let minus: CurveDirection;
+  const plus = continueCurve(ext, Float64Array.from(y0), Float64Array.from(t0), o, hooks);
+  let minus: CurveDirection<CurvePoint, 'bogdanov-takens'>;
   if (plus.end === 'closed-loop') minus = { points: [plus.points[0]], end: 'closed-loop', rejectedSteps: 0, newtonIterations: 0 };
   else {
     ext.c.set(c0);
-    minus = continueCurve(ext, y0, Float64Array.from(t0, (v) => -v), o, hooks);
+    minus = continueCurve(ext, Float64Array.from(y0), Float64Array.from(t0, (v) => -v), o, hooks);
   }
   return { pts: [...minus.points.slice(1).reverse(), ...plus.points], ends: [minus.end, plus.end] };
 }
 
-function noteEnd(end: CurveEnd, id: string, diagnostics: Diagnostic[]): void {
+function noteEnd(end: MapCurveEnd, id: string, diagnostics: Diagnostic[]): void {
   if (end === 'parameter-bound' || end === 'closed-loop' || end === 'cancelled' || end === 'bogdanov-takens') return;
   diagnostics.push({ level: 'warning', code: end, message: `curve ${id} ended early (${end}); it may continue beyond the last point shown` });
 }
@@ -60,7 +65,7 @@ function startOn(
   const fixed = swept === 'first' ? N - 1 : N - 2;
   const e = new Float64Array(N);
   e[fixed] = 1;
-  const polished = correctOn(ext, y0, e, y0[fixed], { residualTolerance: 1e-12, stepTolerance: 1e-12, maxIterations: 20, earlyStep: 1e-12 });
+  const polished = correctExtended(ext, y0, e, y0[fixed], { residualTolerance: 1e-12, stepTolerance: 1e-12, maxIterations: 20, earlyStepTolerance: 1e-12 });
   const start = polished.converged || polished.residual < 1e-10 ? polished.y : null;
   const tangent = start ? startTangent(ext, start) : null;
   if (!start || !tangent || !(tangent.next > 1e-8 * tangent.largest)) {
@@ -208,8 +213,9 @@ export function hopfCurve(
   ext.rebase(y0);
   const start = startOn(ext, y0, b, swept, 'Hopf point', diagnostics, sp, sys);
   if (!start) return null;
-  const stopAfter = (pa: CurvePoint, pb: CurvePoint) => pa.y[2 * n] > 0 && !(pb.y[2 * n] > 0);
-  const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled, stopAfter });
+  // Stop where κ leaves (0, ∞): a Bogdanov-Takens point, beyond which the system describes neutral saddles.
+  const stop = (pa: CurvePoint, pb: CurvePoint) => (pa.y[2 * n] > 0 && !(pb.y[2 * n] > 0) ? 'bogdanov-takens' as const : null);
+  const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled, stop });
   const id = `h${index + 1}`;
   const found: Omit<MapPoint, 'id'>[] = [];
   const ys = pts.map((p) => p.y);

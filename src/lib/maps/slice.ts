@@ -6,7 +6,7 @@
  * corrector tolerance, not interpolated points.
  */
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
-import { correctOn } from './curve-continuation.js';
+import { correctExtended } from '../numerics/extended-system.js';
 import { SaddleNodeSystem } from './saddle-node-curve.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 import type { MapCurve } from './trace-map.js';
@@ -45,7 +45,7 @@ export function saddleNodesAt(sys: TwoParameterSystem, curves: readonly MapCurve
       y[2 * n + 1] = b;
       const e = new Float64Array(2 * n + 2);
       e[2 * n + 1] = 1;
-      const r = correctOn(ext, y, e, b, { residualTolerance: 1e-13, stepTolerance: 1e-13, maxIterations: 30, earlyStep: 1e-13 });
+      const r = correctExtended(ext, y, e, b, { residualTolerance: 1e-13, stepTolerance: 1e-13, maxIterations: 30, earlyStepTolerance: 1e-13 });
       out.push({ curve: curve.id, p: r.y[2 * n], x: Array.from(r.y.subarray(0, n)), converged: r.converged || r.residual < 1e-12 });
     }
   }

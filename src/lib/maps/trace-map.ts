@@ -8,7 +8,7 @@
 import { traceDiagram } from '../atlas/trace-diagram.js';
 import type { Diagnostic, Diagram, SpecialPoint } from '../atlas/types.js';
 import type { CompiledSystem } from '../model/compiled-system.js';
-import type { CurveOptions } from './curve-continuation.js';
+import type { CurveOptions } from '../numerics/continue-curve.js';
 import { defaultMapSettings, type MapCurveType, type MapHooks, type MapPoint, type MapRegion, type MapSettings, type TwoParameterMap } from './map-types.js';
 import { regimeRegions } from './regime-regions.js';
 import { branchPointCurve, hopfCurve, saddleNodeCurve, type Traced } from './seeded-curves.js';

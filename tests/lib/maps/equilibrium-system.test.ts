@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { compileTwoParameter, continueCurve, EquilibriumSystem, startTangent } from '../../../src/lib/maps/index';
 
 /**
- * The maps layer's generic pseudo-arclength driver on the equilibrium system of x' = a + b x - x^3 at
+ * The one pseudo-arclength driver (numerics/continue-curve.ts) on the equilibrium system of x' = a + b x - x^3 at
  * b = 1: the branch is a = x^3 - x (solve F = 0 for a), with folds where da/dx = 3x^2 - 1 = 0, at
  * a = ±2/(3 sqrt 3) (Strogatz, Nonlinear Dynamics and Chaos, 2nd ed., §3.6, the cusp's fold values).
  */
@@ -11,7 +11,7 @@ const cusp = {
   parameters: { a: 0, b: 1 }, sweep: { parameter: 'a', from: -1, to: 1 },
 };
 
-describe('continueCurve (generic driver) on an equilibrium branch', () => {
+describe('continueCurve (the one driver, numerics/continue-curve.ts) on the maps equilibrium system', () => {
   const sys = compileTwoParameter(cusp, { second: 'b' });
   const ext = new EquilibriumSystem(sys, 1);
   const y0 = Float64Array.from([-1.2, (-1.2) ** 3 + 1.2]);
