@@ -96,6 +96,11 @@ export class BranchIndex {
 
   /** Is y (within tol in the 2-norm, tol below the cell sizes) a point already traced? */
   hasPoint(y: Float64Array, tol: number): boolean {
+    return this.pointList(y, tol) !== null;
+  }
+
+  /** The list of a traced point within tol of y (the first one the scan meets), or null: hasPoint saying which. */
+  pointList(y: Float64Array, tol: number): number | null {
     const [pc, xc] = this.coords(y);
     const f = this.fine(y);
     const fr = this.fineReach(tol);
@@ -105,11 +110,11 @@ export class BranchIndex {
         if (!c) continue;
         for (const [fk, entries] of c) {
           if (Math.abs(fk - f) > fr) continue;
-          for (const e of entries) if (dist2(this.lists[e.list].points[e.idx].y, y) < tol) return true;
+          for (const e of entries) if (dist2(this.lists[e.list].points[e.idx].y, y) < tol) return e.list;
         }
       }
     }
-    return false;
+    return null;
   }
 
   /**

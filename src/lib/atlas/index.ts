@@ -1,5 +1,6 @@
 export * from './types.js';
-export { traceDiagram, type TraceHooks } from './trace-diagram.js';
+export { traceDiagram, traceDiagramWith, traceBlock, type TraceHooks, type TraceBlockRunner } from './trace-diagram.js';
+export { blockCount, mergeBlocks, AUTO_BLOCKS_FROM, type TraceBlock, type BlockResult } from './trace-blocks.js';
 export { defaultTraceSettings, type TraceSettings, type ResolvedTraceSettings } from './trace-settings.js';
 export { findStartingEquilibria, isUncoupledAt, type StartingEquilibria } from './starting-equilibria.js';
 export { ENGINE_VERSION } from './engine-version.js';

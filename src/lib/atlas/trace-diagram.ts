@@ -11,6 +11,7 @@ import { ENGINE_VERSION } from './engine-version.js';
 import { SpecialPointRegistry, type SpecialPointDraft } from './special-point-registry.js';
 import { findStartingEquilibria, formatCount, type StartRestriction } from './starting-equilibria.js';
 import { growthRound } from './start-growth.js';
+import { blockCount, mergeBlocks, type BlockResult, type TraceBlock } from './trace-blocks.js';
 import { defaultTraceSettings, type ResolvedTraceSettings, type TraceSettings } from './trace-settings.js';
 import type { Branch, BranchEnd, BranchPoint, Diagnostic, Diagram, StartCoverage } from './types.js';
 
@@ -38,12 +39,136 @@ interface Insert {
  * numerical trouble (the diagram is then partial and `diagnostics` says why). See docs/numerics.md.
  */
 export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSettings> = {}, hooks: TraceHooks = {}): Diagram {
+  const plan = planTrace(system, settings, hooks);
+  if (plan.diagram) return plan.diagram;
+  const progress = blockProgress(plan, hooks);
+  const results = plan.blocks.map((b) => traceBlock(system, b, { onProgress: (f, phrase) => progress(b.index, f, phrase), isCancelled: hooks.isCancelled }, plan.growth));
+  return finishTrace(system, plan, results, hooks);
+}
+
+/**
+ * traceDiagram with the blocks of a full enumeration (planTrace) handed to `runner`, e.g. one thread
+ * each (src/worker/trace-pool.ts). The blocks and their merge are the same as traceDiagram's, so the
+ * diagram is the same whatever the runner does with them, as long as it returns traceBlock's results
+ * in block order. A one-block plan (small networks, restricted starts) is traced in this thread.
+ */
+export async function traceDiagramWith(system: CompiledSystem, settings: Partial<TraceSettings>, hooks: TraceHooks, runner: TraceBlockRunner): Promise<Diagram> {
+  const plan = planTrace(system, settings, hooks);
+  if (plan.diagram) return plan.diagram;
+  const progress = blockProgress(plan, hooks);
+  const results = plan.blocks.length === 1
+    ? [traceBlock(system, plan.blocks[0], { onProgress: (f, phrase) => progress(0, f, phrase), isCancelled: hooks.isCancelled }, plan.growth)]
+    : await runner(plan.blocks, { onProgress: progress, isCancelled: hooks.isCancelled });
+  return finishTrace(system, plan, results, hooks);
+}
+
+/** Runs the given blocks (traceBlock on each, anywhere) and returns their results in block order. */
+export type TraceBlockRunner = (blocks: readonly TraceBlock[], hooks: { onProgress: (block: number, fraction: number, phrase: string) => void; isCancelled?: () => boolean }) => Promise<BlockResult[]>;
+
+interface TracePlan {
+  readonly s: ResolvedTraceSettings;
+  readonly diagnostics: Diagnostic[];
+  readonly blocks: TraceBlock[];
+  readonly growth?: GrowthContext;
+  /** Set when there is nothing to trace (invalid settings, no starts could be computed). */
+  readonly diagram?: Diagram;
+}
+
+/** Restricted starts: what growth from the start state's escape graph and the coverage need (one block only). */
+interface GrowthContext {
+  readonly restriction: StartRestriction;
+}
+
+/** Settings, starting equilibria and their fixed split into blocks (docs/numerics.md §11). */
+function planTrace(system: CompiledSystem, settings: Partial<TraceSettings>, hooks: TraceHooks): TracePlan {
   const s: ResolvedTraceSettings = { ...defaultTraceSettings, from: system.sweep.from, to: system.sweep.to, ...stripUndefined(settings) };
   const diagnostics: Diagnostic[] = [];
+  const empty = (): TracePlan => ({ s, diagnostics, blocks: [], diagram: { parameter: system.parameter, variables: [...system.variables], branches: [], bifurcations: [], diagnostics, settings: { ...s }, engineVersion: ENGINE_VERSION } });
+  const bad = checkSettings(s);
+  if (bad) {
+    diagnostics.push({ level: 'error', code: 'invalid-settings', message: bad });
+    return empty();
+  }
+  hooks.onProgress?.(0, 'finding starting equilibria');
+  let starts;
+  try {
+    starts = findStartingEquilibria(system, s.from, s);
+  } catch (e) {
+    diagnostics.push({ level: 'error', code: 'start-failed', message: `starting equilibria could not be computed: ${errorText(e)}` });
+    return empty();
+  }
+  diagnostics.push(...starts.diagnostics);
+  // Arclength runs through state and parameter alike, so steps scale with the larger of the sweep
+  // width and the size of the starting states; the parameter step stays a fraction of the width.
+  let stateSize = 0;
+  for (const q of starts.points) stateSize = Math.max(stateSize, normInf(q));
+  const arcScale = Math.max(Math.abs(s.to - s.from), 1 + stateSize);
+  const farEnd = starts.farEnd ?? [];
+  if (starts.restriction) {
+    return { s, diagnostics, blocks: [{ index: 0, of: 1, settings: s, arcScale, starts: starts.points, farEnd }], growth: { restriction: starts.restriction } };
+  }
+  const count = blockCount(s.traceBlocks, starts.points.length);
+  const blocks: TraceBlock[] = [];
+  for (let b = 0; b < count; b++) {
+    const a = Math.floor((b * starts.points.length) / count);
+    const z = Math.floor(((b + 1) * starts.points.length) / count);
+    blocks.push({ index: b, of: count, settings: s, arcScale, starts: starts.points.slice(a, z), farEnd: b === 0 ? farEnd : [] });
+  }
+  return { s, diagnostics, blocks };
+}
+
+/** Overall progress over the blocks: the mean of their fractions, non-decreasing. */
+function blockProgress(plan: TracePlan, hooks: TraceHooks): (block: number, fraction: number, phrase: string) => void {
+  const fractions = plan.blocks.map(() => 0);
+  let last = 0;
+  return (block, fraction, phrase) => {
+    fractions[block] = Math.max(fractions[block], Math.min(1, fraction));
+    last = Math.max(last, fractions.reduce((q, f) => q + f, 0) / fractions.length);
+    hooks.onProgress?.(last, plan.blocks.length > 1 ? `block ${block + 1} of ${plan.blocks.length}: ${phrase}` : phrase);
+  };
+}
+
+/** The merged blocks as a diagram, with the trace-wide diagnostics (coverage, neutral saddles, cancellation). */
+function finishTrace(system: CompiledSystem, plan: TracePlan, results: readonly BlockResult[], hooks: TraceHooks): Diagram {
+  const { s } = plan;
+  const n = system.dimension;
+  const maxStep = s.maxStep * plan.blocks[0].arcScale;
+  const merged = mergeBlocks(results, { n, cellWidth: Math.max(s.maxParameterStep * Math.abs(s.to - s.from), 1e-12), maxStep, maxBranches: s.maxBranches });
+  const diagnostics = [...plan.diagnostics, ...merged.diagnostics];
+  const coverage = results.length === 1 ? results[0].coverage : undefined;
+  if (coverage) diagnostics.push({ level: 'info', code: 'start-coverage', message: coverage.text });
+  const neutralSaddles = results.reduce((q, r) => q + r.neutralSaddles, 0);
+  if (neutralSaddles > 0) {
+    diagnostics.push({ level: 'info', code: 'neutral-saddle', message: `${neutralSaddles} sign change(s) of the Hopf test function came from neutral saddles (two real eigenvalues summing to zero) and are not Hopf points` });
+  }
+  const cancelled = results.some((r) => r.cancelled);
+  if (cancelled) diagnostics.push({ level: 'warning', code: 'cancelled', message: 'the trace was cancelled; the diagram is partial' });
+  else hooks.onProgress?.(1, 'done');
+  return {
+    parameter: system.parameter,
+    variables: [...system.variables],
+    branches: merged.branches,
+    bifurcations: merged.registry.finish(),
+    diagnostics,
+    settings: { ...s },
+    engineVersion: ENGINE_VERSION,
+    ...(coverage ? { coverage } : {}),
+  };
+}
+
+/**
+ * One block of a trace: the existing sequential loop over the block's starting equilibria (and the
+ * branches found by switching from them), with its own branch index and special-point registry.
+ * Pure and synchronous; the same input gives the same result in any thread (mergeBlocks then joins
+ * the blocks in block order). `growth` only for the one block of restricted starts.
+ */
+export function traceBlock(system: CompiledSystem, block: TraceBlock, hooks: TraceHooks = {}, growthContext?: GrowthContext): BlockResult {
+  const s = block.settings;
+  const diagnostics: Diagnostic[] = [];
   const branches: Branch[] = [];
+  const origins: number[] = [];
   const registry = new SpecialPointRegistry();
   const n = system.dimension;
-  let coverage: StartCoverage | null = null;
   const result = (): Diagram => ({
     parameter: system.parameter,
     variables: [...system.variables],
@@ -52,13 +177,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     diagnostics,
     settings: { ...s },
     engineVersion: ENGINE_VERSION,
-    ...(coverage ? { coverage } : {}),
   });
-  const bad = checkSettings(s);
-  if (bad) {
-    diagnostics.push({ level: 'error', code: 'invalid-settings', message: bad });
-    return result();
-  }
   const width = Math.abs(s.to - s.from);
   const lo = Math.min(s.from, s.to);
   const hi = Math.max(s.from, s.to);
@@ -72,21 +191,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     if (!cancelled && hooks.isCancelled?.()) cancelled = true;
     return cancelled;
   };
-
-  progress(0, 'finding starting equilibria');
-  let starts;
-  try {
-    starts = findStartingEquilibria(system, s.from, s);
-  } catch (e) {
-    diagnostics.push({ level: 'error', code: 'start-failed', message: `starting equilibria could not be computed: ${errorText(e)}` });
-    return result();
-  }
-  diagnostics.push(...starts.diagnostics);
-  // Arclength runs through state and parameter alike, so steps scale with the larger of the sweep
-  // width and the size of the starting states; the parameter step stays a fraction of the width.
-  let stateSize = 0;
-  for (const q of starts.points) stateSize = Math.max(stateSize, normInf(q));
-  const arcScale = Math.max(width, 1 + stateSize);
+  const arcScale = block.arcScale;
   const copts: ContinuationOptions = {
     lo,
     hi,
@@ -102,29 +207,32 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
     maxCorrectorIterations: s.maxCorrectorIterations,
   };
   const index = new BranchIndex(Math.max(copts.maxParameterStep, 1e-12), n, copts.maxStep);
-  const tasks: Task[] = starts.points.map((y0) => {
+  const tasks: Task[] = block.starts.map((y0) => {
     const y = new Float64Array(n + 1);
     y.set(y0);
     y[n] = s.from;
     return { kind: 'start', y };
   });
   // Restricted starts: the near-uniform states at the far end of the sweep (farEndSeeds).
-  for (const x of starts.farEnd ?? []) {
+  for (const x of block.farEnd) {
     const y = new Float64Array(n + 1);
     y.set(x);
     y[n] = s.to;
     tasks.push({ kind: 'start', y });
   }
-  const farEndCount = starts.farEnd?.length ?? 0;
+  const farEndCount = block.farEnd.length;
   let done = 0;
   let pointsSinceProgress = 0;
   let branchCapHit = false;
   let neutralSaddles = 0;
   const ws = new BorderedWorkspace(n);
   const locOpts = { parameterTolerance: s.locateParameterTolerance, maxIterations: s.locateMaxIterations };
-  const restriction = starts.restriction;
+  const restriction = growthContext?.restriction;
+  const starts = { points: block.starts };
+  let coverage: StartCoverage | undefined;
   const growth = { values: 0, states: 0, integrations: 0, rounds: 0, stoppedBy: (restriction && s.growthIntegrations > 0 ? 'nothing-new' : 'off') as StartCoverage['grown']['stoppedBy'] };
   let untracedStarts = 0;
+
 
   for (;;) {
     while (tasks.length > 0) {
@@ -341,6 +449,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
       let ends: [BranchEnd, BranchEnd] = ['sweep-bound', 'sweep-bound'];
       let origin: Branch['origin'];
       let ordered: TracedPoint[] = [];
+      let originAt = 0;
       try {
         if (task.kind === 'start') {
           if (index.hasPoint(task.y, 1e-6 * (1 + normInf(task.y)))) {
@@ -370,7 +479,9 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
           const fw = runDirection(task.y, t0, tan.determinant);
           const bw = runDirection(task.y, t0.map((q) => -q), -tan.determinant);
           ends = [bw.end === 'cancelled' ? 'point-cap' : bw.end, fw.end === 'cancelled' ? 'point-cap' : fw.end];
-          ordered = withInserts(bw.points, bw.inserts).reverse().slice(0, -1).concat(withInserts(fw.points, fw.inserts));
+          const back = withInserts(bw.points, bw.inserts);
+          originAt = back.length - 1;
+          ordered = back.reverse().slice(0, -1).concat(withInserts(fw.points, fw.inserts));
         } else {
           if (task.plus && task.minus) {
             // Traced meanwhile from a starting equilibrium? Then the branch point just gains that branch.
@@ -400,6 +511,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
             bEnd = bw.end;
           }
           ends = [bEnd === 'cancelled' ? 'point-cap' : bEnd, fEnd === 'cancelled' ? 'point-cap' : fEnd];
+          originAt = minusPts.length;
           ordered = minusPts.reverse().concat([star], plusPts);
         }
       } catch (e) {
@@ -413,6 +525,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
         origin: origin!,
         ends,
       });
+      origins.push(originAt);
       for (const e of ends) {
         if (e === 'step-collapse' || e === 'newton-failure' || e === 'point-cap' || e === 'state-bound') {
           const msg: Record<string, string> = {
@@ -477,16 +590,19 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
       if (round.found.length === 0) break;
     }
   }
-  if (restriction) {
-    coverage = coverageOf(restriction, starts.points.length, farEndCount, s.to, restriction.budget, growth, untracedStarts, system.parameter);
-    diagnostics.push({ level: 'info', code: 'start-coverage', message: coverage.text });
-  }
-  if (neutralSaddles > 0) {
-    diagnostics.push({ level: 'info', code: 'neutral-saddle', message: `${neutralSaddles} sign change(s) of the Hopf test function came from neutral saddles (two real eigenvalues summing to zero) and are not Hopf points` });
-  }
-  if (cancelled) diagnostics.push({ level: 'warning', code: 'cancelled', message: 'the trace was cancelled; the diagram is partial' });
-  else progress(1, 'done');
-  return result();
+  if (restriction) coverage = coverageOf(restriction, starts.points.length, farEndCount, s.to, restriction.budget, growth, untracedStarts, system.parameter);
+  if (!cancelled) progress(1, 'block done');
+  return {
+    block: block.index,
+    branches,
+    origins,
+    specialPoints: registry.items.map((d) => ({ ...d, branches: [...d.branches] })),
+    diagnostics,
+    neutralSaddles,
+    cancelled,
+    branchCapHit,
+    ...(coverage ? { coverage } : {}),
+  };
 }
 
 /** The plain statement of what a restricted trace started from (Diagram.coverage). */
@@ -585,6 +701,7 @@ function checkSettings(s: ResolvedTraceSettings): string | null {
   if (!Number.isInteger(s.startBudget) || s.startBudget < 2) return 'settings.startBudget must be an integer of at least 2';
   if (!Number.isInteger(s.growthIntegrations) || s.growthIntegrations < 0) return 'settings.growthIntegrations must be a non-negative integer';
   if (!Number.isInteger(s.growthValues) || s.growthValues < 0) return 'settings.growthValues must be a non-negative integer';
+  if (s.traceBlocks !== 'auto' && !(Number.isInteger(s.traceBlocks) && s.traceBlocks >= 1 && s.traceBlocks <= 1024)) return "settings.traceBlocks must be 'auto' or an integer from 1 to 1024";
   return null;
 }
 

@@ -66,6 +66,13 @@ export interface TraceSettings {
   switchStep: number;
   /** Store eigenvalues with every branch point (default false; special points always carry them in evidence). */
   storeEigenvalues: boolean;
+  /**
+   * Fixed split of a full enumeration's starting equilibria into blocks traced independently and
+   * merged in block order (docs/numerics.md §11), so that a trace on any number of threads gives the
+   * same diagram: 'auto' (default) is one block below 512 starts and two from 512 on; a number
+   * asks for that many (at most one per start). Restricted starts are always one block.
+   */
+  traceBlocks: 'auto' | number;
 }
 
 export const defaultTraceSettings: Readonly<Required<Omit<TraceSettings, 'from' | 'to'>>> = Object.freeze({
@@ -94,6 +101,7 @@ export const defaultTraceSettings: Readonly<Required<Omit<TraceSettings, 'from' 
   multiStartBox: 3,
   switchStep: 1e-3,
   storeEigenvalues: false,
+  traceBlocks: 'auto',
 });
 
 export type ResolvedTraceSettings = Required<TraceSettings>;

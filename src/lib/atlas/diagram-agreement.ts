@@ -1,0 +1,77 @@
+import { BranchIndex } from './branch-index.js';
+import type { TracedPoint } from '../numerics/branch-point-data.js';
+import type { Diagram } from './types.js';
+
+export interface DiagramAgreement {
+  /** Special points of the reference with one of the same type in the other diagram within the tolerance (|dp| and every |dx_i|). */
+  readonly specialFound: number;
+  readonly specialTotal: number;
+  /** Points of the reference's branches within the point tolerance of a branch of the other diagram (running the same way). */
+  readonly pointsOn: number;
+  readonly pointsTotal: number;
+  /** Identical as JSON text. */
+  readonly identical: boolean;
+}
+
+/**
+ * How much of `reference` the diagram `other` contains: every special point to `specialTol`, every
+ * branch point on some branch of `other` (2-norm distance in (x, p) to its polyline below
+ * `pointTol`, with a nearly parallel direction, BranchIndex.findParallel). Used to compare a trace
+ * in blocks with the one-block trace (docs/numerics.md §11).
+ */
+export function diagramAgreement(reference: Diagram, other: Diagram, specialTol: number, pointTol: number): DiagramAgreement {
+  const n = reference.variables.length;
+  let specialFound = 0;
+  for (const a of reference.bifurcations) {
+    if (other.bifurcations.some((b) => b.type === a.type && Math.abs(b.p - a.p) <= specialTol && b.x.every((v, i) => Math.abs(v - a.x[i]) <= specialTol))) specialFound++;
+  }
+  const toY = (p: number, x: readonly number[]) => {
+    const y = new Float64Array(n + 1);
+    y.set(x);
+    y[n] = p;
+    return y;
+  };
+  let maxStep = 0;
+  const lines = other.branches.map((b) => b.points.map((q) => toY(q.p, q.x)));
+  for (const ys of lines) for (let j = 1; j < ys.length; j++) maxStep = Math.max(maxStep, dist(ys[j - 1], ys[j]));
+  const width = Math.abs(Number(reference.settings.to) - Number(reference.settings.from)) || 1;
+  const index = new BranchIndex(width / 600, n, Math.max(maxStep, 1e-9));
+  lines.forEach((ys, k) => {
+    const l = index.addList(k);
+    for (let j = 0; j < ys.length; j++) index.push(l, { y: ys[j], t: direction(ys, j) } as TracedPoint);
+  });
+  let pointsOn = 0;
+  let pointsTotal = 0;
+  for (const b of reference.branches) {
+    const ys = b.points.map((q) => toY(q.p, q.x));
+    for (let j = 0; j < ys.length; j++) {
+      pointsTotal++;
+      if (index.findParallel(ys[j], direction(ys, j), pointTol, () => false)) pointsOn++;
+    }
+  }
+  return { specialFound, specialTotal: reference.bifurcations.length, pointsOn, pointsTotal, identical: JSON.stringify(reference) === JSON.stringify(other) };
+}
+
+function dist(a: Float64Array, b: Float64Array): number {
+  let d = 0;
+  for (let i = 0; i < a.length; i++) d += (a[i] - b[i]) ** 2;
+  return Math.sqrt(d);
+}
+
+/** Unit secant through the neighbours of point j (the nearest distinct ones). */
+export function direction(ys: readonly Float64Array[], j: number): Float64Array {
+  const m = ys[j].length;
+  let a = Math.max(0, j - 1);
+  let b = Math.min(ys.length - 1, j + 1);
+  const t = new Float64Array(m);
+  for (let tries = 0; tries < 4; tries++) {
+    const d = dist(ys[a], ys[b]);
+    if (d > 0) {
+      for (let i = 0; i < m; i++) t[i] = (ys[b][i] - ys[a][i]) / d;
+      return t;
+    }
+    a = Math.max(0, a - 1);
+    b = Math.min(ys.length - 1, b + 1);
+  }
+  return t;
+}
