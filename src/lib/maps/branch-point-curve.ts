@@ -16,7 +16,7 @@
  * The full system's fold system is singular there (the extra F-equations are dependent), which is why
  * the restriction is used.
  */
-import type { ExtendedSystem } from '../numerics/extended-system.js';
+import { TwoParameterCurveSystem } from './curve-system.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 import { DenseLu } from '../numerics/dense-lu.js';
 
@@ -91,42 +91,17 @@ export function findSymmetry(sys: TwoParameterSystem, x: ArrayLike<number>, phi:
   return { sigma, orbits, pairs };
 }
 
-export class SymmetricBranchPointSystem implements ExtendedSystem {
-  readonly size: number;
-  readonly parameterIndex: readonly number[];
-  readonly stateIndex: readonly number[];
+export class SymmetricBranchPointSystem extends TwoParameterCurveSystem {
+  /** Orbits of sigma (Fix coordinates) and swapped pairs (Anti coordinates). */
   readonly k: number;
   readonly m: number;
-  readonly n: number;
-  c: Float64Array;
-  private readonly x: Float64Array;
-  private readonly v: Float64Array;
-  private readonly f: Float64Array;
-  private readonly j: Float64Array;
-  private readonly h: Float64Array;
-  private readonly fa: Float64Array;
-  private readonly fb: Float64Array;
-  private readonly ja: Float64Array;
-  private readonly jb: Float64Array;
 
-  constructor(readonly sys: TwoParameterSystem, readonly symmetry: Symmetry, c: ArrayLike<number>) {
-    this.n = sys.dimension;
-    this.k = symmetry.orbits.length;
-    this.m = symmetry.pairs.length;
-    this.size = this.k + this.m + 2;
-    this.parameterIndex = [this.k + this.m, this.k + this.m + 1];
-    this.stateIndex = Array.from({ length: this.k }, (_, i) => i);
-    this.c = Float64Array.from(c);
-    const n = this.n;
-    this.x = new Float64Array(n);
-    this.v = new Float64Array(n);
-    this.f = new Float64Array(n);
-    this.j = new Float64Array(n * n);
-    this.h = new Float64Array(n * n);
-    this.fa = new Float64Array(n);
-    this.fb = new Float64Array(n);
-    this.ja = new Float64Array(n);
-    this.jb = new Float64Array(n);
+  constructor(sys: TwoParameterSystem, readonly symmetry: Symmetry, c: ArrayLike<number>) {
+    const k = symmetry.orbits.length;
+    const m = symmetry.pairs.length;
+    super(sys, k + m + 2, k, c);
+    this.k = k;
+    this.m = m;
   }
 
   /** Full state x = P s. */
@@ -315,16 +290,8 @@ export class SymmetricBranchPointSystem implements ExtendedSystem {
     return pc / 6 - pbvh / 2;
   }
 
+  /** u = y[k..k+m) rescaled and c = u past 60 degrees (TwoParameterCurveSystem.rescaleNull). */
   rebase(y: Float64Array): boolean {
-    const { k, m } = this;
-    let sq = 0;
-    for (let q = 0; q < m; q++) sq += y[k + q] * y[k + q];
-    if (sq <= 4) return false;
-    const s = 1 / Math.sqrt(sq);
-    for (let q = 0; q < m; q++) {
-      y[k + q] *= s;
-      this.c[q] = y[k + q];
-    }
-    return true;
+    return this.rescaleNull(y, this.k, this.m);
   }
 }

@@ -13,47 +13,21 @@
  * c is kept inside the invariant subspace and orthogonal to v: c = J v - (v . J v) v, normalized
  * (J maps the subspace into itself), renewed when it has turned by more than about 8 degrees.
  */
-import type { ExtendedSystem } from '../numerics/extended-system.js';
+import { TwoParameterCurveSystem } from './curve-system.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 
-export class HopfSystem implements ExtendedSystem {
-  readonly size: number;
-  readonly parameterIndex: readonly number[];
-  readonly stateIndex: readonly number[];
-  readonly n: number;
-  c: Float64Array;
-  private readonly x: Float64Array;
-  private readonly v: Float64Array;
+export class HopfSystem extends TwoParameterCurveSystem {
+  /** Scratch beyond the shared ones: J v, H(J v), and J_a v, J_b v (ja, jb hold J_a (J v), J_b (J v)). */
   private readonly jv: Float64Array;
-  private readonly f: Float64Array;
-  private readonly j: Float64Array;
   private readonly h1: Float64Array;
-  private readonly h2: Float64Array;
-  private readonly fa: Float64Array;
-  private readonly fb: Float64Array;
-  private readonly ja: Float64Array;
-  private readonly jb: Float64Array;
   private readonly ja2: Float64Array;
   private readonly jb2: Float64Array;
 
-  constructor(readonly sys: TwoParameterSystem, c: ArrayLike<number>) {
+  constructor(sys: TwoParameterSystem, c: ArrayLike<number>) {
     const n = sys.dimension;
-    this.n = n;
-    this.size = 2 * n + 3;
-    this.parameterIndex = [2 * n + 1, 2 * n + 2];
-    this.stateIndex = Array.from({ length: n }, (_, i) => i);
-    this.c = Float64Array.from(c);
-    this.x = new Float64Array(n);
-    this.v = new Float64Array(n);
+    super(sys, 2 * n + 3, n, c);
     this.jv = new Float64Array(n);
-    this.f = new Float64Array(n);
-    this.j = new Float64Array(n * n);
     this.h1 = new Float64Array(n * n);
-    this.h2 = new Float64Array(n * n);
-    this.fa = new Float64Array(n);
-    this.fb = new Float64Array(n);
-    this.ja = new Float64Array(n);
-    this.jb = new Float64Array(n);
     this.ja2 = new Float64Array(n);
     this.jb2 = new Float64Array(n);
   }
@@ -101,7 +75,7 @@ export class HopfSystem implements ExtendedSystem {
     const { a, b, kappa } = this.load(y);
     this.sys.parameterDerivatives(this.x, a, b, this.fa, this.fb);
     this.sys.secondState(this.x, a, b, this.jv, this.h1); // H(J v)
-    this.sys.secondState(this.x, a, b, this.v, this.h2); // H(v)
+    this.sys.secondState(this.x, a, b, this.v, this.h); // H(v)
     this.sys.secondParameter(this.x, a, b, this.jv, this.ja, this.jb); // J_a (J v), J_b (J v)
     this.sys.secondParameter(this.x, a, b, this.v, this.ja2, this.jb2); // J_a v, J_b v
     out.fill(0);
@@ -115,7 +89,7 @@ export class HopfSystem implements ExtendedSystem {
         let s = this.h1[i * n + k];
         let q = 0;
         for (let l = 0; l < n; l++) {
-          s += j[i * n + l] * this.h2[l * n + k];
+          s += j[i * n + l] * this.h[l * n + k];
           q += j[i * n + l] * j[l * n + k];
         }
         out[r2 + k] = s;

@@ -18,42 +18,13 @@
  * d^2F_i/dx_j dx_k v_j v_k; a cusp is a simple zero of a2 along the curve. Bogdanov-Takens test:
  * w . v with unnormalized null vectors (foldTests).
  */
-import type { ExtendedSystem } from '../numerics/extended-system.js';
+import { TwoParameterCurveSystem } from './curve-system.js';
 import type { TwoParameterSystem } from './two-parameter-system.js';
 import { DenseLu } from '../numerics/dense-lu.js';
 
-export class SaddleNodeSystem implements ExtendedSystem {
-  readonly size: number;
-  readonly parameterIndex: readonly number[];
-  readonly stateIndex: readonly number[];
-  readonly n: number;
-  c: Float64Array;
-  private readonly x: Float64Array;
-  private readonly v: Float64Array;
-  private readonly f: Float64Array;
-  private readonly j: Float64Array;
-  private readonly h: Float64Array;
-  private readonly fa: Float64Array;
-  private readonly fb: Float64Array;
-  private readonly ja: Float64Array;
-  private readonly jb: Float64Array;
-
-  constructor(readonly sys: TwoParameterSystem, c: ArrayLike<number>) {
-    const n = sys.dimension;
-    this.n = n;
-    this.size = 2 * n + 2;
-    this.parameterIndex = [2 * n, 2 * n + 1];
-    this.stateIndex = Array.from({ length: n }, (_, i) => i);
-    this.c = Float64Array.from(c);
-    this.x = new Float64Array(n);
-    this.v = new Float64Array(n);
-    this.f = new Float64Array(n);
-    this.j = new Float64Array(n * n);
-    this.h = new Float64Array(n * n);
-    this.fa = new Float64Array(n);
-    this.fb = new Float64Array(n);
-    this.ja = new Float64Array(n);
-    this.jb = new Float64Array(n);
+export class SaddleNodeSystem extends TwoParameterCurveSystem {
+  constructor(sys: TwoParameterSystem, c: ArrayLike<number>) {
+    super(sys, 2 * sys.dimension + 2, sys.dimension, c);
   }
 
   private load(y: Float64Array): void {
@@ -110,19 +81,9 @@ export class SaddleNodeSystem implements ExtendedSystem {
     for (let k = 0; k < n; k++) out[r3 + n + k] = this.c[k];
   }
 
+  /** v = y[n..2n) rescaled and c = v past 60 degrees (TwoParameterCurveSystem.rescaleNull). */
   rebase(y: Float64Array): boolean {
-    const n = this.n;
-    let sq = 0;
-    for (let i = 0; i < n; i++) sq += y[n + i] * y[n + i];
-    // With |c| = 1 and c . v = 1, |v| = 1 / cos(angle(c, v)) >= 1; rebase past 60 degrees.
-    if (sq <= 4) return false;
-    // Rescale v to unit length (the point stays on the curve: J v = 0 is homogeneous) and set c = v.
-    const s = 1 / Math.sqrt(sq);
-    for (let i = 0; i < n; i++) {
-      y[n + i] *= s;
-      this.c[i] = y[n + i];
-    }
-    return true;
+    return this.rescaleNull(y, this.n, this.n);
   }
 
   /**
