@@ -1,4 +1,4 @@
-/** Role-matrix rows for the map routes (GET /api/runs/:id/map and .csv, POST /api/runs of kind 'map'). */
+/** Role-matrix rows for the map routes (GET /api/runs/:id/map and .csv, GET/POST /api/runs/:id/slices, POST /api/runs of kind 'map'). */
 // Only the hoisted function `allow` is imported: route-matrix.ts imports this file (its consts are not initialized yet).
 import { allow, type MatrixContext, type RouteCase, type Vars } from './route-matrix.ts';
 
@@ -48,7 +48,16 @@ function mapRun(c: MatrixContext): Promise<Vars> {
   return finished;
 }
 
+let sliceValue = 0;
+
 export const mapRoutes: RouteCase[] = [
+  { route: '/api/runs/[id]/slices', method: 'GET', prepare: mapRun, path: (c, v) => `/api/runs/${v.runId}/slices?${q(c)}`, expect: allow(200, ...ALL_ROLES) },
+  {
+    route: '/api/runs/[id]/slices', method: 'POST', prepare: mapRun, path: (c, v) => `/api/runs/${v.runId}/slices?${q(c)}`,
+    // A new value in the map's range (0.05 to 0.25) per call, so every allowed caller starts a slice (201, not the cached 200).
+    body: () => ({ value: Number((0.06 + 0.01 * (++sliceValue % 19)).toFixed(2)) }), expect: allow(201, 'owner', 'modeler'),
+    note: 'starts a computation like POST /api/runs: reviewers read slices (GET) but do not start them',
+  },
   { route: '/api/runs/[id]/map', method: 'GET', prepare: mapRun, path: (c, v) => `/api/runs/${v.runId}/map?${q(c)}`, expect: allow(200, ...ALL_ROLES) },
   { route: '/api/runs/[id]/map.csv', method: 'GET', prepare: mapRun, path: (c, v) => `/api/runs/${v.runId}/map.csv?${q(c)}`, expect: allow(200, ...ALL_ROLES) },
   {

@@ -4,8 +4,12 @@
  * curves by line style, the codimension-two points with their own glyphs, the one-parameter diagram
  * of this model as a horizontal line at the document's value of the second parameter, and a
  * crosshair that reads out (p1, p2) under the pointer. Hover (or focus) a curve point or a
- * codimension-two point for its exact stored numbers; click to keep them. The figure is the one the
- * export writes (lib/plot/map-figure.ts), drawn as SVG in the page's theme.
+ * codimension-two point for its exact stored numbers; click to keep them. Clicking the map (or Enter
+ * on the keyboard crosshair: focus the map, move it with the arrow keys) opens the one-parameter
+ * diagram at that value of the second parameter in a panel below the map (SlicePanel): a trace run
+ * of the same model version with the parameter overridden, computed on demand and cached by the
+ * server (POST /api/runs/:id/slices), its line drawn on the map. The figure is the one the export
+ * writes (lib/plot/map-figure.ts), drawn as SVG in the page's theme.
  */
 import { useCallback, useEffect, useId, useMemo, useRef, useState } from 'react';
 import { buildMapFigure, nearestMark, pixelToParameters, type MapFigureInput, type MapMark } from '../../lib/plot/map-figure';
@@ -17,7 +21,8 @@ import { isDarkTheme, readPalette, watchTheme } from '../diagram/theme';
 import { useWidth } from '../diagram/use-width';
 import MapExport from './MapExport';
 import PrimNode from '../export/PrimNode';
-import { documentAtSecond } from '../../lib/plot/map-slice';
+import { documentAtSecond, snapSecond } from '../../lib/plot/map-slice';
+import SlicePanel, { type SliceState } from './SlicePanel';
 import '../diagram/diagram.css';
 import './maps.css';
 
@@ -28,9 +33,15 @@ export interface MapViewProps {
   readonly provenance: Provenance;
   /** State variable names (node ids or ode variables) for readouts. */
   readonly variables?: readonly string[];
-  /** Editors only: the map's model version, for "trace the diagram at this value" (a new version with the value set). */
+  /** Editors only: the map's model version, for the secondary "save a new version at this value and trace it". */
   readonly start?: { readonly modelId: number; readonly versionNumber: number };
+  /** Modelers and owners: a click computes the slice when none is stored; others open existing slices only. */
+  readonly canSlice?: boolean;
 }
+
+interface SliceRow { readonly id: number; readonly value: number; readonly status: string; readonly progress: number; readonly phrase: string }
+
+const postJson = (url: string, body: unknown) => fetch(url, { method: 'POST', credentials: 'same-origin', headers: { 'Content-Type': 'application/json', Accept: 'application/json' }, body: JSON.stringify(body) });
 
 export default function MapView(props: MapViewProps) {
   const [map, setMap] = useState<Loaded | null>(null);
@@ -43,6 +54,8 @@ export default function MapView(props: MapViewProps) {
   const rootRef = useRef<HTMLDivElement>(null);
   const svgRef = useRef<SVGSVGElement>(null);
   const [tracing, setTracing] = useState<{ busy: boolean; error: string | null }>({ busy: false, error: null });
+  const [slices, setSlices] = useState<SliceRow[]>([]);
+  const [slice, setSlice] = useState<SliceState | null>(null);
   const clipId = `mp-clip-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
 
   const load = useCallback(async () => {
@@ -57,6 +70,12 @@ export default function MapView(props: MapViewProps) {
   }, [props.runId]);
   useEffect(() => { void load(); }, [load]);
 
+  const loadSlices = useCallback(async () => {
+    const res = await fetch(`/api/runs/${props.runId}/slices`, { headers: { Accept: 'application/json' } }).catch(() => null);
+    if (res?.ok) setSlices(((await res.json()) as { slices: SliceRow[] }).slices);
+  }, [props.runId]);
+  useEffect(() => { void loadSlices(); }, [loadSlices]);
+
   useEffect(() => {
     const read = () => setPalette({ pal: readPalette(rootRef.current), dark: isDarkTheme() });
     read();
@@ -65,7 +84,8 @@ export default function MapView(props: MapViewProps) {
     return () => { stop(); window.removeEventListener('bm-theme-change', read); };
   }, []);
 
-  const build = useCallback((o: Pick<MapFigureInput, 'width' | 'palette' | 'caption' | 'provenance'>) => (map ? buildMapFigure({ map, secondValue: map.secondValue, variables: props.variables, ...o }) : null), [map, props.variables]);
+  const sliceLines = useMemo(() => slices.map((x) => ({ value: x.value, active: slice?.value === x.value })), [slices, slice?.value]);
+  const build = useCallback((o: Pick<MapFigureInput, 'width' | 'palette' | 'caption' | 'provenance'>) => (map ? buildMapFigure({ map, secondValue: map.secondValue, variables: props.variables, slices: sliceLines, ...o }) : null), [map, props.variables, sliceLines]);
   const screenWidth = Math.max(360, Math.min(width, 960));
   const fig = useMemo(() => (palette ? build({ width: screenWidth, palette: palette.pal }) : null), [build, palette, screenWidth]);
 
@@ -84,12 +104,54 @@ export default function MapView(props: MapViewProps) {
   };
   const names = map ? [String(map.parameters[0]), String(map.parameters[1])] : ['', ''];
 
-  // Saves a new version of the model with the second parameter at `value` and starts its trace run over the map's range.
+  // The one-parameter diagram at `value`: the stored or queued slice, else (editors) a new one.
+  const openSlice = async (value: number) => {
+    if (!map) return;
+    const known = slices.find((x) => x.value === value);
+    if (!props.canSlice) {
+      setSlice(known ? { value, id: known.id, status: known.status, progress: known.progress, phrase: known.phrase, cached: true }
+        : { value, status: 'missing', progress: 0, phrase: '', cached: false });
+      return;
+    }
+    setSlice({ value, id: known?.id, status: known?.status ?? 'starting', progress: known?.progress ?? 0, phrase: known ? known.phrase : 'asking the server', cached: Boolean(known) });
+    try {
+      const res = await postJson(`/api/runs/${props.runId}/slices`, { value });
+      const body = (await res.json().catch(() => null)) as { slice?: SliceRow; run?: { engineVersion: string; finishedAt: string | null }; cached?: boolean; error?: { message?: string } } | null;
+      if (!res.ok || !body?.slice) throw new Error(body?.error?.message ?? `the server answered ${res.status}`);
+      const s = body.slice;
+      setSlice((old) => (old?.value === value ? { value, id: s.id, status: s.status, progress: s.progress, phrase: s.phrase, cached: Boolean(body.cached), engineVersion: body.run?.engineVersion, finishedAt: body.run?.finishedAt ?? null } : old));
+      setSlices((old) => [s, ...old.filter((x) => x.value !== s.value)]);
+    } catch (e) {
+      setSlice((old) => (old?.value === value ? { ...old, status: 'error', error: e instanceof Error ? e.message : String(e) } : old));
+    }
+  };
+  const onSliceUpdate = useCallback((u: { id: number; status: string; progress: number; phrase: string; error?: string; finishedAt?: string | null }) => {
+    setSlice((old) => (old && old.id === u.id ? { ...old, ...u } : old));
+    setSlices((old) => old.map((x) => (x.id === u.id ? { ...x, status: u.status, progress: u.progress, phrase: u.phrase } : x)));
+  }, []);
+  const valueAt = (q: { x: number; y: number }) => (fig && map ? snapSecond(pixelToParameters(fig, q.x, q.y)[1], map.ranges.second) : Number.NaN);
+  // Keyboard crosshair: the map itself is focusable; arrows move it (Shift: ten times as far), Enter opens the slice.
+  const onKey = (e: React.KeyboardEvent<SVGSVGElement>) => {
+    if (!fig || e.target !== e.currentTarget) return;
+    const c = cursor ?? { x: fig.plot.x + fig.plot.w / 2, y: fig.plot.y + fig.plot.h / 2 };
+    const step = (e.shiftKey ? 10 : 1) * Math.max(fig.plot.w, fig.plot.h) / 100;
+    const move: Record<string, [number, number]> = { ArrowLeft: [-step, 0], ArrowRight: [step, 0], ArrowUp: [0, -step], ArrowDown: [0, step] };
+    if (move[e.key]) {
+      e.preventDefault();
+      setCursor({ x: Math.min(fig.plot.x + fig.plot.w, Math.max(fig.plot.x, c.x + move[e.key][0])), y: Math.min(fig.plot.y + fig.plot.h, Math.max(fig.plot.y, c.y + move[e.key][1])) });
+    } else if (e.key === 'Enter' || e.key === ' ') {
+      e.preventDefault();
+      setCursor(c);
+      void openSlice(valueAt(c));
+    }
+  };
+
+  // Secondary: saves a new version of the model with the second parameter at `value` and starts its trace run over the map's range.
   const traceAt = async (value: number) => {
     if (!props.start || !map) return;
     const { modelId, versionNumber } = props.start;
     setTracing({ busy: true, error: null });
-    const post = (url: string, body: unknown) => fetch(url, { method: 'POST', credentials: 'same-origin', headers: { 'Content-Type': 'application/json', Accept: 'application/json' }, body: JSON.stringify(body) });
+    const post = postJson;
     try {
       const docRes = await fetch(`/api/models/${modelId}/versions/${versionNumber}/export`, { credentials: 'same-origin' });
       if (!docRes.ok) throw new Error(`reading version ${versionNumber}: the server answered ${docRes.status}`);
@@ -126,12 +188,17 @@ export default function MapView(props: MapViewProps) {
           <p className="dg-muted mp-what">
             {map.curves.length} curve{map.curves.length === 1 ? '' : 's'} and {map.points.length} codimension-two point{map.points.length === 1 ? '' : 's'}.
             Shaded: the coupling regime, named from a coarse sample grid, bounded by the curves themselves; unshaded where the neighbouring grid rows do not settle it. Move over the map for the parameter values under the pointer;
-            hover, focus (Tab) or click a point for its exact numbers.
+            hover or focus (Tab) a point for its exact numbers. Click anywhere on the map (or focus it and press Enter; the arrow keys move the crosshair) for the one-parameter diagram at that value of {names[1]}, below the map.
           </p>
           <div className="mp-plot" style={{ maxWidth: fig.width }}>
-            <svg ref={svgRef} viewBox={`0 0 ${fig.width} ${fig.height}`} width="100%" role="group" aria-label={fig.title} data-testid="map-svg"
-              onPointerMove={onMove} onPointerLeave={() => { setCursor(null); setHover(null); }}
-              onClick={() => { if (hover) setPicked(hover); }}>
+            <svg ref={svgRef} viewBox={`0 0 ${fig.width} ${fig.height}`} width="100%" role="group" data-testid="map-svg" tabIndex={0} className="mp-svg"
+              aria-label={`${fig.title}. Arrow keys move the crosshair; Enter opens the one-parameter diagram at its value of ${names[1]}.`}
+              onPointerMove={onMove} onPointerLeave={() => { setCursor(null); setHover(null); }} onKeyDown={onKey}
+              onClick={(e) => {
+                const q = toFigure(e as unknown as React.PointerEvent<SVGSVGElement>);
+                if (hover) setPicked(hover);
+                if (q && inPlot(q)) void openSlice(valueAt(q));
+              }}>
               <defs><clipPath id={clipId}><rect x={fig.plot.x} y={fig.plot.y} width={fig.plot.w} height={fig.plot.h} /></clipPath></defs>
               <rect width={fig.width} height={fig.height} fill={fig.background} />
               {fig.items.map((p, i) => <PrimNode key={i} p={p} clipId={clipId} />)}
@@ -146,8 +213,8 @@ export default function MapView(props: MapViewProps) {
                 <circle key={m.id} className="mp-hit" cx={m.cx} cy={m.cy} r={m.kind === 'point' ? 10 : 6} tabIndex={0} role="button"
                   aria-label={m.readout.join('; ')} data-testid="map-mark" data-kind={m.kind} data-type={m.type} data-id={m.id}
                   onFocus={() => setHover(m)} onBlur={() => setHover((h) => (h?.id === m.id ? null : h))}
-                  onClick={(e) => { e.stopPropagation(); setPicked(m); }}
-                  onKeyDown={(e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); setPicked(m); } }} />
+                  onClick={(e) => { e.stopPropagation(); setPicked(m); void openSlice(m.p[1]); }}
+                  onKeyDown={(e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); setPicked(m); void openSlice(m.p[1]); } }} />
               ))}
             </svg>
             {coords ? <div className="mp-coords" data-testid="map-coords" aria-hidden="true">{names[0]} = {formatValue(coords[0], 4)}, {names[1]} = {formatValue(coords[1], 4)}</div> : null}
@@ -164,17 +231,21 @@ export default function MapView(props: MapViewProps) {
               <p><strong>{picked.readout[0]}</strong> <button type="button" onClick={() => setPicked(null)}>Close</button></p>
               {picked.readout.slice(1).map((line, i) => <p key={i} className="num">{line}</p>)}
               {props.start ? (
-                <p>
-                  <button type="button" onClick={() => void traceAt(picked.p[1])} disabled={tracing.busy} data-testid="map-trace-at">
-                    {tracing.busy ? 'Starting…' : `Trace the one-parameter diagram at ${names[1]} = ${formatValue(picked.p[1])}`}
+                <p className="dg-muted">
+                  Or keep it in the model&rsquo;s history:{' '}
+                  <button type="button" className="mp-secondary" onClick={() => void traceAt(picked.p[1])} disabled={tracing.busy} data-testid="map-trace-at">
+                    {tracing.busy ? 'Saving…' : `Save a new model version with ${names[1]} = ${formatValue(picked.p[1])} and trace it`}
                   </button>{' '}
-                  <span className="dg-muted">saves a new version of the model (a copy of version {props.start.versionNumber} with {names[1]} = {String(picked.p[1])}) and traces it over {names[0]} from {String(map.ranges.first[0])} to {String(map.ranges.first[1])}.</span>
+                  (a copy of version {props.start.versionNumber} with {names[1]} = {String(picked.p[1])}, traced over {names[0]} from {String(map.ranges.first[0])} to {String(map.ranges.first[1])}; opens that run).
                 </p>
-              ) : (
-                <p className="dg-muted">The one-parameter diagram at {names[1]} = {formatValue(picked.p[1])}: a modeler can save a version with {names[1]} set to this value and trace it.</p>
-              )}
+              ) : null}
               {tracing.error ? <p role="alert" className="dg-error">The trace was not started: {tracing.error}</p> : null}
             </div>
+          ) : null}
+          {slice ? (
+            <SlicePanel slice={slice} mapRunId={props.runId} names={names} firstRange={map.ranges.first} provenance={props.provenance}
+              onUpdate={onSliceUpdate}
+              onClose={() => setSlice(null)} />
           ) : null}
           {warnings.length ? (
             <details className="mp-what"><summary>{warnings.length} note{warnings.length === 1 ? '' : 's'} from the computation</summary>

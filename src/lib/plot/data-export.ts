@@ -33,6 +33,7 @@ export function provenanceBlock(p: Provenance): string {
     '# Brinkmap diagram data',
     `# model: ${clean(p.modelName)}`,
     `# model version hash: ${clean(p.versionHash)}`,
+    ...(p.override ? [`# parameter overridden for this run (not the version's value): ${clean(p.override)}`] : []),
     `# run: ${clean(p.runId)}`,
     `# engine: ${clean(p.engineVersion)}`,
     `# exported: ${clean(p.date)}`,

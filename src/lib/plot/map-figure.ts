@@ -44,6 +44,8 @@ export interface MapFigureInput {
   readonly map: MapDocumentView;
   /** The document's own value of the second parameter: drawn as the one-parameter diagram's slice. */
   readonly secondValue?: number | null;
+  /** One-parameter diagrams computed at other values of the second parameter (slices of this map run): drawn like the document's line, labelled at the left. */
+  readonly slices?: readonly { readonly value: number; readonly active?: boolean }[];
   readonly width?: number;
   readonly plotHeight?: number;
   readonly palette?: PlotPalette;
@@ -113,6 +115,14 @@ export function buildMapFigure(input: MapFigureInput): MapFigure {
     const y = r2(Y(sv));
     items.push({ t: 'path', d: `M${plot.x},${y}H${plot.x + plot.w}`, stroke: pal.muted, strokeWidth: 1.2, dash: [2, 3], clip: true, data: { layer: 'slice' } });
     items.push({ t: 'text', x: plot.x + plot.w - 4, y: y - 4, text: `this model: ${names[1]} = ${formatValue(sv)}`, size: 10, anchor: 'end', fill: pal.muted, italic: true, clip: true });
+  }
+  // Slices computed on demand at clicked values (docs/maps.md, "From the map back to one parameter").
+  for (const s of input.slices ?? []) {
+    if (!(s.value >= second[0] && s.value <= second[1])) continue;
+    const y = r2(Y(s.value));
+    const ink = s.active ? pal.ink : pal.muted;
+    items.push({ t: 'path', d: `M${plot.x},${y}H${plot.x + plot.w}`, stroke: ink, strokeWidth: s.active ? 1.6 : 1, dash: [6, 3], clip: true, data: { layer: 'slice', value: String(s.value), active: String(Boolean(s.active)) } });
+    items.push({ t: 'text', x: plot.x + 4, y: y - 4, text: `${names[1]} = ${formatValue(s.value)}`, size: 10, anchor: 'start', fill: ink, italic: !s.active, weight: s.active ? 600 : undefined, clip: true });
   }
 
   // Curves.

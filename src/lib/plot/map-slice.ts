@@ -18,3 +18,17 @@ export function documentAtSecond(document: unknown, name: string, value: number)
   if (d.parameters && Object.hasOwn(d.parameters, name)) { d.parameters[name] = value; return d; }
   return null;
 }
+
+/**
+ * A clicked value of the second parameter rounded to a step of about 1/1000 of the map's range (a
+ * power of ten), inside the range: clicks a pixel apart ask for the same slice, so the cached run is
+ * found again, and the label reads as typed. (The step is common practice, no source.)
+ */
+export function snapSecond(value: number, range: readonly number[]): number {
+  const lo = Math.min(range[0], range[1]), hi = Math.max(range[0], range[1]);
+  const width = hi - lo;
+  if (!Number.isFinite(value) || !(width > 0)) return value;
+  const step = 10 ** Math.floor(Math.log10(width / 1000));
+  const snapped = Number((Math.round(value / step) * step).toPrecision(12));
+  return Math.min(hi, Math.max(lo, snapped));
+}

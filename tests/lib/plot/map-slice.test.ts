@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { documentAtSecond } from '../../../src/lib/plot/map-slice';
+import { documentAtSecond, snapSecond } from '../../../src/lib/plot/map-slice';
 
 /** Invented documents. */
 const network = {
@@ -22,5 +22,20 @@ describe('documentAtSecond(document, name, value)', () => {
   it('returns null for an unknown parameter or a value that is not finite', () => {
     expect(documentAtSecond(network, 'nope', 1)).toBeNull();
     expect(documentAtSecond(ode, 'r', Number.NaN)).toBeNull();
+  });
+});
+
+describe('snapSecond(value, range)', () => {
+  it('rounds to the power of ten just below 1/1000 of the range and stays inside it', () => {
+    // range 0.2: 0.2/1000 = 2e-4, step 1e-4
+    expect(snapSecond(0.1234567, [0.05, 0.25])).toBe(0.1235);
+    expect(snapSecond(0.0412, [0.05, 0.25])).toBe(0.05);
+    expect(snapSecond(0.2999, [0.25, 0.05])).toBe(0.25);
+    // range 40: step 0.01
+    expect(snapSecond(-3.14159, [-20, 20])).toBe(-3.14);
+  });
+  it('leaves a value alone when the range is empty or the value is not finite', () => {
+    expect(snapSecond(0.123456, [1, 1])).toBe(0.123456);
+    expect(snapSecond(Number.NaN, [0, 1])).toBeNaN();
   });
 });

@@ -11,6 +11,7 @@ import { badRequest, notFound } from '../models/service-error.ts';
 import { getRunResult } from './repository.ts';
 import { thinDiagram } from './thin.ts';
 import { PREVIEW_POINTS } from './preview.ts';
+import { overrideNote, overrideShort } from '../../plot/run-override.ts';
 
 /** Points per diagram when several share the page (the run page draws up to 20 000 for one). */
 export const COMPARE_DRAW_BUDGET = 8000;
@@ -24,7 +25,7 @@ export interface CompareEntry {
   readonly shortLabel: string;
   readonly diagram: Diagram;
   readonly regimes: RegimeBand[];
-  readonly provenance: { modelName: string; versionHash: string; runId: string; engineVersion: string; date: string };
+  readonly provenance: { modelName: string; versionHash: string; runId: string; engineVersion: string; date: string; override?: string | null };
 }
 
 /** Run ids from ?runs=1,2 or repeated ?runs=: positive integers, first occurrence kept, in order. */
@@ -82,13 +83,16 @@ export async function loadCompareEntries(workspaceId: string, runIds: readonly n
     }
     const diagram = thinDiagram(stored.diagram(), points);
     const regimes = (JSON.parse(stored.regimesText || '{}') as { regimes?: RegimeBand[] } | null)?.regimes ?? [];
+    // A slice (parameter overridden for the run) says so in its label and provenance.
+    const override = overrideNote(stored.run);
+    const short = overrideShort(stored.run);
     return {
       runId,
-      label: `${stored.run.modelName} v${stored.run.versionNumber} (run ${runId})`,
-      shortLabel: `run ${runId}`,
+      label: `${stored.run.modelName} v${stored.run.versionNumber}${override ? ` with ${override}` : ''} (run ${runId})`,
+      shortLabel: `run ${runId}${short ? `, ${short}` : ''}`,
       diagram,
       regimes,
-      provenance: { modelName: stored.run.modelName, versionHash: stored.run.versionHash, runId: String(runId), engineVersion: stored.engineVersion, date: stored.createdAt },
+      provenance: { modelName: stored.run.modelName, versionHash: stored.run.versionHash, runId: String(runId), engineVersion: stored.engineVersion, date: stored.createdAt, ...(override ? { override } : {}) },
     };
   }));
   const parameters = [...new Set(entries.map((e) => e.diagram.parameter))];
