@@ -14,16 +14,18 @@ export interface DiagramAgreement {
 }
 
 /**
- * How much of `reference` the diagram `other` contains: every special point to `specialTol`, every
+ * How much of `reference` the diagram `other` contains: every special point to `specialTol` (the
+ * state of a branch point to `branchPointStateTol`), every
  * branch point on some branch of `other` (2-norm distance in (x, p) to its polyline below
  * `pointTol`, with a nearly parallel direction, BranchIndex.findParallel). Used to compare a trace
  * in blocks with the one-block trace (docs/numerics.md §11).
  */
-export function diagramAgreement(reference: Diagram, other: Diagram, specialTol: number, pointTol: number): DiagramAgreement {
+export function diagramAgreement(reference: Diagram, other: Diagram, specialTol: number, pointTol: number, branchPointStateTol = specialTol): DiagramAgreement {
   const n = reference.variables.length;
   let specialFound = 0;
   for (const a of reference.bifurcations) {
-    if (other.bifurcations.some((b) => b.type === a.type && Math.abs(b.p - a.p) <= specialTol && b.x.every((v, i) => Math.abs(v - a.x[i]) <= specialTol))) specialFound++;
+    const xTol = a.evidence.kind === 'branch-point' ? branchPointStateTol : specialTol;
+    if (other.bifurcations.some((b) => b.type === a.type && Math.abs(b.p - a.p) <= specialTol && b.x.every((v, i) => Math.abs(v - a.x[i]) <= xTol))) specialFound++;
   }
   const toY = (p: number, x: readonly number[]) => {
     const y = new Float64Array(n + 1);
@@ -50,6 +52,34 @@ export function diagramAgreement(reference: Diagram, other: Diagram, specialTol:
     }
   }
   return { specialFound, specialTotal: reference.bifurcations.length, pointsOn, pointsTotal, identical: JSON.stringify(reference) === JSON.stringify(other) };
+}
+
+/**
+ * Points of a diagram's branches that run along another of its branches (within `pointTol`, nearly
+ * parallel), leaving out the two points at each end of a branch (where a 'merged' branch meets the
+ * one it ran onto): 0 when no stretch of a branch is traced twice.
+ */
+export function overlapPoints(d: Diagram, pointTol: number): number {
+  const n = d.variables.length;
+  const lines = d.branches.map((b) => b.points.map((q) => {
+    const y = new Float64Array(n + 1);
+    y.set(q.x);
+    y[n] = q.p;
+    return y;
+  }));
+  let maxStep = 0;
+  for (const ys of lines) for (let j = 1; j < ys.length; j++) maxStep = Math.max(maxStep, dist(ys[j - 1], ys[j]));
+  const width = Math.abs(Number(d.settings.to) - Number(d.settings.from)) || 1;
+  const index = new BranchIndex(width / 600, n, Math.max(maxStep, 1e-9));
+  lines.forEach((ys, k) => {
+    const l = index.addList(k);
+    for (let j = 0; j < ys.length; j++) index.push(l, { y: ys[j], t: direction(ys, j) } as TracedPoint);
+  });
+  let overlap = 0;
+  lines.forEach((ys, k) => {
+    for (let j = 2; j < ys.length - 2; j++) if (index.findParallel(ys[j], direction(ys, j), pointTol, (l) => l === k)) overlap++;
+  });
+  return overlap;
 }
 
 function dist(a: Float64Array, b: Float64Array): number {

@@ -141,7 +141,11 @@ export function mergeBlocks(results: readonly BlockResult[], o: MergeOptions): M
     for (const d of r.specialPoints) {
       const mapped = new Set<string>();
       for (const local of d.branches) for (const id of placeOf(fates.get(local), d.p, d.x, n)) mapped.add(id);
-      const draft: SpecialPointDraft = { ...d, branches: mapped, evidence: { ...d.evidence } };
+      const evidence: SpecialPointDraft['evidence'] = { ...d.evidence };
+      if (!first && typeof evidence.locatedOn === 'string') evidence.locatedOn = placeOf(fates.get(evidence.locatedOn), d.p, d.x, n)[0] ?? evidence.locatedOn;
+      const draft: SpecialPointDraft = { ...d, branches: mapped, evidence };
+      // The first block to locate a place keeps its location (as the sequential trace keeps the first
+      // branch's, unless a later one locates it better on its own branches).
       if (first) registry.items.push(draft);
       else registry.add(draft);
     }
