@@ -3,16 +3,19 @@
  * Exit codes: 0 done (numerical trouble is reported in the output's diagnostics), 2 invalid input
  * (one line on stderr naming the field), 1 unexpected internal error.
  */
-import { toTraceJson, traceDiagram } from '../lib/atlas/index.js';
+import { availableParallelism } from 'node:os';
+import { toTraceJson, traceDiagram, traceDiagramWith, type Diagram } from '../lib/atlas/index.js';
+import type { CompiledSystem } from '../lib/model/index.js';
+import { TracePool } from '../worker/trace-pool.ts';
 import { ModelError } from '../lib/model/index.js';
 import { bandEdgeKind, labelRegimes, type RegimeBand } from '../lib/regimes/index.js';
-import { compile, emit, emitText, parseModelCommand, readModel, UsageError, type Command } from './cli-common.js';
+import { compile, emit, emitText, numberOption, parseModelCommand, readModel, UsageError, type Command, type ModelCommandArgs } from './cli-common.js';
 import { escapes } from './escapes-command.js';
 import { barriersCommand } from './barriers-command.js';
 import { onset } from './onset-command.js';
 import { mapCommand } from './map-command.js';
 
-const TRACE_HELP = `Usage: npm run --silent atlas -- trace MODEL.json [--from P] [--to P] [--out FILE]
+const TRACE_HELP = `Usage: npm run --silent atlas -- trace MODEL.json [--from P] [--to P] [--threads N] [--out FILE]
 
 Traces every equilibrium branch of the model over its swept parameter (the document's "sweep",
 or --from/--to) and locates saddle-node, pitchfork, transcritical and Hopf points.
@@ -37,13 +40,16 @@ It also carries the coupling regimes (docs/regimes.md):
 Options:
   --from P     sweep start (starting equilibria are computed here); default sweep.from
   --to P       sweep end; default sweep.to
+  --threads N  threads for the trace, 1 to the number of cores; default 1. The same output for any N:
+               512 or more starting patterns are traced in two fixed blocks, merged in order
+               (docs/numerics.md §11), so N = 2 is up to about twice as fast there and changes nothing below
   --out FILE   write the JSON to FILE instead of standard output
   --help       this text
 
 Exit codes: 0 done, 2 invalid input (message names the field), 1 internal error.
 Results are indicative; defer to domain experts and local regulation.`;
 
-const REGIMES_HELP = `Usage: npm run --silent atlas -- regimes MODEL.json [--from P] [--to P] [--recovery] [--out FILE]
+const REGIMES_HELP = `Usage: npm run --silent atlas -- regimes MODEL.json [--from P] [--to P] [--recovery] [--threads N] [--out FILE]
 
 Traces the model like "trace" and prints only its coupling-regime bands as a table: from, to,
 regime (weak, intermediate, strong), start, the kind of each edge (special point, saddle
@@ -55,6 +61,7 @@ Options:
   --from P     sweep start; default sweep.from
   --to P       sweep end; default sweep.to
   --recovery   also label recovery from the all-tipped state
+  --threads N  threads for the trace, 1 to the number of cores; default 1 (same output for any N; see trace --help)
   --out FILE   write the table to FILE instead of standard output
   --help       this text
 
@@ -62,15 +69,39 @@ Exit codes: 0 done, 2 invalid input (message names the field), 1 internal error.
 Results are indicative; defer to domain experts and local regulation.`;
 
 
+/**
+ * The diagram of the command's model on --threads threads (trace pool, src/worker/trace-pool.ts),
+ * or in this thread for 1: the same diagram either way.
+ */
+async function tracedOnThreads(args: ModelCommandArgs, model: unknown, system: CompiledSystem): Promise<Diagram> {
+  const threads = threadsOption(args.values.threads as string | undefined);
+  if (threads === 1) return traceDiagram(system);
+  const pool = new TracePool(threads);
+  try {
+    const compileOptions = args.from === undefined && args.to === undefined ? undefined : { sweep: system.sweep };
+    return await traceDiagramWith(system, {}, {}, pool.runner(model, compileOptions));
+  } finally {
+    await pool.close();
+  }
+}
+
+function threadsOption(value: string | undefined): number {
+  const cores = availableParallelism();
+  const v = numberOption('threads', value);
+  if (v === undefined) return 1;
+  if (!Number.isInteger(v) || v < 1 || v > cores) throw new UsageError(`--threads: expected an integer from 1 to ${cores} (the cores of this machine), got '${value}'`);
+  return v;
+}
 
 const trace: Command = {
   summary: 'equilibrium branches and bifurcations of a model document',
   help: TRACE_HELP,
-  run(argv) {
-    const args = parseModelCommand(argv, TRACE_HELP);
+  async run(argv) {
+    const args = parseModelCommand(argv, TRACE_HELP, { threads: 'string' });
     if (!args) return;
-    const system = compile(readModel(args.modelPath), args.from, args.to);
-    const diagram = traceDiagram(system);
+    const model = readModel(args.modelPath);
+    const system = compile(model, args.from, args.to);
+    const diagram = await tracedOnThreads(args, model, system);
     // Later sections (e.g. coupling regimes) add their keys to this object.
     const traced = toTraceJson(diagram);
     const labelled = labelRegimes(system, diagram);
@@ -100,12 +131,13 @@ function num(v: number): string {
 const regimes: Command = {
   summary: 'weak / intermediate / strong coupling bands of a model document, as a table',
   help: REGIMES_HELP,
-  run(argv) {
-    const args = parseModelCommand(argv, REGIMES_HELP, { recovery: 'boolean' });
+  async run(argv) {
+    const args = parseModelCommand(argv, REGIMES_HELP, { recovery: 'boolean', threads: 'string' });
     if (!args) return;
     const { values } = args;
-    const system = compile(readModel(args.modelPath), args.from, args.to);
-    const diagram = traceDiagram(system);
+    const model = readModel(args.modelPath);
+    const system = compile(model, args.from, args.to);
+    const diagram = await tracedOnThreads(args, model, system);
     const labelled = labelRegimes(system, diagram, values.recovery ? { starts: ['all-base', 'all-tipped'] } : {});
     const lines = [labelled.regimes.length > 0 ? regimesTable(labelled.regimes) : 'no regime bands'];
     if (diagram.coverage) lines.push(`coverage: ${diagram.coverage.text}`);
