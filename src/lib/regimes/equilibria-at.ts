@@ -2,6 +2,7 @@ import type { CompiledSystem } from '../model/compiled-system';
 import type { Diagnostic, Diagram, Eigenvalue } from '../atlas/types';
 import { newtonAtFixedParameter, spectrum } from './linear-algebra';
 import { fmt } from './element-roles';
+import { rememberReference } from './saddle-update';
 
 /** An equilibrium at one parameter value, refined and with its spectrum. */
 export interface Equilibrium {
@@ -165,7 +166,14 @@ export function analyseEquilibrium(system: CompiledSystem, x: Float64Array, p: n
       unstableValue = s.re[k1];
     }
   }
-  return { x: Array.from(x), residual, eigenvalues, unstable, neutral, unstableValue, unstableVector, branch };
+  const out: Equilibrium = { x: Array.from(x), residual, eigenvalues, unstable, neutral, unstableValue, unstableVector, branch };
+  if (unstableValue !== undefined) {
+    // The reference for continuing this saddle without a spectrum (saddle-update.ts).
+    let rest = -Infinity;
+    for (let k = 0; k < n; k++) if (k !== k1) rest = Math.max(rest, s.re[k]);
+    rememberReference(out, { jac, value: unstableValue, rest });
+  }
+  return out;
 }
 
 /**

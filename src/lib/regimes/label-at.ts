@@ -10,6 +10,11 @@ import { newtonAtFixedParameter, solveLinear } from './linear-algebra';
 import { progressOf } from './pattern';
 import { unstableCountAt } from './intervals';
 import { listNames, patternWords } from './reason';
+import { updateSaddle, type SaddleUpdateOutcome } from './saddle-update';
+
+const updateOutcome: { reason: SaddleUpdateOutcome } = { reason: 'accepted' };
+/** Outcomes of the eigenpair updates of continued saddles in this process (for measurements). */
+export const saddleUpdates: Record<SaddleUpdateOutcome, number> = { accepted: 0, 'no-reference': 0, singular: 0, 'not-converged': 0, 'not-unstable': 0, separation: 0, parity: 0 };
 
 /** The label at one parameter value, from the exits of the start state there. */
 export interface PointLabel {
@@ -501,14 +506,27 @@ function continueAcrossFolds(system: CompiledSystem, diagram: Diagram, source: E
   return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p), verified: source.verified };
 }
 
+/**
+ * dx/dp at each equilibrium used as a source, by equilibrium: in the bisections the same labelled
+ * point is the nearest source of many later ones, and its tangents do not change.
+ */
+const tangents = new WeakMap<Equilibrium, Float64Array | null>();
+
 /** Tangent predictor x + (p - p0) dx/dp with dx/dp = -J_x^{-1} F_p at (x, p0); null when J_x is singular. */
 function tangentGuess(system: CompiledSystem, e: Equilibrium, p0: number, p: number): number[] | null {
-  const n = system.dimension;
-  const x0 = Float64Array.from(e.x);
-  const jac = system.jacobian(x0, p0, new Float64Array(n * n));
-  const fp = system.parameterDerivative(x0, p0, new Float64Array(n));
-  const dx = solveLinear(jac, n, Array.from(fp, (v) => -v));
-  return dx ? e.x.map((c, i) => c + (p - p0) * dx[i]) : null;
+  let dx = tangents.get(e);
+  if (dx === undefined) {
+    const n = system.dimension;
+    const x0 = Float64Array.from(e.x);
+    const jac = system.jacobian(x0, p0, new Float64Array(n * n));
+    const fp = system.parameterDerivative(x0, p0, new Float64Array(n));
+    for (let i = 0; i < n; i++) fp[i] = -fp[i];
+    dx = solveLinear(jac, n, fp);
+    tangents.set(e, dx);
+  }
+  if (!dx) return null;
+  const d = dx;
+  return e.x.map((c, i) => c + (p - p0) * d[i]);
 }
 
 /**
@@ -518,9 +536,13 @@ function tangentGuess(system: CompiledSystem, e: Equilibrium, p0: number, p: num
 function refineContinued(system: CompiledSystem, e: Equilibrium, guess: readonly number[], p: number, out: readonly Equilibrium[], o: RegimeOptions): Equilibrium | null {
   const r = newtonAtFixedParameter(system, guess, p, o.newtonTolerance, o.newtonMaxIterations);
   if (!r.converged || out.some((f) => sameState(f.x, r.x, o.duplicateTolerance))) return null;
-  return e.unstable === 0
-    ? certifiedStable(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch)
-    : analyseEquilibrium(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
+  if (e.unstable === 0) return certifiedStable(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
+  if (e.unstable === 1 && o.saddleUpdate) {
+    const u = updateSaddle(system, r.x, p, r.residual, o.hyperbolicTolerance, e, updateOutcome);
+    saddleUpdates[updateOutcome.reason]++;
+    if (u) return u;
+  }
+  return analyseEquilibrium(system, r.x, p, r.residual, o.hyperbolicTolerance, e.branch);
 }
 
 const maxNormAbs = (x: readonly number[]) => { let m = 0; for (const v of x) m = Math.max(m, Math.abs(v)); return m; };

@@ -35,9 +35,21 @@ export interface Spectrum {
   vector(k: number): number[] | null;
 }
 
+/**
+ * One FlatLu per dimension, reused: the regime layer factorizes a few small matrices per equilibrium
+ * and labelled value, and a new workspace each time was a measurable share of its allocations. Safe
+ * because every caller factorizes and solves before anything else uses it (one thread, no reentry).
+ */
+const workspaces = new Map<number, FlatLu>();
+export function luWorkspace(n: number): FlatLu {
+  let w = workspaces.get(n);
+  if (!w) workspaces.set(n, (w = new FlatLu(n)));
+  return w;
+}
+
 /** Solves J z = b by FlatLu (LU with partial pivoting in one Float64Array); null when singular. */
 export function solveLinear(jac: Float64Array, n: number, b: ArrayLike<number>): Float64Array | null {
-  return new FlatLu(n).factor(jac).solve(b);
+  return luWorkspace(n).factor(jac).solve(b);
 }
 
 /**
@@ -60,12 +72,13 @@ export function spectrum(jac: Float64Array, n: number): Spectrum {
   };
 }
 
-function realEigenvector(jac: Float64Array, n: number, lambda: number): number[] | null {
+/** Unit eigenvector of the real eigenvalue lambda by the shifted inverse iteration of `spectrum` (null when it fails). */
+export function realEigenvector(jac: Float64Array, n: number, lambda: number): number[] | null {
   for (const scale of [1e-8, 1e-6]) {
     const mu = lambda + scale * Math.max(1, Math.abs(lambda));
     const shifted = Float64Array.from(jac);
     for (let i = 0; i < n; i++) shifted[i * n + i] -= mu;
-    const lu = new FlatLu(n).factor(shifted);
+    const lu = luWorkspace(n).factor(shifted);
     // Fixed, non-symmetric start so that no component of an eigenvector is missed by symmetry.
     let y: ArrayLike<number> = Array.from({ length: n }, (_, i) => 1 + 0.1 * Math.sin(i + 1));
     let ok = true;

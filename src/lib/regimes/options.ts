@@ -81,6 +81,12 @@ export interface RegimeOptions {
   readonly mergeCuts: boolean;
   /** Sampling across merged cuts: pieces of at most this fraction of the sweep range. */
   readonly maxSampleSpacing: number;
+  /**
+   * Continued index-1 saddles update their unstable eigenpair from the previous one instead of
+   * computing the full spectrum, when the safeguards of saddle-update.ts prove the index unchanged
+   * (docs/regimes.md, "Speed"). false: the full spectrum at every continued saddle.
+   */
+  readonly saddleUpdate: boolean;
 }
 
 export const defaultRegimeOptions: RegimeOptions = {
@@ -116,6 +122,7 @@ export const defaultRegimeOptions: RegimeOptions = {
   escapeGraphs: true,
   mergeCuts: true,
   maxSampleSpacing: 1 / 32,
+  saddleUpdate: true,
 };
 
 export function resolveOptions(options: Partial<RegimeOptions> | undefined): RegimeOptions {
