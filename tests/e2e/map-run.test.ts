@@ -3,8 +3,10 @@
  * first demo model, start a small map over the element parameter b through "Map over a second
  * parameter" (a field error beside its field first), follow the run to its map, hover a curve point
  * and read its numbers against the API, check the crosshair readout, export the map as SVG (parsed:
- * one path per curve, the provenance footer) and look at both themes. A reviewer sees no start
- * button. Screenshots in screenshots/map-run-*.png.
+ * one path per curve, the provenance footer) and look at both themes; click the map and get the
+ * one-parameter diagram at that value below it (a slice run, no new version), click again and get the
+ * same run, and Enter on the keyboard crosshair; a reviewer opens an existing slice but starts none and
+ * sees no start button. Screenshots in screenshots/map-run-*.png and map-slice-*.png.
  */
 import { readFileSync } from 'node:fs';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
@@ -112,7 +114,104 @@ describe('a map run in the browser', () => {
     await shootBothThemes(page, 'map-run');
   }, 120_000);
 
-  it('a clicked point offers the one-parameter diagram at its value: a copy of the version with b set, traced over the map\'s range', async () => {
+  let sliceRunId = 0;
+  let sliceValue = 0;
+  it('clicking the map opens the one-parameter diagram at that value below it, computed without a new version; a second click reuses the run', async () => {
+    const modelId = (await (await page.request.get(`${BASE_URL}/api/runs/${mapRunId}`)).json()).run.modelId as number;
+    const versionsBefore = (await (await page.request.get(`${BASE_URL}/api/models/${modelId}/versions`)).json()) as { versions: unknown[] };
+    const svg = page.getByTestId('map-svg');
+    await svg.scrollIntoViewIfNeeded();
+    const box = (await svg.boundingBox())!;
+    const at = { x: box.x + box.width * 0.55, y: box.y + box.height * 0.28 };
+    await page.mouse.move(at.x, at.y);
+    const coords = (await page.getByTestId('map-coords').textContent())!;
+    await page.mouse.click(at.x, at.y);
+    const panel = page.getByTestId('map-slice-panel');
+    await expect.poll(() => panel.getAttribute('data-run'), { timeout: 20_000 }).toMatch(/^\d+$/);
+    sliceRunId = Number(await panel.getAttribute('data-run'));
+    sliceValue = Number(await panel.getAttribute('data-value'));
+    // The value under the pointer (the readout's 4 digits), rounded to 1e-4 (a thousandth of the range 0.1).
+    expect(Math.abs(sliceValue - Number(/b = ([\d.]+)$/.exec(coords)![1]))).toBeLessThan(2e-4);
+    expect(Number((sliceValue * 1e4).toFixed(6)) % 1).toBe(0);
+    const run = (await (await page.request.get(`${BASE_URL}/api/runs/${sliceRunId}`)).json()).run as { kind: string; sliceOf: number; versionNumber: number; settings: Record<string, unknown> };
+    expect(run).toMatchObject({ kind: 'trace', sliceOf: mapRunId, versionNumber: 1, settings: { override: { parameter: 'b', value: sliceValue } } });
+    // Progress while it computes, then the diagram itself, in the panel.
+    await expect.poll(() => panel.locator('[data-testid=diagram-view]').count(), { timeout: 170_000, interval: 1000 }).toBe(1);
+    expect(await panel.getAttribute('data-status')).toBe('done');
+    expect(await panel.textContent()).toContain(`b = ${sliceValue} overridden (slice of map run ${mapRunId})`);
+    expect(await panel.getByTestId('map-slice-link').getAttribute('href')).toBe(`/runs/${sliceRunId}`);
+    // Its line on the map, beside the model's own.
+    expect(await svg.locator(`path[data-layer=slice][data-value="${sliceValue}"]`).count()).toBe(1);
+    const versionsAfter = (await (await page.request.get(`${BASE_URL}/api/models/${modelId}/versions`)).json()) as { versions: unknown[] };
+    expect(versionsAfter.versions.length).toBe(versionsBefore.versions.length);
+    await page.mouse.move(0, 0);
+    await page.getByTestId('map-view').scrollIntoViewIfNeeded();
+    await shootBothThemes(page, 'map-slice');
+    await page.getByTestId('run-map').screenshot({ path: screenshotPath('map-slice-panel') });
+
+    // Close it and click the same spot: the same run, answered as already computed.
+    await panel.getByRole('button', { name: 'Close' }).click();
+    expect(await panel.count()).toBe(0);
+    // The same value again: a click on the slice's own line (the map grew a legend entry, so the old pixel moved).
+    const onLine = async (pg: Page, value: number, xFraction: number) => {
+      const map = pg.getByTestId('map-svg');
+      await map.scrollIntoViewIfNeeded();
+      const line = (await map.locator(`path[data-layer=slice][data-value="${value}"]`).boundingBox())!;
+      await pg.mouse.click(line.x + line.width * xFraction, line.y + line.height / 2);
+    };
+    await onLine(page, sliceValue, 0.55);
+    await expect.poll(() => page.getByTestId('map-slice-panel').getAttribute('data-cached'), { timeout: 20_000 }).toBe('true');
+    expect(Number(await page.getByTestId('map-slice-panel').getAttribute('data-run'))).toBe(sliceRunId);
+    const slices = (await (await page.request.get(`${BASE_URL}/api/runs/${mapRunId}/slices`)).json()) as { slices: { id: number; value: number }[] };
+    expect(slices.slices.filter((x) => x.value === sliceValue).map((x) => x.id)).toEqual([sliceRunId]);
+    await expect.poll(() => page.getByTestId('map-slice-panel').locator('[data-testid=diagram-view]').count(), { timeout: 30_000 }).toBe(1);
+  }, 240_000);
+
+  it('keyboard: focus the map, move the crosshair with the arrow keys, Enter opens the slice at its value', async () => {
+    await page.getByTestId('map-slice-panel').getByRole('button', { name: 'Close' }).click();
+    const svg = page.getByTestId('map-svg');
+    await svg.focus();
+    await page.keyboard.press('ArrowUp');
+    await expect.poll(() => page.getByTestId('map-coords').count()).toBe(1);
+    const coords = (await page.getByTestId('map-coords').textContent())!;
+    await page.keyboard.press('Enter');
+    const panel = page.getByTestId('map-slice-panel');
+    await expect.poll(() => panel.getAttribute('data-run'), { timeout: 20_000 }).toMatch(/^\d+$/);
+    const value = Number(await panel.getAttribute('data-value'));
+    // One step up from the middle of b in [0.55, 0.65]: a hundredth of the plot above 0.6.
+    expect(value).toBeGreaterThan(0.6);
+    expect(Math.abs(value - Number(/b = ([\d.]+)$/.exec(coords)![1]))).toBeLessThan(2e-4);
+    await panel.getByRole('button', { name: 'Close' }).click();
+  }, 60_000);
+
+  it('a reviewer opens an existing slice from the map but cannot start one', async () => {
+    const reviewer = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const p = await reviewer.newPage();
+    await signIn(p, demoAccount('reviewer').email, demoAccount('reviewer').password);
+    await p.goto(`${BASE_URL}/runs/${mapRunId}`);
+    await expect.poll(() => p.getByTestId('map-svg').count(), { timeout: 30_000 }).toBe(1);
+    await hydrated(p);
+    const svg = p.getByTestId('map-svg');
+    await svg.scrollIntoViewIfNeeded();
+    const line = (await svg.locator(`path[data-layer=slice][data-value="${sliceValue}"]`).boundingBox())!;
+    await p.mouse.click(line.x + line.width * 0.4, line.y + line.height / 2);
+    const box = (await svg.boundingBox())!;
+    await expect.poll(() => p.getByTestId('map-slice-panel').getAttribute('data-run'), { timeout: 20_000 }).toBe(String(sliceRunId));
+    await p.getByTestId('map-slice-panel').getByRole('button', { name: 'Close' }).click();
+    await p.mouse.click(box.x + box.width * 0.2, box.y + box.height * 0.12);
+    await expect.poll(() => p.getByTestId('map-slice-missing').count(), { timeout: 20_000 }).toBe(1);
+    const before = (await (await p.request.get(`${BASE_URL}/api/runs/${mapRunId}/slices`)).json()).slices.length;
+    const refused = await p.request.post(`${BASE_URL}/api/runs/${mapRunId}/slices`, { data: { value: 0.6 } });
+    expect(refused.status()).toBe(403);
+    expect((await (await p.request.get(`${BASE_URL}/api/runs/${mapRunId}/slices`)).json()).slices.length).toBe(before);
+    // The slice's own run page says it is one, with the overridden value.
+    await p.goto(`${BASE_URL}/runs/${sliceRunId}`);
+    expect(await p.getByTestId('run-override').textContent()).toContain(`map run ${mapRunId}`);
+    await p.screenshot({ path: screenshotPath('map-slice-run-page') });
+    await reviewer.close();
+  }, 90_000);
+
+  it('a clicked point keeps its numbers and offers, as a secondary action, a new version with b set, traced over the map\'s range', async () => {
     const api = (await (await page.request.get(`${BASE_URL}/api/runs/${mapRunId}/map`)).json()) as { curves: { id: string; points: { p: [number, number] }[] }[]; ranges: { first: [number, number] } };
     const mark = page.locator('[data-testid=map-mark][data-kind=curve]').nth(2);
     const [curveId, index] = (await mark.getAttribute('data-id'))!.split(':');

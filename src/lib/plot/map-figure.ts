@@ -195,6 +195,9 @@ export function buildMapFigure(input: MapFigureInput): MapFigure {
     legendItem((x, y) => items.push({ t: 'rect', x, y: y - 6, w: 24, h: 12, fill: pal.band[regime], stroke: pal.grid, strokeWidth: 0.6 }), REGIME_LABEL[regime], regime);
   }
   if (slice) legendItem((x, y) => items.push({ t: 'path', d: `M${x},${y}h24`, stroke: pal.muted, strokeWidth: 1.2, dash: [2, 3], fill: 'none' }), 'one-parameter diagram of this model', 'slice');
+  if ((input.slices ?? []).some((s) => s.value >= second[0] && s.value <= second[1])) {
+    legendItem((x, y) => items.push({ t: 'path', d: `M${x},${y}h24`, stroke: pal.muted, strokeWidth: 1, dash: [6, 3], fill: 'none' }), `diagram at a picked ${names[1]} (parameter overridden)`, 'picked-slice');
+  }
   ly += 12;
 
   if (input.caption) {

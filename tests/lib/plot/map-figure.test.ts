@@ -29,6 +29,14 @@ describe('buildMapFigure(input)', () => {
     expect(fig.items.filter((p) => p.data?.point === 'bt1')).toHaveLength(1);
     expect(fig.items.filter((p) => p.data?.layer === 'region').map((p) => p.data!.regime).sort()).toEqual(['strong', 'weak']);
   });
+  it('draws each slice computed on demand as a line at its value (the open one marked), and none outside the range', () => {
+    const f = buildMapFigure({ map, secondValue: 0.15, width: 600, slices: [{ value: 0.2, active: true }, { value: 0.25 }, { value: 0.5 }] });
+    const lines = f.items.filter((p) => p.data?.layer === 'slice' && p.data?.value);
+    expect(lines.map((p) => [p.data!.value, p.data!.active])).toEqual([['0.2', 'true'], ['0.25', 'false']]);
+    // A horizontal line at y = Y(value) across the plot.
+    expect((lines[0] as { d: string }).d).toBe(`M${f.plot.x},${Math.round(f.yAxis.map(0.2) * 100) / 100}H${f.plot.x + f.plot.w}`);
+    expect(f.items.some((p) => p.t === 'text' && p.text === 'r = 0.25')).toBe(true);
+  });
   it('maps the ranges exactly onto the plot (no widened domain) and inverts pixels back to (p1, p2)', () => {
     expect(fig.xAxis.map(0)).toBeCloseTo(fig.plot.x, 9);
     expect(fig.xAxis.map(1)).toBeCloseTo(fig.plot.x + fig.plot.w, 9);
