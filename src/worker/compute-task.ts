@@ -4,7 +4,8 @@
  * process sets (Atomics), which the engine polls through isCancelled().
  */
 import type { MessagePort } from 'node:worker_threads';
-import { computeTrace, type ComputeOutput } from '../lib/server/runs/compute.ts';
+import { computeTrace, computeTraceOn, type ComputeOutput } from '../lib/server/runs/compute.ts';
+import { TracePool } from './trace-pool.ts';
 import type { RunSettings } from '../lib/server/runs/schemas.ts';
 import { computeEscapeStudy, type EscapeStudySummary, type StudyRunner, type ValueProgress } from '../lib/server/escapes/compute.ts';
 import type { EscapePointDbRow } from '../lib/server/escapes/rows.ts';
@@ -23,6 +24,8 @@ export interface ComputeTask {
   readonly cancelFlag: SharedArrayBuffer;
   /** Test-only slowdown (BRINKMAP_WORKER_TEST_DELAY_MS): wait this long, in slices, before computing. */
   readonly testDelayMs: number;
+  /** Trace runs: threads for the trace's blocks (already capped at the machine's cores); 1 or absent traces in this thread. */
+  readonly threads?: number;
 }
 
 /**
@@ -62,10 +65,27 @@ export type EscapeTaskResult = EscapeTaskOutput | TaskFailure;
 
 const PROGRESS_INTERVAL_MS = 100;
 
-export default function computeTask(task: ComputeTask | EscapeComputeTask | MapComputeTask): TaskResult | MapTaskResult | Promise<EscapeTaskResult> {
+export default function computeTask(task: ComputeTask | EscapeComputeTask | MapComputeTask): TaskResult | MapTaskResult | Promise<EscapeTaskResult> | Promise<TaskResult> {
   if ('kind' in task && task.kind === 'escapes') return escapeTask(task);
   if ('kind' in task && task.kind === 'map') return mapTask(task);
-  return traceTask(task as ComputeTask);
+  const t = task as ComputeTask;
+  return (t.threads ?? 1) > 1 ? pooledTraceTask(t) : traceTask(t);
+}
+
+/**
+ * This thread's trace pool, started by the first trace run that asks for more than one thread and
+ * kept for the next (starting its threads costs about a second each); a run asking for another
+ * count replaces it. Its threads end with this thread.
+ */
+let tracePool: TracePool | null = null;
+
+async function tracePoolOf(threads: number): Promise<TracePool> {
+  if (tracePool?.threads === threads) return tracePool;
+  const old = tracePool;
+  tracePool = null;
+  await old?.close().catch(() => undefined);
+  tracePool = new TracePool(threads);
+  return tracePool;
 }
 
 /**
@@ -157,6 +177,29 @@ function traceTask(task: ComputeTask): TaskResult {
       isCancelled,
     });
     return out;
+  } catch (e) {
+    return taskFailure(e);
+  } finally {
+    task.port.close();
+  }
+}
+
+/** traceTask with the trace's blocks on the thread's trace pool (docs/numerics.md §11): the same result. */
+async function pooledTraceTask(task: ComputeTask): Promise<TaskResult> {
+  const flag = new Int32Array(task.cancelFlag);
+  const isCancelled = () => Atomics.load(flag, 0) === 1;
+  const post = progressPoster(task.port);
+  const delayShare = task.testDelayMs > 0 ? 0.5 : 0;
+  try {
+    if (task.testDelayMs > 0) testDelay(task, flag, post, delayShare);
+    if (isCancelled()) {
+      return { diagramBlob: new Uint8Array(0), regimesJson: '', previewPoints: 0, branchCount: 0, pointCount: 0, specialPointCount: 0, computeMs: 0, phasesMs: { trace: 0, label: 0, onset: 0, encode: 0 }, cancelled: true };
+    }
+    const pool = await tracePoolOf(task.threads!);
+    return await computeTraceOn(task.documentText, task.settings, {
+      onProgress: (f, phrase) => post(delayShare + (1 - delayShare) * f, phrase, f >= 1),
+      isCancelled,
+    }, (document) => pool.runner(document, undefined, task.cancelFlag));
   } catch (e) {
     return taskFailure(e);
   } finally {

@@ -160,7 +160,10 @@ export class RunWorker {
       findReuse: () => findResultId(run.cacheKey),
       completeReuse: (reuse) => completeRun(run, this.owner, { reuse }, ENGINE_VERSION),
       reused: 'stored result',
-      task: (port, cancelFlag): ComputeTask => ({ documentText: run.documentText, settings: run.settings, port, cancelFlag, testDelayMs: this.opts.testDelayMs }),
+      task: (port, cancelFlag): ComputeTask => ({
+        documentText: run.documentText, settings: run.settings, port, cancelFlag, testDelayMs: this.opts.testDelayMs,
+        threads: Math.max(1, Math.min(run.settings.threads ?? 1, availableParallelism())),
+      }),
       store: (output) => completeRun(run, this.owner, output, ENGINE_VERSION),
       tooLarge: (output) => `the diagram (${(output.diagramBlob.byteLength / 1048576).toFixed(1)} MB encoded, ${output.pointCount} points) is larger than the database accepts in one statement (max_allowed_packet); narrow the sweep or lower maxPointsPerBranch, or raise max_allowed_packet`,
       done: (output, storingMs) => {
@@ -297,7 +300,9 @@ export class RunWorker {
         const { port1, port2 } = new MessageChannel();
         port1.on('message', (m: ProgressMessage) => { progress = { fraction: 0.1 * m.fraction, phrase: `atlas: ${m.phrase}` }; });
         port1.unref();
-        const task: ComputeTask = { documentText: run.documentText, settings: settings.atlas ?? {}, port: port2, cancelFlag: a.cancelFlag.buffer as SharedArrayBuffer, testDelayMs: 0 };
+        // The study's threads trace the atlas too (the same diagram for any count, docs/numerics.md §11).
+        const task: ComputeTask = { documentText: run.documentText, settings: settings.atlas ?? {}, port: port2, cancelFlag: a.cancelFlag.buffer as SharedArrayBuffer, testDelayMs: 0,
+          threads: Math.max(1, Math.min(settings.threads ?? 1, availableParallelism())) };
         try {
           const out: TaskResult = await this.pool.run(task, { transferList: [port2], signal: a.abort.signal });
           if ('failed' in out) {

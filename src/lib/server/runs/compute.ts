@@ -5,7 +5,8 @@
  * and tests all run exactly this.
  */
 import { compileModelJson } from '../../model/index.ts';
-import { traceDiagram } from '../../atlas/index.ts';
+import { traceDiagram, traceDiagramWith, type TraceBlockRunner } from '../../atlas/index.ts';
+import type { CompiledSystem } from '../../model/compiled-system.ts';
 import { labelRegimes } from '../../regimes/index.ts';
 import { criticalCoupling, OnsetInputError, type CriticalCouplingResult } from '../../onset/index.ts';
 import type { Diagram } from '../../atlas/types.ts';
@@ -18,8 +19,9 @@ import { documentAtSecond } from '../../plot/map-slice.ts';
  * slice of a map, docs/maps.md "From the map back to one parameter"; the name was checked when the
  * run started, so a missing one is a broken contract). The engine gets the settings without it.
  */
-export function documentForRun(documentText: string, settings: RunSettings): { document: unknown; engineSettings: Omit<RunSettings, 'override'> } {
-  const { override, ...engineSettings } = settings;
+export function documentForRun(documentText: string, settings: RunSettings): { document: unknown; engineSettings: Omit<RunSettings, 'override' | 'threads'> } {
+  // threads only says where the blocks run (the diagram is the same for any count), so the engine never sees it.
+  const { override, threads: _threads, ...engineSettings } = settings;
   const document = JSON.parse(documentText) as unknown;
   if (!override) return { document, engineSettings };
   const changed = documentAtSecond(document, override.parameter, override.value);
@@ -57,10 +59,32 @@ export function computeTrace(documentText: string, settings: RunSettings, hooks:
   hooks.onProgress(0, 'compiling the model');
   const { document, engineSettings } = documentForRun(documentText, settings);
   const system = compileModelJson(document);
-  const diagram: Diagram = traceDiagram(system, { ...engineSettings }, {
+  const diagram: Diagram = traceDiagram(system, { ...engineSettings }, traceHooks(hooks));
+  return afterTrace(system, diagram, started, hooks);
+}
+
+/**
+ * computeTrace with the trace's blocks handed to the runner that `blocksOn` gives for the run's
+ * document (the trace pool, src/worker/trace-pool.ts): the same output, the blocks on several threads.
+ */
+export async function computeTraceOn(documentText: string, settings: RunSettings, hooks: ComputeHooks, blocksOn: (document: unknown) => TraceBlockRunner): Promise<ComputeOutput> {
+  const started = performance.now();
+  hooks.onProgress(0, 'compiling the model');
+  const { document, engineSettings } = documentForRun(documentText, settings);
+  const system = compileModelJson(document);
+  const diagram: Diagram = await traceDiagramWith(system, { ...engineSettings }, traceHooks(hooks), blocksOn(document));
+  return afterTrace(system, diagram, started, hooks);
+}
+
+function traceHooks(hooks: ComputeHooks) {
+  return {
     onProgress: (f: number, phrase: string) => hooks.onProgress(TRACE_SHARE * Math.min(1, Math.max(0, f)), phrase),
     isCancelled: () => hooks.isCancelled(),
-  });
+  };
+}
+
+/** Bands, critical coupling and the encoded diagram after the trace. */
+function afterTrace(system: CompiledSystem, diagram: Diagram, started: number, hooks: ComputeHooks): ComputeOutput {
   const traced = performance.now();
   let regimes: object = { regimes: [], escapeGraphs: [], diagnostics: [] };
   if (!hooks.isCancelled()) {

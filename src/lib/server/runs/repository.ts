@@ -155,10 +155,12 @@ export async function startRun(workspaceId: string, actorId: string | null, inpu
     settings = normalizeMapSettings(version.document, input.settings);
     cacheKey = resultCacheKey('map', version.hash, settings, MAP_RESULT_ENGINE);
   } else {
-    const s = input.settings as RunSettings;
+    const { threads, ...s } = input.settings as RunSettings;
     if (s.override) checkOverride(version.document, s.override);
-    settings = normalizeSettings(version.document, s);
-    cacheKey = resultCacheKey(kind, version.hash, settings, ENGINE_VERSION);
+    // Threads are kept with the run (the worker reads them) but not in the identity: the same diagram on any count.
+    const identity = normalizeSettings(version.document, s);
+    settings = threads !== undefined && threads > 1 ? { ...identity, threads } : identity;
+    cacheKey = resultCacheKey(kind, version.hash, identity, ENGINE_VERSION);
   }
   const runId = await db.transaction(async (trx) => {
     const model = await trx('models').where({ id: input.modelId, workspace_id: workspaceId }).first();

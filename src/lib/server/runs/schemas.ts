@@ -22,8 +22,18 @@ export const parameterOverrideSchema = z.object({
 
 export type ParameterOverride = z.infer<typeof parameterOverrideSchema>;
 
-/** A trace run's settings: the engine's knobs (./trace-settings-schema.ts) and the optional override. */
-export const traceRunSettingsSchema = runSettingsObject.extend({ override: parameterOverrideSchema.optional() }).strict().superRefine(refineRunSettings);
+/** Most threads one trace run may ask for; the worker uses at most its machine's cores. */
+export const MAX_TRACE_THREADS = 64;
+
+/**
+ * A trace run's settings: the engine's knobs (./trace-settings-schema.ts), the optional override,
+ * and the threads to trace on (docs/numerics.md §11: the diagram is the same for any count, so
+ * threads is kept with the run but is not part of the result's identity).
+ */
+export const traceRunSettingsSchema = runSettingsObject.extend({
+  override: parameterOverrideSchema.optional(),
+  threads: z.number().int('must be a whole number').min(1, 'at least 1').max(MAX_TRACE_THREADS, `at most ${MAX_TRACE_THREADS}`).optional(),
+}).strict().superRefine(refineRunSettings);
 
 export type RunSettings = z.infer<typeof traceRunSettingsSchema>;
 
