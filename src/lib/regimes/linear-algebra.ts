@@ -1,5 +1,6 @@
 import type { CompiledSystem } from '../model/compiled-system';
-import { eigenvalues, newton } from '../numerics/index';
+import { eigenvalues } from '../numerics/index';
+import { allFinite, normInf } from '../numerics/vector';
 import { FlatLu } from '../numerics/flat-lu';
 
 export interface FixedPointResult {
@@ -11,11 +12,17 @@ export interface FixedPointResult {
 }
 
 /**
- * Newton's method for F(x, p) = 0 at fixed p: the engine's damped Newton (numerics/newton.ts) with
- * residual tolerance `tolerance` (max norm) and iteration cap `maxIterations`; its step tolerance
- * (1e-10 relative) is kept, with the allocation-free FlatLu as its linear solver (the regime layer
- * solves at hyperbolic equilibria, where a pivot below n eps |J| means a fold, not a step to take).
- * Never throws; x0 is not mutated.
+ * Newton's method for F(x, p) = 0 at fixed p: the engine's damped Newton (numerics/newton.ts, Dennis &
+ * Schnabel §6.3: J_x d = -F, x + lambda d with lambda halved at most 20 times until |F|_2 decreases)
+ * with residual tolerance `tolerance` (max norm), its step tolerance 1e-10 (1 + |x|_inf), its state
+ * bound 1e8 and iteration cap `maxIterations`, and the allocation-free FlatLu as its linear solver (the
+ * regime layer solves at hyperbolic equilibria, where a pivot below n eps |J| means a fold, not a step
+ * to take). The same iteration, operation for operation, as `newton(system, x0, p, { residualTolerance,
+ * maxIterations, linearSolver: 'flat' })` (tests/lib/regimes/linear-algebra.test.ts compares the two
+ * bit for bit), on work arrays kept per dimension: the labeller runs it a few thousand times per
+ * labelling, and the engine's version allocates eight typed arrays per call and three per iteration
+ * (a tenth of the labelling was garbage collection). Never throws; x0 is not mutated; the returned
+ * x is a new array.
  */
 export function newtonAtFixedParameter(
   system: CompiledSystem,
@@ -24,8 +31,67 @@ export function newtonAtFixedParameter(
   tolerance: number,
   maxIterations: number,
 ): FixedPointResult {
-  const r = newton(system, x0, p, { residualTolerance: tolerance, maxIterations, linearSolver: 'flat' });
-  return { converged: r.converged, iterations: r.iterations, residual: r.residual, x: r.x };
+  const n = system.dimension;
+  const w = newtonWork(n);
+  const { x, f, j, trial, ft, minusF, lu } = w;
+  for (let i = 0; i < n; i++) x[i] = x0[i];
+  system.rates(x, p, f);
+  if (!allFinite(f)) return fixedPoint(false, 0, Number.NaN, x);
+  let fnorm2 = sumSq(f);
+  if (normInf(f) <= tolerance && fnorm2 === 0) return fixedPoint(true, 0, 0, x);
+  for (let it = 1; it <= maxIterations; it++) {
+    system.jacobian(x, p, j);
+    for (let i = 0; i < n; i++) minusF[i] = -f[i];
+    const d = lu.factor(j).solve(minusF);
+    if (d === null) return fixedPoint(false, it, normInf(f), x);
+    let lambda = 1;
+    let accepted = false;
+    for (let back = 0; back < 20; back++) {
+      for (let i = 0; i < n; i++) trial[i] = x[i] + lambda * d[i];
+      system.rates(trial, p, ft);
+      const t2 = sumSq(ft);
+      if (Number.isFinite(t2) && (t2 < fnorm2 || t2 === 0 || back === 19)) {
+        accepted = Number.isFinite(t2);
+        break;
+      }
+      lambda *= 0.5;
+    }
+    if (!accepted) return fixedPoint(false, it, normInf(f), x);
+    x.set(trial);
+    f.set(ft);
+    fnorm2 = sumSq(f);
+    const stepSize = lambda * normInf(d);
+    const res = normInf(f);
+    if (normInf(x) > NEWTON_STATE_BOUND) return fixedPoint(false, it, res, x);
+    if (res <= tolerance && stepSize <= NEWTON_STEP_TOLERANCE * (1 + normInf(x))) return fixedPoint(true, it, res, x);
+    if (res === 0) return fixedPoint(true, it, 0, x);
+  }
+  return fixedPoint(false, maxIterations, normInf(f), x);
+}
+
+function fixedPoint(converged: boolean, iterations: number, residual: number, x: Float64Array): FixedPointResult {
+  return { converged, iterations, residual, x: Float64Array.from(x) };
+}
+
+/** numerics/newton.ts's defaults for the step tolerance and the state bound. */
+const NEWTON_STEP_TOLERANCE = 1e-10;
+const NEWTON_STATE_BOUND = 1e8;
+
+interface NewtonWork { x: Float64Array; f: Float64Array; j: Float64Array; trial: Float64Array; ft: Float64Array; minusF: Float64Array; lu: FlatLu }
+const newtonWorks = new Map<number, NewtonWork>();
+function newtonWork(n: number): NewtonWork {
+  let w = newtonWorks.get(n);
+  if (!w) {
+    w = { x: new Float64Array(n), f: new Float64Array(n), j: new Float64Array(n * n), trial: new Float64Array(n), ft: new Float64Array(n), minusF: new Float64Array(n), lu: new FlatLu(n) };
+    newtonWorks.set(n, w);
+  }
+  return w;
+}
+
+function sumSq(a: Float64Array): number {
+  let s = 0;
+  for (let i = 0; i < a.length; i++) s += a[i] * a[i];
+  return s;
 }
 
 export interface Spectrum {

@@ -154,10 +154,9 @@ export function orderedLimit(xs: readonly number[], v: readonly number[], sign: 
   }
   if (side.length === 0) return -1;
   // The extremal element: the greatest of `side` for the decreasing branch, the least for the increasing one.
-  const beyond = (a: readonly number[], b: readonly number[]) => (sign < 0 ? leq(a, b) : leq(b, a));
   let best = side[0];
-  for (const y of side) if (beyond(best, y)) best = y;
-  for (const y of side) if (!beyond(y, best)) return -1;
+  for (const y of side) if (beyond(sign, best, y)) best = y;
+  for (const y of side) if (!beyond(sign, y, best)) return -1;
   return states.findIndex((st) => sameState(st.x, best, duplicateTolerance));
 }
 
@@ -177,6 +176,11 @@ function canReach(sign: 1 | -1, xs: readonly number[], v: readonly number[], ste
   if (!leq(xs, xStart)) return false;
   for (const y of all) if (leq(x0, y) && !leq(xStart, y)) return false;
   return true;
+}
+
+/** b is at least as extreme as a: b >= a for the decreasing branch (sign -1, its limit is the greatest element), b <= a for the increasing one. */
+function beyond(sign: 1 | -1, a: readonly number[], b: readonly number[]): boolean {
+  return sign < 0 ? leq(a, b) : leq(b, a);
 }
 
 /**
