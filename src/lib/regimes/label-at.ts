@@ -6,7 +6,7 @@ import { elementRoles, fmt, stateRanges, type NodeRoles } from './element-roles'
 import { analyseEquilibrium, certifiedStable, equilibriaAt, sameState, type Equilibrium } from './equilibria-at';
 import type { IntegrationBudget } from './escape-graph';
 import { frameRolesOf, looksCooperative, progressSlope, startExits, type Exit, type ExitOrderMode } from './start-exits';
-import { newtonAtFixedParameter, solveLinear } from './linear-algebra';
+import { newtonAtFixedParameter, tangentOf } from './linear-algebra';
 import { progressOf } from './pattern';
 import { unstableCountAt } from './intervals';
 import { listNames, patternWords } from './reason';
@@ -284,7 +284,10 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
     }
     const regime = regimeOfExits(found.exits, n)!;
     const exitKeys = found.exits.map((e) => `${e.engaged.join(',')}>${e.tipping.join(',')}`).sort();
-    return { p, start, regime, reason: reasonFor(regime, found.exits, names, start), exits: found.exits, key: `${regime}|${exitKeys.join(';')}`,
+    // The reason is read only for the labels that end up standing for a piece: built on first use.
+    let reason: string | null = null;
+    const exits = found.exits;
+    return { p, start, regime, get reason() { return (reason ??= reasonFor(regime, exits, names, start)); }, exits, key: `${regime}|${exitKeys.join(';')}`,
       restsOn: restsOn(p, equilibria, found.states[found.start].x, found.exits, found.states) };
   };
 
@@ -506,27 +509,13 @@ function continueAcrossFolds(system: CompiledSystem, diagram: Diagram, source: E
   return { equilibria: out, monotone: source.monotone && looksCooperative(system, out, p), verified: source.verified };
 }
 
-/**
- * dx/dp at each equilibrium used as a source, by equilibrium: in the bisections the same labelled
- * point is the nearest source of many later ones, and its tangents do not change.
- */
-const tangents = new WeakMap<Equilibrium, Float64Array | null>();
-
-/** Tangent predictor x + (p - p0) dx/dp with dx/dp = -J_x^{-1} F_p at (x, p0); null when J_x is singular. */
+/** Tangent predictor x + (p - p0) dx/dp with dx/dp = -J_x^{-1} F_p at (x, p0) (tangentOf); null when J_x is singular. */
 function tangentGuess(system: CompiledSystem, e: Equilibrium, p0: number, p: number): number[] | null {
-  let dx = tangents.get(e);
-  if (dx === undefined) {
-    const n = system.dimension;
-    const x0 = Float64Array.from(e.x);
-    const jac = system.jacobian(x0, p0, new Float64Array(n * n));
-    const fp = system.parameterDerivative(x0, p0, new Float64Array(n));
-    for (let i = 0; i < n; i++) fp[i] = -fp[i];
-    dx = solveLinear(jac, n, fp);
-    tangents.set(e, dx);
-  }
+  const dx = tangentOf(system, e, p0);
   if (!dx) return null;
-  const d = dx;
-  return e.x.map((c, i) => c + (p - p0) * d[i]);
+  const out = new Array<number>(dx.length);
+  for (let i = 0; i < dx.length; i++) out[i] = e.x[i] + (p - p0) * dx[i];
+  return out;
 }
 
 /**

@@ -365,9 +365,8 @@ function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState, m
  */
 function movesFast(l: PointLabel, r: PointLabel, step: number, engaged: number, anchoredLeft?: number, anchoredRight?: number): boolean {
   if (l.exits.length !== r.exits.length) return false;
-  const order = (x: PointLabel) => [...x.exits].sort((u, v) => keyOf(u).localeCompare(keyOf(v)));
-  const el = order(l);
-  const er = order(r);
+  const el = sortedExits(l);
+  const er = sortedExits(r);
   const h = r.p - l.p;
   for (let k = 0; k < el.length; k++) {
     const a = el[k];
@@ -396,6 +395,18 @@ function movesFast(l: PointLabel, r: PointLabel, step: number, engaged: number, 
     }
   }
   return false;
+}
+
+/** A label's exits sorted by key (keyOf), once per label: movesFast compares every neighbouring pair. */
+const sortedCache = new WeakMap<PointLabel, PointLabel['exits'][number][]>();
+function sortedExits(l: PointLabel): PointLabel['exits'][number][] {
+  let hit = sortedCache.get(l);
+  if (!hit) {
+    const keys = new Map(l.exits.map((e) => [e, keyOf(e)]));
+    hit = [...l.exits].sort((u, v) => keys.get(u)!.localeCompare(keys.get(v)!));
+    sortedCache.set(l, hit);
+  }
+  return hit;
 }
 
 /** Index of the exit whose saddle is nearest `saddle` (max norm) among those not in `used`; -1 when none. */

@@ -1,4 +1,5 @@
 import type { CompiledSystem } from '../model/compiled-system';
+import type { Equilibrium } from './equilibria-at';
 import { eigenvalues } from '../numerics/index';
 import { allFinite, normInf } from '../numerics/vector';
 import { FlatLu } from '../numerics/flat-lu';
@@ -111,6 +112,27 @@ export function luWorkspace(n: number): FlatLu {
   let w = workspaces.get(n);
   if (!w) workspaces.set(n, (w = new FlatLu(n)));
   return w;
+}
+
+/**
+ * dx/dp = -J_x^{-1} F_p at an equilibrium (implicit function theorem), cached by equilibrium: the
+ * tangent predictor of the continuation and the exits' progress slopes need the same vector, and in
+ * the bisections the same labelled point is the nearest source of many later ones. `p` must be the
+ * equilibrium's own parameter value. Null when J_x is singular.
+ */
+const tangents = new WeakMap<Equilibrium, Float64Array | null>();
+export function tangentOf(system: CompiledSystem, e: Equilibrium, p: number): Float64Array | null {
+  let dx = tangents.get(e);
+  if (dx === undefined) {
+    const n = system.dimension;
+    const x0 = Float64Array.from(e.x);
+    const jac = system.jacobian(x0, p, new Float64Array(n * n));
+    const fp = system.parameterDerivative(x0, p, new Float64Array(n));
+    for (let i = 0; i < n; i++) fp[i] = -fp[i];
+    dx = solveLinear(jac, n, fp);
+    tangents.set(e, dx);
+  }
+  return dx;
 }
 
 /** Solves J z = b by FlatLu (LU with partial pivoting in one Float64Array); null when singular. */

@@ -6,16 +6,19 @@ import type { RegimeOptions } from './options';
 import { isIndexOneSaddle, sameState, type Equilibrium } from './equilibria-at';
 import { branchTargets, followBranch, type GraphSettings, type IntegrationBudget, type ManifoldBranch } from './escape-graph';
 import { isAll, progressOf } from './pattern';
-import { solveLinear } from './linear-algebra';
+import { solveLinear, tangentOf } from './linear-algebra';
 import { fmt } from './element-roles';
 
-/** d progress_i / dp at an equilibrium: dx/dp = -J_x^{-1} F_p, divided by the frame's threshold - base. */
-export function progressSlope(system: CompiledSystem, x: readonly number[], p: number, frameRoles: readonly NodeRoles[], mirrored: boolean): number[] | null {
+/** d progress_i / dp at an equilibrium: dx/dp = -J_x^{-1} F_p (or the given `tangent`, tangentOf), divided by the frame's threshold - base. */
+export function progressSlope(system: CompiledSystem, x: readonly number[], p: number, frameRoles: readonly NodeRoles[], mirrored: boolean, tangent?: Float64Array | null): number[] | null {
   const n = system.dimension;
-  const xf = Float64Array.from(x);
-  const jac = system.jacobian(xf, p, new Float64Array(n * n));
-  const fp = system.parameterDerivative(xf, p, new Float64Array(n));
-  const dx = solveLinear(jac, n, Array.from(fp, (v) => -v));
+  let dx = tangent;
+  if (dx === undefined) {
+    const xf = Float64Array.from(x);
+    const jac = system.jacobian(xf, p, new Float64Array(n * n));
+    const fp = system.parameterDerivative(xf, p, new Float64Array(n));
+    dx = solveLinear(jac, n, Array.from(fp, (v) => -v));
+  }
   if (!dx) return null;
   const out: number[] = [];
   for (let i = 0; i < n; i++) {
@@ -299,7 +302,7 @@ export function startExits(
       if (destination[i] !== level) tipping.push(i);
     }
     exits.push({ saddle: xs.slice(), destination: destination.slice(), progress, engaged, tipping, travelTimes: [toStart.time, other.time],
-      slope: progressSlope(system, xs, p, frameRoles, recovery) });
+      slope: progressSlope(system, xs, p, frameRoles, recovery, tangentOf(system, saddle, p)) });
   }
   return { start: s0, states: targets.states, exits, unresolvedExits, unresolvedSaddles, skipped, integrations, decided, orderMismatches,
     discovered: targets.states.length - knownStates, truncated };
