@@ -1,7 +1,8 @@
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
 import type { CompiledSystem } from '../model/compiled-system.js';
-import { DenseLu } from './dense-lu.js';
-import { allFinite, dot, norm2, normInf } from './vector.js';
+import type { DenseLu } from './dense-lu.js';
+import { correctExtended, ExtendedWorkspace, extendedTangent, type ExtendedSystem } from './extended-system.js';
+import { allFinite } from './vector.js';
 
 /*
  * Points on a branch are y = (x_1..x_n, p) in R^(n+1); H(y) = F(x, p). DH = [J_x | F_p] is n x (n+1).
@@ -29,6 +30,59 @@ export class BorderedWorkspace {
     this.step = new Float64Array(n + 1);
     this.unit = new Float64Array(n + 1);
     this.unit[n] = 1;
+    this.ext = new ExtendedWorkspace(n + 1);
+  }
+
+  /** Workspace of the (n+1) x (n+1) bordered problem for the shared corrector and tangent (extended-system.ts). */
+  readonly ext: ExtendedWorkspace;
+  private eqSystem: CompiledSystem | null = null;
+  private eq: EquilibriumEquations | null = null;
+
+  /** H(y) = F(x, p) of `system` as an extended system on this workspace (one object per system, reused). */
+  equationsOf(system: CompiledSystem): EquilibriumEquations {
+    if (this.eqSystem !== system || this.eq === null) {
+      this.eq = new EquilibriumEquations(system, this);
+      this.eqSystem = system;
+    }
+    return this.eq;
+  }
+}
+
+/**
+ * Equilibria H(y) = F(x, p) = 0, y = (x, p), as an extended system (extended-system.ts): G = F,
+ * DG = [J_x | F_p] (the first n rows of the bordered matrix, as borderedMatrix writes them). It uses
+ * the workspace's x, jx, fp. numerics/pseudo-arclength.ts adds the point data (EquilibriumBranch).
+ */
+export class EquilibriumEquations implements ExtendedSystem {
+  readonly size: number;
+  readonly parameterIndex: readonly number[];
+  readonly stateIndex: readonly number[];
+
+  constructor(readonly system: CompiledSystem, protected readonly ws: BorderedWorkspace) {
+    const n = system.dimension;
+    this.size = n + 1;
+    this.parameterIndex = [n];
+    this.stateIndex = Array.from({ length: n }, (_, i) => i);
+  }
+
+  residual(y: Float64Array, out: Float64Array): void {
+    const { ws } = this;
+    for (let i = 0; i < ws.n; i++) ws.x[i] = y[i];
+    this.system.rates(ws.x, y[ws.n], out);
+  }
+
+  jacobian(y: Float64Array, out: Float64Array): void {
+    const { ws } = this;
+    const n = ws.n;
+    const m = n + 1;
+    for (let i = 0; i < n; i++) ws.x[i] = y[i];
+    const p = y[n];
+    this.system.jacobian(ws.x, p, ws.jx);
+    this.system.parameterDerivative(ws.x, p, ws.fp);
+    for (let i = 0; i < n; i++) {
+      for (let k = 0; k < n; k++) out[i * m + k] = ws.jx[i * n + k];
+      out[i * m + n] = ws.fp[i];
+    }
   }
 }
 
@@ -67,19 +121,10 @@ export interface TangentResult {
  * normalized, oriented so that t . v > 0 (Keller 1977; Allgower & Georg, Numerical Continuation
  * Methods, §2.1). The border v is normally the previous tangent. Also returns det [DH; t^T], via the
  * identity det [DH; w^T] = w . c with c the (null-vector) cofactor column, so det[DH; t^T] =
- * det[DH; v^T] / (t . v) when |t| = 1.
+ * det[DH; v^T] / (t . v) when |t| = 1. The one tangent routine, extendedTangent (extended-system.ts), on EquilibriumEquations.
  */
 export function tangentAt(system: CompiledSystem, y: Float64Array, v: ArrayLike<number>, ws: BorderedWorkspace, lu?: DenseLu): TangentResult {
-  const m = ws.n + 1;
-  const fac = lu ?? new DenseLu(borderedMatrix(system, y, v, ws), m);
-  // e_{n+1} from the workspace (never written), z into the workspace's step vector.
-  const z = ws.step;
-  if (!fac.solveInto(ws.unit, z)) return { ok: false, tangent: new Float64Array(m), determinant: fac.determinant };
-  const nz = norm2(z);
-  const t = new Float64Array(m);
-  for (let i = 0; i < m; i++) t[i] = z[i] / nz;
-  const tv = dot(t, v);
-  return { ok: tv > 0, tangent: t, determinant: fac.determinant / tv };
+  return extendedTangent(ws.equationsOf(system), y, v, ws.ext, lu);
 }
 
 export interface NullSpaceResult {
@@ -150,7 +195,8 @@ export interface CorrectorResult {
  * Newton's method on the (n+1) x (n+1) extended system
  *   F(x, p) = 0,   v . y = c
  * (the Keller pseudo-arclength corrector when v is the tangent and c = v . (y_prev + h v)),
- * Jacobian [DH; v^T] factorized by DenseLu (ml-matrix's LU algorithm, bit-identical) at every iterate (Keller 1977; Allgower & Georg §2.2).
+ * Jacobian [DH; v^T] factorized by DenseLu (ml-matrix's LU algorithm, bit-identical) at every iterate (Keller 1977; Allgower & Georg §2.2):
+ * the one corrector, correctExtended (extended-system.ts), on EquilibriumEquations.
  * Never throws; a singular matrix, non-finite values, displacement beyond maxDisplacement or the
  * iteration cap return converged = false.
  */
@@ -163,41 +209,15 @@ export function correct(
   options: Partial<CorrectorOptions> = {},
 ): CorrectorResult {
   const o = { ...defaultCorrectorOptions, ...options };
-  if (options.earlyStepTolerance === undefined) o.earlyStepTolerance = o.stepTolerance;
-  const n = ws.n;
-  const m = n + 1;
-  const y = Float64Array.from(guess);
-  const rhs = new Float64Array(m);
-  let lu: DenseLu | null = null;
-  let residual = Number.NaN;
-  for (let it = 1; it <= o.maxIterations; it++) {
-    const f = evalRates(system, y, ws);
-    for (let i = 0; i < n; i++) rhs[i] = -f[i];
-    rhs[n] = c - dot(v, y);
-    residual = normInf(f);
-    if (!Number.isFinite(residual) || !Number.isFinite(rhs[n])) return { converged: false, iterations: it, residual, y, lu: null };
-    lu = new DenseLu(borderedMatrix(system, y, v, ws), m);
-    const d = ws.step;
-    if (!lu.solveInto(rhs, d)) return { converged: false, iterations: it, residual, y, lu: null };
-    for (let i = 0; i < m; i++) y[i] += d[i];
-    const step = normInf(d);
-    if (o.maxDisplacement < Number.POSITIVE_INFINITY) {
-      let disp = 0;
-      for (let i = 0; i < m; i++) disp = Math.max(disp, Math.abs(y[i] - guess[i]));
-      if (disp > o.maxDisplacement) return { converged: false, iterations: it, residual, y, lu: null };
-    }
-    const scale = 1 + normInf(y);
-    if (step <= o.earlyStepTolerance * scale) {
-      // Newton converges quadratically here, so after a step of size delta the error is O(delta^2):
-      // a small residual after a step <= earlyStepTolerance (default 1e-6) already gives y to about
-      // 1e-12 without another factorization (Deuflhard, Newton Methods for Nonlinear Problems, §2.1).
-      residual = normInf(evalRates(system, y, ws));
-      if (residual <= o.residualTolerance && (step <= o.stepTolerance * scale || o.earlyStepTolerance > o.stepTolerance)) {
-        return { converged: true, iterations: it, residual, y, lu };
-      }
-      if (!Number.isFinite(residual)) return { converged: false, iterations: it, residual, y, lu: null };
-    }
-  }
-  residual = normInf(evalRates(system, y, ws));
-  return { converged: false, iterations: o.maxIterations, residual, y, lu };
+  // Without earlyStepTolerance the early acceptance is off (= stepTolerance); with it, a small residual
+  // after a step <= earlyStepTolerance (1 + |y|) is accepted: Newton converges quadratically there, so
+  // the error is O(step^2) (Deuflhard, Newton Methods for Nonlinear Problems, §2.1).
+  const early = options.earlyStepTolerance === undefined ? o.stepTolerance : o.earlyStepTolerance;
+  return correctExtended(ws.equationsOf(system), guess, v, c, {
+    residualTolerance: o.residualTolerance,
+    stepTolerance: o.stepTolerance,
+    maxIterations: o.maxIterations,
+    earlyStepTolerance: early,
+    maxDisplacement: o.maxDisplacement,
+  }, ws.ext);
 }

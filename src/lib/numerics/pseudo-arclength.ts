@@ -1,5 +1,5 @@
 import type { CompiledSystem } from '../model/compiled-system.js';
-import { BorderedWorkspace } from './bordered.js';
+import { BorderedWorkspace, EquilibriumEquations } from './bordered.js';
 import { pointData, type TracedPoint } from './branch-point-data.js';
 import { continueCurve } from './continue-curve.js';
 import type { ExtendedSystem } from './extended-system.js';
@@ -44,42 +44,13 @@ export interface ContinuationResult {
 }
 
 /**
- * Equilibrium branches H(y) = F(x, p) = 0, y = (x, p) in R^(n+1), as an extended system: DH = [J_x | F_p],
- * and at every point the eigenvalues of J_x with the stability and Hopf test values (pointData).
+ * Equilibrium branches H(y) = F(x, p) = 0, y = (x, p) in R^(n+1), as an extended system
+ * (EquilibriumEquations of bordered.ts: DH = [J_x | F_p]) with, at every point, the eigenvalues of J_x
+ * and the stability and Hopf test values (pointData).
  */
-export class EquilibriumBranch implements ExtendedSystem<TracedPoint> {
-  readonly size: number;
-  readonly parameterIndex: readonly number[];
-  readonly stateIndex: readonly number[];
-  private readonly ws: BorderedWorkspace;
-
-  constructor(readonly system: CompiledSystem) {
-    const n = system.dimension;
-    this.size = n + 1;
-    this.parameterIndex = [n];
-    this.stateIndex = Array.from({ length: n }, (_, i) => i);
-    this.ws = new BorderedWorkspace(n);
-  }
-
-  residual(y: Float64Array, out: Float64Array): void {
-    const { ws } = this;
-    for (let i = 0; i < ws.n; i++) ws.x[i] = y[i];
-    this.system.rates(ws.x, y[ws.n], out);
-  }
-
-  /** [J_x | F_p] into the first n rows of the (n+1)-column bordered matrix, as numerics/bordered.ts borderedMatrix. */
-  jacobian(y: Float64Array, out: Float64Array): void {
-    const { ws } = this;
-    const n = ws.n;
-    const m = n + 1;
-    for (let i = 0; i < n; i++) ws.x[i] = y[i];
-    const p = y[n];
-    this.system.jacobian(ws.x, p, ws.jx);
-    this.system.parameterDerivative(ws.x, p, ws.fp);
-    for (let i = 0; i < n; i++) {
-      for (let k = 0; k < n; k++) out[i * m + k] = ws.jx[i * n + k];
-      out[i * m + n] = ws.fp[i];
-    }
+export class EquilibriumBranch extends EquilibriumEquations implements ExtendedSystem<TracedPoint> {
+  constructor(system: CompiledSystem, ws: BorderedWorkspace = new BorderedWorkspace(system.dimension)) {
+    super(system, ws);
   }
 
   point(y: Float64Array, t: Float64Array, det: number): TracedPoint {
