@@ -195,9 +195,11 @@ describe('a map run in the browser', () => {
     await svg.scrollIntoViewIfNeeded();
     const line = (await svg.locator(`path[data-layer=slice][data-value="${sliceValue}"]`).boundingBox())!;
     await p.mouse.click(line.x + line.width * 0.4, line.y + line.height / 2);
-    const box = (await svg.boundingBox())!;
     await expect.poll(() => p.getByTestId('map-slice-panel').getAttribute('data-run'), { timeout: 20_000 }).toBe(String(sliceRunId));
     await p.getByTestId('map-slice-panel').getByRole('button', { name: 'Close' }).click();
+    // (Clicking Close may have scrolled the page.)
+    await svg.scrollIntoViewIfNeeded();
+    const box = (await svg.boundingBox())!;
     await p.mouse.click(box.x + box.width * 0.2, box.y + box.height * 0.12);
     await expect.poll(() => p.getByTestId('map-slice-missing').count(), { timeout: 20_000 }).toBe(1);
     const before = (await (await p.request.get(`${BASE_URL}/api/runs/${mapRunId}/slices`)).json()).slices.length;

@@ -41,7 +41,9 @@ function mapRun(c: MatrixContext): Promise<Vars> {
     const run = await startRun(c.a.workspaceId, c.a.modeler.user!.id, { modelId: Number(modelId), kind: 'map', notify: false, queue: 'matrix-idle', settings: { ...MATRIX_MAP_SETTINGS, maxPointsPerCurve: 400, maxCurves: 8 } });
     const row = await db('runs as r').join('model_versions as v', 'v.id', 'r.model_version_id').where('r.id', run.id).first('r.cache_key', 'r.settings', 'v.document');
     const out = computeMap(row.document, typeof row.settings === 'string' ? JSON.parse(row.settings) : row.settings, { onProgress: () => undefined, isCancelled: () => false });
-    const [id] = await db('map_results').insert({ cache_key: row.cache_key, ...mapResultRow(out) });
+    // Another test file importing these rows (write-routes-property) may have stored the same map already.
+    const stored = await db('map_results').where({ cache_key: row.cache_key }).first('id');
+    const id = stored ? stored.id : (await db('map_results').insert({ cache_key: row.cache_key, ...mapResultRow(out) }))[0];
     await db('runs').where({ id: run.id }).update({ status: 'done', progress: 1, map_result_id: id, finished_at: db.raw('NOW(3)') });
     return { modelId, runId: String(run.id) };
   })();

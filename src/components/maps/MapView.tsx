@@ -129,7 +129,17 @@ export default function MapView(props: MapViewProps) {
     setSlice((old) => (old && old.id === u.id ? { ...old, ...u } : old));
     setSlices((old) => old.map((x) => (x.id === u.id ? { ...x, status: u.status, progress: u.progress, phrase: u.phrase } : x)));
   }, []);
-  const valueAt = (q: { x: number; y: number }) => (fig && map ? snapSecond(pixelToParameters(fig, q.x, q.y)[1], map.ranges.second) : Number.NaN);
+  // The value of the second parameter at a figure point: a slice's own value within 4 px of its line (a click on
+  // the line opens that slice again), else the crosshair's value rounded (snapSecond).
+  const valueAt = (q: { x: number; y: number }) => {
+    if (!fig || !map) return Number.NaN;
+    let best: number | null = null, bestDistance = 4;
+    for (const x of slices) {
+      const d = Math.abs(fig.yAxis.map(x.value) - q.y);
+      if (d <= bestDistance) { best = x.value; bestDistance = d; }
+    }
+    return best ?? snapSecond(pixelToParameters(fig, q.x, q.y)[1], map.ranges.second);
+  };
   // Keyboard crosshair: the map itself is focusable; arrows move it (Shift: ten times as far), Enter opens the slice.
   const onKey = (e: React.KeyboardEvent<SVGSVGElement>) => {
     if (!fig || e.target !== e.currentTarget) return;
