@@ -5,6 +5,7 @@ import { distInf, normInf } from '../numerics/vector.js';
 import type { Diagnostic } from './types.js';
 import type { ResolvedTraceSettings } from './trace-settings.js';
 import { patternCount, patternSpace, selectRestricted, type RestrictedCounts } from './start-selection.js';
+import { firstPrimes, halton } from './interior-seeds.js';
 
 /** How the combinations of element equilibria were restricted (absent: all were used). */
 export interface StartRestriction {
@@ -178,25 +179,6 @@ class DuplicateIndex {
     if (list) list.push(x);
     else this.buckets.set(c, [x]);
   }
-}
-
-/** k-th element of the van der Corput sequence in base b (Halton 1960), in (0, 1). */
-function halton(k: number, b: number): number {
-  let f = 1;
-  let r = 0;
-  let i = k;
-  while (i > 0) {
-    f /= b;
-    r += f * (i % b);
-    i = Math.floor(i / b);
-  }
-  return r;
-}
-
-function firstPrimes(count: number): number[] {
-  const out: number[] = [];
-  for (let c = 2; out.length < count; c++) if (out.every((q) => c % q !== 0)) out.push(c);
-  return out;
 }
 
 /**

@@ -22,6 +22,8 @@ export interface TraceBlock {
   readonly starts: Float64Array[];
   /** Restricted starts only: near-uniform states at settings.to. */
   readonly farEnd: Float64Array[];
+  /** The seed block only (interior-seeds.ts): equilibria inside the sweep, each y = [x, p]. */
+  readonly seeds?: Float64Array[];
 }
 
 /** A special point as one block's registry holds it, with the block's own branch ids. */

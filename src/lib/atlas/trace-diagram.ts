@@ -12,6 +12,7 @@ import { SpecialPointRegistry, type SpecialPointDraft } from './special-point-re
 import { findStartingEquilibria, formatCount, type StartRestriction } from './starting-equilibria.js';
 import { growthRound } from './start-growth.js';
 import { blockCount, mergeBlocks, type BlockResult, type TraceBlock } from './trace-blocks.js';
+import { interiorSeeds, untracedSeeds } from './interior-seeds.js';
 import { defaultTraceSettings, type ResolvedTraceSettings, type TraceSettings } from './trace-settings.js';
 import type { Branch, BranchEnd, BranchPoint, Diagnostic, Diagram, StartCoverage } from './types.js';
 
@@ -23,7 +24,7 @@ export interface TraceHooks {
 }
 
 type Task =
-  | { kind: 'start'; y: Float64Array }
+  | { kind: 'start'; y: Float64Array; seed?: true }
   | { kind: 'switch'; from: string; draft: SpecialPointDraft; yStar: Float64Array; across: Float64Array; plus: Float64Array | null; minus: Float64Array | null; plusT: Float64Array | null; minusT: Float64Array | null; plusDet: number; minusDet: number };
 
 interface Insert {
@@ -43,7 +44,7 @@ export function traceDiagram(system: CompiledSystem, settings: Partial<TraceSett
   if (plan.diagram) return plan.diagram;
   const progress = blockProgress(plan, hooks);
   const results = plan.blocks.map((b) => traceBlock(system, b, { onProgress: (f, phrase) => progress(b.index, f, phrase), isCancelled: hooks.isCancelled }, plan.growth));
-  return finishTrace(system, plan, results, hooks);
+  return finishTrace(system, plan, withSeedBlock(system, plan, results, hooks), hooks);
 }
 
 /**
@@ -59,7 +60,30 @@ export async function traceDiagramWith(system: CompiledSystem, settings: Partial
   const results = plan.blocks.length === 1
     ? [traceBlock(system, plan.blocks[0], { onProgress: (f, phrase) => progress(0, f, phrase), isCancelled: hooks.isCancelled }, plan.growth)]
     : await runner(plan.blocks, { onProgress: progress, isCancelled: hooks.isCancelled });
-  return finishTrace(system, plan, results, hooks);
+  return finishTrace(system, plan, withSeedBlock(system, plan, results, hooks), hooks);
+}
+
+/**
+ * The blocks' results plus, when interior seeds (interior-seeds.ts) found equilibria that no traced
+ * branch passes through, one more block traced from them in this thread, last, so that mergeBlocks
+ * cuts its branches where they run onto the others. The seeds and the filter depend only on the
+ * blocks' results, so the diagram stays the same for any thread count.
+ */
+function withSeedBlock(system: CompiledSystem, plan: TracePlan, results: BlockResult[], hooks: TraceHooks): BlockResult[] {
+  const { s } = plan;
+  // Restricted starts choose the branches that matter for cascades on purpose (docs/numerics.md §12);
+  // random seeds there land on arbitrary patterns of a huge space (measured: 52 more branches and
+  // 12x the time on a 64-node chain), so seeds complete full enumerations only.
+  if (plan.growth || s.interiorSeedValues <= 0 || results.some((r) => r.cancelled || r.branchCapHit) || hooks.isCancelled?.()) return results;
+  const maxStep = s.maxStep * plan.blocks[0].arcScale;
+  // Seeds count against maxStartingPoints like every start.
+  const room = s.maxStartingPoints - plan.blocks.reduce((q, b) => q + b.starts.length + b.farEnd.length, 0);
+  if (room <= 0) return results;
+  const seeds = untracedSeeds(system, interiorSeeds(system, s), results.flatMap((r) => r.branches), { cellWidth: Math.max(s.maxParameterStep * Math.abs(s.to - s.from), 1e-12), maxStep }).slice(0, room);
+  if (seeds.length === 0) return results;
+  const block: TraceBlock = { index: results.length, of: results.length + 1, settings: s, arcScale: plan.blocks[0].arcScale, starts: [], farEnd: [], seeds };
+  const r = traceBlock(system, block, { isCancelled: hooks.isCancelled });
+  return [...results, { ...r, diagnostics: [{ level: 'info', code: 'interior-seeds', message: `${seeds.length} equilibri${seeds.length === 1 ? 'um' : 'a'} found by multi-start Newton inside the sweep ${seeds.length === 1 ? 'lies' : 'lie'} on no branch through the starting equilibria; ${r.branches.length} branch${r.branches.length === 1 ? '' : 'es'} through them ${r.branches.length === 1 ? 'was' : 'were'} traced too (${system.parameter} = ${[...new Set(seeds.map((y) => fmt([y[system.dimension]])))].join(', ')})` }, ...r.diagnostics] }];
 }
 
 /** Runs the given blocks (traceBlock on each, anywhere) and returns their results in block order. */
@@ -135,7 +159,7 @@ function finishTrace(system: CompiledSystem, plan: TracePlan, results: readonly 
   const maxStep = s.maxStep * plan.blocks[0].arcScale;
   const merged = mergeBlocks(results, { n, cellWidth: Math.max(s.maxParameterStep * Math.abs(s.to - s.from), 1e-12), maxStep, maxBranches: s.maxBranches });
   const diagnostics = [...plan.diagnostics, ...merged.diagnostics];
-  const coverage = results.length === 1 ? results[0].coverage : undefined;
+  const coverage = plan.growth ? results[0].coverage : undefined;
   if (coverage) diagnostics.push({ level: 'info', code: 'start-coverage', message: coverage.text });
   const neutralSaddles = results.reduce((q, r) => q + r.neutralSaddles, 0);
   if (neutralSaddles > 0) {
@@ -220,6 +244,8 @@ export function traceBlock(system: CompiledSystem, block: TraceBlock, hooks: Tra
     y[n] = s.to;
     tasks.push({ kind: 'start', y });
   }
+  // Interior seeds (the seed block of withSeedBlock): equilibria inside the sweep, y = [x, p].
+  for (const y of block.seeds ?? []) tasks.push({ kind: 'start', y: Float64Array.from(y), seed: true });
   const farEndCount = block.farEnd.length;
   let done = 0;
   let pointsSinceProgress = 0;
@@ -472,6 +498,11 @@ export function traceBlock(system: CompiledSystem, block: TraceBlock, hooks: Tra
           if (v[n] * dir < 0 || (v[n] === 0 && false)) v = v.map((q) => -q);
           const tan = tangentAt(system, task.y, v, ws);
           const t0 = tan.ok ? tan.tangent : v;
+          // A seed inside the sweep lies between the points of a branch traced from another seed.
+          if (task.seed && index.findParallel(task.y, t0, 1e-7 * (1 + normInf(task.y)) + 0.05 * copts.maxStep, () => false)) {
+            done++;
+            continue;
+          }
           const sp = pointData(system, task.y, t0, tan.determinant, ws);
           if (nearZeroCount(sp.spectrum, 1e-9) > 0) {
             diagnostics.push({ level: 'info', code: 'singular-start', message: `J_x is singular at the starting equilibrium x = [${fmt(task.y.subarray(0, n))}] (a special point sits on the sweep bound; it is not reported)`, p: s.from });
@@ -701,6 +732,7 @@ function checkSettings(s: ResolvedTraceSettings): string | null {
   if (!Number.isInteger(s.startBudget) || s.startBudget < 2) return 'settings.startBudget must be an integer of at least 2';
   if (!Number.isInteger(s.growthIntegrations) || s.growthIntegrations < 0) return 'settings.growthIntegrations must be a non-negative integer';
   if (!Number.isInteger(s.growthValues) || s.growthValues < 0) return 'settings.growthValues must be a non-negative integer';
+  if (!Number.isInteger(s.interiorSeedValues) || s.interiorSeedValues < 0 || s.interiorSeedValues > 64) return 'settings.interiorSeedValues must be an integer from 0 to 64';
   if (s.traceBlocks !== 'auto' && !(Number.isInteger(s.traceBlocks) && s.traceBlocks >= 1 && s.traceBlocks <= 1024)) return "settings.traceBlocks must be 'auto' or an integer from 1 to 1024";
   return null;
 }

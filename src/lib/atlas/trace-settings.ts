@@ -73,6 +73,12 @@ export interface TraceSettings {
    * asks for that many (at most one per start). Restricted starts are always one block.
    */
   traceBlocks: 'auto' | number;
+  /**
+   * Parameter values (the far end and values evenly inside the sweep) at which multi-start Newton
+   * looks for equilibria on branches that do not reach the sweep's start, traced after the blocks
+   * (interior-seeds.ts; default 4; 0 turns it off).
+   */
+  interiorSeedValues: number;
 }
 
 export const defaultTraceSettings: Readonly<Required<Omit<TraceSettings, 'from' | 'to'>>> = Object.freeze({
@@ -102,6 +108,7 @@ export const defaultTraceSettings: Readonly<Required<Omit<TraceSettings, 'from' 
   switchStep: 1e-3,
   storeEigenvalues: false,
   traceBlocks: 'auto',
+  interiorSeedValues: 4,
 });
 
 export type ResolvedTraceSettings = Required<TraceSettings>;
@@ -117,4 +124,5 @@ export const startSelectionSettingsSchema = z.object({
   startBudget: z.number().int('must be a whole number').min(2, 'at least 2').max(100_000, 'at most 100000').optional(),
   growthIntegrations: z.number().int('must be a whole number').min(0, 'at least 0').max(1_000_000, 'at most 1000000').optional(),
   growthValues: z.number().int('must be a whole number').min(0, 'at least 0').max(1000, 'at most 1000').optional(),
+  interiorSeedValues: z.number().int('must be a whole number').min(0, 'at least 0').max(64, 'at most 64').optional(),
 }).strict();
