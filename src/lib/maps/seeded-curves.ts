@@ -56,6 +56,35 @@ function noteEnd(end: MapCurveEnd, id: string, diagnostics: Diagnostic[]): void 
   diagnostics.push({ level: 'warning', code: end, message: `curve ${id} ended early (${end}); it may continue beyond the last point shown` });
 }
 
+/** The curve as stored in the map (points in (a, b) with their states), its ends noted as diagnostics. */
+function asMapCurve(
+  id: string, type: MapCurve['type'], ys: readonly Float64Array[], ends: [MapCurveEnd, MapCurveEnd], pointOf: (y: Float64Array) => MapCurve['points'][number],
+  seed: { sp: SpecialPoint; b: number; swept: 'first' | 'second' }, diagnostics: Diagnostic[],
+): MapCurve {
+  for (const end of ends) noteEnd(end, id, diagnostics);
+  return { id, type, points: ys.map(pointOf), ends, seed: { second: seed.b, p: seed.sp.p, x: [...seed.sp.x], swept: seed.swept } };
+}
+
+/**
+ * Sign changes of a test function along a curve (values at its points), each located by
+ * locateOnChord after rebasing the system on the first point; `found` turns a hit into a map point.
+ */
+function locateSignChanges(
+  ext: ExtendedSystem & { rebase(y: Float64Array): boolean }, ys: readonly Float64Array[], values: readonly number[], test: (y: Float64Array) => number,
+  found: (hit: { y: Float64Array; value: number; converged: boolean }, i: number) => Omit<MapPoint, 'id'>, failed: string, out: Omit<MapPoint, 'id'>[], diagnostics: Diagnostic[],
+): void {
+  for (let i = 0; i + 1 < ys.length; i++) {
+    if (!(Number.isFinite(values[i]) && Number.isFinite(values[i + 1])) || values[i] === 0 || Math.sign(values[i]) === Math.sign(values[i + 1])) continue;
+    ext.rebase(ys[i]);
+    const hit = locateOnChord(ext, ys[i], ys[i + 1], values[i], values[i + 1], test);
+    if (!hit) {
+      diagnostics.push({ level: 'warning', code: 'locate-failed', message: failed });
+      continue;
+    }
+    out.push(found(hit, i));
+  }
+}
+
 /** Polish a seed on an extended system with the parameter its diagram did not sweep fixed, then its tangent; null (with a diagnostic) when singular. */
 function startOn(
   ext: ExtendedSystem, y0: Float64Array, b: number, swept: 'first' | 'second', what: string, diagnostics: Diagnostic[], sp: SpecialPoint, sys: TwoParameterSystem,
@@ -103,14 +132,7 @@ export function saddleNodeCurve(
   const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled });
   const id = `sn${index + 1}`;
   const ys = pts.map((p) => p.y);
-  const curve: MapCurve = {
-    id,
-    type: 'saddle-node',
-    points: ys.map((y) => ({ p: [y[2 * n], y[2 * n + 1]], x: Array.from(y.subarray(0, n)) })),
-    ends,
-    seed: { second: b, p: sp.p, x: [...sp.x], swept },
-  };
-  for (const end of ends) noteEnd(end, id, diagnostics);
+  const curve = asMapCurve(id, 'saddle-node', ys, ends, (y) => ({ p: [y[2 * n], y[2 * n + 1]], x: Array.from(y.subarray(0, n)) }), { sp, b, swept }, diagnostics);
   return { traced: { curve, ys }, found: foldPoints(ext, ys, id, diagnostics) };
 }
 
@@ -243,14 +265,7 @@ export function hopfCurve(
       diagnostics.push({ level: 'warning', code: 'locate-failed', message: `curve ${id}: ω² changes sign at its end but the Bogdanov–Takens point could not be computed; not reported` });
     }
   }
-  const curve: MapCurve = {
-    id,
-    type: 'hopf',
-    points: ys.map((y) => ({ p: [y[2 * n + 1], y[2 * n + 2]], x: Array.from(y.subarray(0, n)), frequency: Math.sqrt(Math.max(0, y[2 * n])) })),
-    ends,
-    seed: { second: b, p: sp.p, x: [...sp.x], swept },
-  };
-  for (const end of ends) noteEnd(end, id, diagnostics);
+  const curve = asMapCurve(id, 'hopf', ys, ends, (y) => ({ p: [y[2 * n + 1], y[2 * n + 2]], x: Array.from(y.subarray(0, n)), frequency: Math.sqrt(Math.max(0, y[2 * n])) }), { sp, b, swept }, diagnostics);
   return { traced: { curve, ys }, found };
 }
 
@@ -278,52 +293,27 @@ export function branchPointCurve(
   const { pts, ends } = bothWays(ext, start.y, start.t, o, { isCancelled });
   const id = `bp${index + 1}`;
   const ys = pts.map((p) => p.y);
-  const curve: MapCurve = {
-    id,
-    type: 'pitchfork',
-    points: ys.map((y) => ({ p: [y[N - 2], y[N - 1]], x: Array.from(ext.stateOf(y)) })),
-    ends,
-    seed: { second: b, p: sp.p, x: [...sp.x], swept },
-  };
-  for (const end of ends) noteEnd(end, id, diagnostics);
+  const curve = asMapCurve(id, 'pitchfork', ys, ends, (y) => ({ p: [y[N - 2], y[N - 1]], x: Array.from(ext.stateOf(y)) }), { sp, b, swept }, diagnostics);
   // Where a saddle-node curve of the symmetric branch meets this curve: det of J on Fix changes sign.
   const found: Omit<MapPoint, 'id'>[] = [];
   const dets = ys.map((y) => ext.symmetricDeterminant(y));
-  for (let i = 0; i + 1 < ys.length; i++) {
-    if (!(Number.isFinite(dets[i]) && Number.isFinite(dets[i + 1])) || dets[i] === 0 || Math.sign(dets[i]) === Math.sign(dets[i + 1])) continue;
-    ext.rebase(ys[i]);
-    const hit = locateOnChord(ext, ys[i], ys[i + 1], dets[i], dets[i + 1], (y) => ext.symmetricDeterminant(y));
-    if (!hit) {
-      diagnostics.push({ level: 'warning', code: 'locate-failed', message: `curve ${id}: the symmetric block's determinant changes sign between two points but no point between them could be computed; not reported` });
-      continue;
-    }
-    found.push({
-      type: 'saddle-node-meets-pitchfork', p: [hit.y[N - 2], hit.y[N - 1]], x: Array.from(ext.stateOf(hit.y)), curves: [id],
-      evidence: {
-        reason: `the Jacobian restricted to the symmetric states changes the sign of its determinant along the pitchfork curve (${dets[i].toPrecision(3)} before, ${dets[i + 1].toPrecision(3)} after): the symmetric branch has a saddle-node here, so a saddle-node curve meets the pitchfork curve (a double zero eigenvalue, one symmetric and one antisymmetric null vector)`,
-        testFunction: 'det of J_x on the symmetric subspace',
-        before: dets[i], after: dets[i + 1], atPoint: hit.value, converged: hit.converged,
-      },
-    });
-  }
+  locateSignChanges(ext, ys, dets, (y) => ext.symmetricDeterminant(y), (hit, i) => ({
+    type: 'saddle-node-meets-pitchfork', p: [hit.y[N - 2], hit.y[N - 1]], x: Array.from(ext.stateOf(hit.y)), curves: [id],
+    evidence: {
+      reason: `the Jacobian restricted to the symmetric states changes the sign of its determinant along the pitchfork curve (${dets[i].toPrecision(3)} before, ${dets[i + 1].toPrecision(3)} after): the symmetric branch has a saddle-node here, so a saddle-node curve meets the pitchfork curve (a double zero eigenvalue, one symmetric and one antisymmetric null vector)`,
+      testFunction: 'det of J_x on the symmetric subspace',
+      before: dets[i], after: dets[i + 1], atPoint: hit.value, converged: hit.converged,
+    },
+  }), `curve ${id}: the symmetric block's determinant changes sign between two points but no point between them could be computed; not reported`, found, diagnostics);
   // Degenerate pitchfork: the cubic coefficient changes sign (a saddle-node curve of asymmetric states ends here).
   const cubic = ys.map((y) => ext.cubicCoefficient(y));
-  for (let i = 0; i + 1 < ys.length; i++) {
-    if (!(Number.isFinite(cubic[i]) && Number.isFinite(cubic[i + 1])) || cubic[i] === 0 || Math.sign(cubic[i]) === Math.sign(cubic[i + 1])) continue;
-    ext.rebase(ys[i]);
-    const hit = locateOnChord(ext, ys[i], ys[i + 1], cubic[i], cubic[i + 1], (y) => ext.cubicCoefficient(y));
-    if (!hit) {
-      diagnostics.push({ level: 'warning', code: 'locate-failed', message: `curve ${id}: the pitchfork's cubic coefficient changes sign between two points but no point between them could be computed; not reported` });
-      continue;
-    }
-    found.push({
-      type: 'degenerate-pitchfork', p: [hit.y[N - 2], hit.y[N - 1]], x: Array.from(ext.stateOf(hit.y)), curves: [id],
-      evidence: {
-        reason: `the pitchfork's cubic coefficient changes sign along the pitchfork curve (${cubic[i].toPrecision(3)} before, ${cubic[i + 1].toPrecision(3)} after): the asymmetric branches switch sides, and a saddle-node curve of asymmetric states ends on the pitchfork curve here`,
-        testFunction: 'c3 = p·C(v,v,v)/6 − p·B(v, J⁻¹B(v,v))/2 (J⁻¹ on the symmetric subspace, C by a central difference)',
-        before: cubic[i], after: cubic[i + 1], atPoint: hit.value, converged: hit.converged,
-      },
-    });
-  }
+  locateSignChanges(ext, ys, cubic, (y) => ext.cubicCoefficient(y), (hit, i) => ({
+    type: 'degenerate-pitchfork', p: [hit.y[N - 2], hit.y[N - 1]], x: Array.from(ext.stateOf(hit.y)), curves: [id],
+    evidence: {
+      reason: `the pitchfork's cubic coefficient changes sign along the pitchfork curve (${cubic[i].toPrecision(3)} before, ${cubic[i + 1].toPrecision(3)} after): the asymmetric branches switch sides, and a saddle-node curve of asymmetric states ends on the pitchfork curve here`,
+      testFunction: 'c3 = p·C(v,v,v)/6 − p·B(v, J⁻¹B(v,v))/2 (J⁻¹ on the symmetric subspace, C by a central difference)',
+      before: cubic[i], after: cubic[i + 1], atPoint: hit.value, converged: hit.converged,
+    },
+  }), `curve ${id}: the pitchfork's cubic coefficient changes sign between two points but no point between them could be computed; not reported`, found, diagnostics);
   return { traced: { curve, ys }, found };
 }
