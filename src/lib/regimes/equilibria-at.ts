@@ -1,6 +1,6 @@
 import type { CompiledSystem } from '../model/compiled-system';
 import type { Diagnostic, Diagram, Eigenvalue } from '../atlas/types';
-import { newtonAtFixedParameter, spectrum } from './linear-algebra';
+import { newtonAtFixedParameter, rememberJacobian, spectrum } from './linear-algebra';
 import { fmt } from './element-roles';
 import { rememberReference } from './saddle-update';
 
@@ -167,6 +167,7 @@ export function analyseEquilibrium(system: CompiledSystem, x: Float64Array, p: n
     }
   }
   const out: Equilibrium = { x: Array.from(x), residual, eigenvalues, unstable, neutral, unstableValue, unstableVector, branch };
+  rememberJacobian(out, jac);
   if (unstableValue !== undefined) {
     // The reference for continuing this saddle without a spectrum (saddle-update.ts).
     let rest = -Infinity;
@@ -203,13 +204,15 @@ export function certifiedStable(system: CompiledSystem, x: Float64Array, p: numb
   }
   if (!rows && !cols) return analyseEquilibrium(system, x, p, residual, tol, branch);
   let values: Eigenvalue[] | null = null;
-  return {
+  const out: Equilibrium = {
     x: Array.from(x), residual, unstable: 0, neutral: 0, branch,
     get eigenvalues() {
       if (!values) { const s = spectrum(jac, n); values = s.re.map((re, k) => ({ re, im: s.im[k] })); }
       return values;
     },
   };
+  rememberJacobian(out, jac);
+  return out;
 }
 
 /**

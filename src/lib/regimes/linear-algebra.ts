@@ -115,6 +115,26 @@ export function luWorkspace(n: number): FlatLu {
 }
 
 /**
+ * J_x at an equilibrium, by equilibrium: the spectrum (or its certificate, or the eigenpair update)
+ * evaluates it where the equilibrium is made, and the tangent, the progress slopes and the
+ * cooperativity check need the same matrix. `p` must be the equilibrium's own parameter value; the
+ * matrix must not be modified.
+ */
+const jacobians = new WeakMap<Equilibrium, Float64Array>();
+export function rememberJacobian(e: Equilibrium, jac: Float64Array): void {
+  jacobians.set(e, jac);
+}
+export function jacobianOf(system: CompiledSystem, e: Equilibrium, p: number): Float64Array {
+  let jac = jacobians.get(e);
+  if (!jac) {
+    const n = system.dimension;
+    jac = system.jacobian(Float64Array.from(e.x), p, new Float64Array(n * n));
+    jacobians.set(e, jac);
+  }
+  return jac;
+}
+
+/**
  * dx/dp = -J_x^{-1} F_p at an equilibrium (implicit function theorem), cached by equilibrium: the
  * tangent predictor of the continuation and the exits' progress slopes need the same vector, and in
  * the bisections the same labelled point is the nearest source of many later ones. `p` must be the
@@ -125,9 +145,8 @@ export function tangentOf(system: CompiledSystem, e: Equilibrium, p: number): Fl
   let dx = tangents.get(e);
   if (dx === undefined) {
     const n = system.dimension;
-    const x0 = Float64Array.from(e.x);
-    const jac = system.jacobian(x0, p, new Float64Array(n * n));
-    const fp = system.parameterDerivative(x0, p, new Float64Array(n));
+    const jac = jacobianOf(system, e, p);
+    const fp = system.parameterDerivative(Float64Array.from(e.x), p, new Float64Array(n));
     for (let i = 0; i < n; i++) fp[i] = -fp[i];
     dx = solveLinear(jac, n, fp);
     tangents.set(e, dx);

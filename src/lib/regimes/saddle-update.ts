@@ -1,7 +1,7 @@
 import type { CompiledSystem } from '../model/compiled-system';
 import type { Eigenvalue } from '../atlas/types';
 import type { Equilibrium } from './equilibria-at';
-import { luWorkspace, spectrum } from './linear-algebra';
+import { luWorkspace, rememberJacobian, spectrum } from './linear-algebra';
 
 /**
  * What the last full spectrum of an index-1 saddle said, carried along while the saddle is continued
@@ -104,7 +104,8 @@ function tryUpdate(system: CompiledSystem, x: Float64Array, p: number, residual:
   let y: Float64Array = Float64Array.from(v0);
   let rho = rayleigh(jac, n, y);
   const mu = rho + 1e-8 * Math.max(1, Math.abs(rho));
-  const shifted = Float64Array.from(jac);
+  const shifted = shiftedWork(n);
+  shifted.set(jac);
   for (let i = 0; i < n; i++) shifted[i * n + i] -= mu;
   lu.factor(shifted);
   const accuracy = 1e-12 * Math.max(1, Math.sqrt(j2));
@@ -130,6 +131,7 @@ function tryUpdate(system: CompiledSystem, x: Float64Array, p: number, residual:
   const unstableVector = Array.from(y, (c) => sign * c);
   const out = updated(x, residual, rho, unstableVector, previous.branch, jac, n);
   references.set(out, ref);
+  rememberJacobian(out, jac);
   return out;
 }
 
@@ -143,6 +145,13 @@ function updated(x: Float64Array, residual: number, value: number, vector: numbe
       return values;
     },
   };
+}
+
+const shiftedWorks = new Map<number, Float64Array>();
+function shiftedWork(n: number): Float64Array {
+  let w = shiftedWorks.get(n);
+  if (!w) shiftedWorks.set(n, (w = new Float64Array(n * n)));
+  return w;
 }
 
 /** yᵀ J y / yᵀ y. */

@@ -6,7 +6,7 @@ import type { RegimeOptions } from './options';
 import { isIndexOneSaddle, sameState, type Equilibrium } from './equilibria-at';
 import { branchTargets, followBranch, type GraphSettings, type IntegrationBudget, type ManifoldBranch } from './escape-graph';
 import { isAll, progressOf } from './pattern';
-import { solveLinear, tangentOf } from './linear-algebra';
+import { jacobianOf, solveLinear, tangentOf } from './linear-algebra';
 import { fmt } from './element-roles';
 
 /** d progress_i / dp at an equilibrium: dx/dp = -J_x^{-1} F_p (or the given `tangent`, tangentOf), divided by the frame's threshold - base. */
@@ -93,9 +93,8 @@ export interface StartExits {
  */
 export function looksCooperative(system: CompiledSystem, equilibria: readonly Equilibrium[], p: number): boolean {
   const n = system.dimension;
-  const jac = new Float64Array(n * n);
   for (const e of equilibria) {
-    system.jacobian(Float64Array.from(e.x), p, jac);
+    const jac = jacobianOf(system, e, p);
     let scale = 0;
     for (let k = 0; k < n * n; k++) scale = Math.max(scale, Math.abs(jac[k]));
     for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) {
