@@ -4,25 +4,27 @@
  * process (so the best two-thread time is the larger half of the work), the points traced in all
  * blocks against the points kept after the merge (work done twice), and whether the blocked diagram
  * keeps every special point (to 1e-10) and every point of every branch of the one-block trace.
- *   node --import tsx scripts/measure-trace-blocks.ts [--eight]
+ *   node --import tsx scripts/measure-trace-blocks.ts [--eight | --only-eight] [--blocks=1,2,4]
  */
 import { traceBlock, traceDiagramWith, type BlockResult, type Diagram } from '../src/lib/atlas/index.js';
 import { compileModelJson } from '../src/lib/model/index.js';
 import { cubicDoc, chain, diagramAgreement } from './trace-blocks-common.js';
 
-const cases = [
+const eight = { key: '8-node one-way chain', doc: cubicDoc('8 nodes one-way chain (invented)', 8, chain(8, false)), settings: { maxBranches: 100_000 } };
+const counts = (process.argv.find((a) => a.startsWith('--blocks='))?.slice(9) ?? '1,2,4').split(',').map(Number);
+const cases = process.argv.includes('--only-eight') ? [eight] : [
   { key: '6-node one-way chain', doc: cubicDoc('6 nodes one-way chain (invented)', 6, chain(6, false)), settings: {} },
   { key: '6-node two-way chain', doc: cubicDoc('6 nodes two-way chain (invented)', 6, chain(6, true)), settings: {} },
-  ...(process.argv.includes('--eight') ? [{ key: '8-node one-way chain', doc: cubicDoc('8 nodes one-way chain (invented)', 8, chain(8, false)), settings: { maxBranches: 100_000 } }] : []),
+  ...(process.argv.includes('--eight') ? [eight] : []),
 ];
 
 for (const c of cases) {
   const system = compileModelJson(c.doc);
   let reference: Diagram | null = null;
   let oneBlockMs = 0;
-  for (const blocks of [1, 2, 4]) {
+  for (const blocks of counts) {
     // Untimed run first (JIT warm-up), then the timed one.
-    if (blocks === 1) await traceDiagramWith(system, { ...c.settings, traceBlocks: 2 }, {}, async (bs) => bs.map((b) => traceBlock(system, b)));
+    if (blocks === counts[0] && system.dimension < 8) await traceDiagramWith(system, { ...c.settings, traceBlocks: 2 }, {}, async (bs) => bs.map((b) => traceBlock(system, b)));
     const times: number[] = [];
     let runnerFrom = 0;
     let runnerTo = 0;

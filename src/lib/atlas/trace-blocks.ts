@@ -86,9 +86,10 @@ const END_CODES = new Set(['step-collapse', 'newton-failure', 'point-cap', 'stat
  */
 export function mergeBlocks(results: readonly BlockResult[], o: MergeOptions): MergedBlocks {
   const { n } = o;
-  const index = new BranchIndex(o.cellWidth, n, o.maxStep);
   const registry = new SpecialPointRegistry();
   const branches: Branch[] = [];
+  /** Bounding box of each kept branch's points in (x, p), by merged index. */
+  const boxes: Box[] = [];
   const diagnostics: Diagnostic[] = [];
   const many = results.length > 1;
   let capHit = false;
@@ -97,21 +98,46 @@ export function mergeBlocks(results: readonly BlockResult[], o: MergeOptions): M
     const fates = new Map<string, Fate>();
     const first = ri === 0;
     const startIndex = branches.length;
+    // Earlier branches a branch of this block can meet: those whose boxes come within the largest
+    // test tolerance of its own (a point within tol of a segment lies within tol of the segment's
+    // box). Most branches of the chains have none, and skip every test; an index of the candidates,
+    // inserted in merged order, gives the same hits as one of all earlier branches.
+    let index: BranchIndex | null = null;
+    let candidates: number[][] = [];
+    if (!first) {
+      const own = r.branches.map((b) => boxOf(b.points, n));
+      const union = new Set<number>();
+      candidates = own.map((bx) => {
+        const pad = 1e-6 * (1 + bx.size) + 0.2 * o.maxStep;
+        const c: number[] = [];
+        for (let k = 0; k < boxes.length; k++) if (overlaps(bx, boxes[k], pad)) { c.push(k); union.add(k); }
+        return c;
+      });
+      if (union.size > 0) {
+        index = new BranchIndex(o.cellWidth, n, o.maxStep);
+        for (const k of [...union].sort((a, b) => a - b)) {
+          const list = index.addList(k);
+          const ys = branches[k].points.map((q) => toY(q.p, q.x, n));
+          for (let j = 0; j < ys.length; j++) index.push(list, { y: ys[j], t: secant(ys, j) } as TracedPoint);
+        }
+      }
+    }
     r.branches.forEach((b, bi) => {
-      const ys = b.points.map((q) => toY(q.p, q.x, n));
       const o0 = r.origins[bi];
-      if (!first) {
+      const near = index !== null && candidates[bi].length > 0;
+      const ys = near ? b.points.map((q) => toY(q.p, q.x, n)) : [];
+      if (near) {
         const y0 = ys[o0];
         if (b.origin.kind === 'start') {
-          const l = index.pointList(y0, 1e-6 * (1 + normInf(y0)));
+          const l = index!.pointList(y0, 1e-6 * (1 + normInf(y0)));
           if (l !== null) {
-            fates.set(b.id, { kind: 'dropped', to: [branches[index.lists[l].branch].id] });
+            fates.set(b.id, { kind: 'dropped', to: [branches[index!.lists[l].branch].id] });
             return;
           }
         } else {
           const tol = 1e-7 * (1 + normInf(y0)) + 0.05 * o.maxStep;
-          const plus = o0 + 1 < ys.length ? hitAt(index, ys, o0 + 1, tol) : null;
-          const minus = o0 > 0 ? hitAt(index, ys, o0 - 1, tol) : null;
+          const plus = o0 + 1 < ys.length ? hitAt(index!, ys, o0 + 1, tol) : null;
+          const minus = o0 > 0 ? hitAt(index!, ys, o0 - 1, tol) : null;
           if (plus !== null && minus !== null) {
             fates.set(b.id, { kind: 'dropped', to: [branches[plus].id, branches[minus].id] });
             return;
@@ -119,13 +145,13 @@ export function mergeBlocks(results: readonly BlockResult[], o: MergeOptions): M
         }
       }
       let lo = 0;
-      let hi = ys.length - 1;
+      let hi = b.points.length - 1;
       let loTo: string | null = null;
       let hiTo: string | null = null;
-      if (!first) {
-        const up = firstHit(index, ys, o0, 1);
+      if (near) {
+        const up = firstHit(index!, ys, o0, 1);
         if (up !== null) { hi = up.at; hiTo = branches[up.branch].id; }
-        const down = firstHit(index, ys, o0, -1);
+        const down = firstHit(index!, ys, o0, -1);
         if (down !== null) { lo = down.at; loTo = branches[down.branch].id; }
       }
       const id = `b${branches.length + 1}`;
@@ -133,7 +159,7 @@ export function mergeBlocks(results: readonly BlockResult[], o: MergeOptions): M
       const ends: [BranchEnd, BranchEnd] = [loTo !== null ? 'merged' : b.ends[0], hiTo !== null ? 'merged' : b.ends[1]];
       branches.push({
         id,
-        points: lo === 0 && hi === ys.length - 1 ? b.points : b.points.slice(lo, hi + 1),
+        points: lo === 0 && hi === b.points.length - 1 ? b.points : b.points.slice(lo, hi + 1),
         origin: b.origin.kind === 'switch' ? { kind: 'switch', ...(from !== undefined ? { from } : {}) } : b.origin,
         ends,
       });
@@ -168,13 +194,7 @@ export function mergeBlocks(results: readonly BlockResult[], o: MergeOptions): M
     }
 
     // Later blocks look for earlier blocks' branches only: their own duplicates were found when traced.
-    if (ri === results.length - 1) continue;
-    for (let k = startIndex; k < branches.length; k++) {
-      const b = branches[k];
-      const list = index.addList(k);
-      const ys = b.points.map((q) => toY(q.p, q.x, n));
-      for (let j = 0; j < ys.length; j++) index.push(list, { y: ys[j], t: secant(ys, j) } as TracedPoint);
-    }
+    for (let k = startIndex; k < branches.length; k++) boxes.push(boxOf(branches[k].points, n));
   }
 
   if (branches.length > o.maxBranches) {
@@ -210,6 +230,34 @@ function placeOf(fate: Fate | undefined, p: number, x: readonly number[], n: num
   if (best < fate.lo && fate.loTo !== null) return [fate.loTo];
   if (best > fate.hi && fate.hiTo !== null) return [fate.hiTo];
   return [fate.id];
+}
+
+interface Box {
+  readonly lo: Float64Array;
+  readonly hi: Float64Array;
+  /** Largest |coordinate| in the box. */
+  readonly size: number;
+}
+
+function boxOf(points: readonly { p: number; x: readonly number[] }[], n: number): Box {
+  const lo = new Float64Array(n + 1).fill(Infinity);
+  const hi = new Float64Array(n + 1).fill(-Infinity);
+  for (const q of points) {
+    for (let i = 0; i < n; i++) {
+      if (q.x[i] < lo[i]) lo[i] = q.x[i];
+      if (q.x[i] > hi[i]) hi[i] = q.x[i];
+    }
+    if (q.p < lo[n]) lo[n] = q.p;
+    if (q.p > hi[n]) hi[n] = q.p;
+  }
+  let size = 0;
+  for (let i = 0; i <= n; i++) size = Math.max(size, Math.abs(lo[i]), Math.abs(hi[i]));
+  return { lo, hi, size };
+}
+
+function overlaps(a: Box, b: Box, pad: number): boolean {
+  for (let i = 0; i < a.lo.length; i++) if (a.lo[i] > b.hi[i] + pad || b.lo[i] > a.hi[i] + pad) return false;
+  return true;
 }
 
 /** Points tested per stride when walking out from a branch's origin (see firstHit). */
