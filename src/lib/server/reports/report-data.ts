@@ -3,6 +3,7 @@
  * the stored diagram and bands, the band tags, the model document of the run's exact version
  * (equations, parameters, network), the open review comments, and the finished runs to choose from.
  */
+import { overrideNote } from '../../plot/run-override.ts';
 import { getRunResult } from '../results/repository.ts';
 import { listBandTags, listComments, type StoredComment } from '../reviews/repository.ts';
 import { getVersionById } from '../models/repository.ts';
@@ -35,7 +36,10 @@ export interface ReportRun {
   map: StoredRunMap | null;
 }
 
-export interface ReportChoice { id: number; modelId: number; modelName: string; versionNumber: number; finishedAt: string | null }
+export interface ReportChoice { id: number; modelId: number; modelName: string; versionNumber: number; finishedAt: string | null
+  /** A slice of a map (a parameter overridden for the run): src/lib/plot/run-override.ts. */
+  override?: string | null;
+}
 
 /** Run ids from ?runs=1,2 and repeated runs= parameters: positive integers, first occurrence kept, at most REPORT_MAX_RUNS. */
 export function reportRunIds(params: URLSearchParams): number[] {
@@ -46,7 +50,7 @@ export function reportRunIds(params: URLSearchParams): number[] {
 /** The finished trace runs of the workspace, newest first (the report's run picker; escape studies have no figure yet). */
 export async function listReportChoices(workspaceId: string): Promise<ReportChoice[]> {
   const { items } = await listRuns(workspaceId, { status: 'done', kind: 'trace', pageSize: 100 });
-  return items.map((r) => ({ id: r.id, modelId: r.modelId, modelName: r.modelName, versionNumber: r.versionNumber, finishedAt: r.finishedAt }));
+  return items.map((r) => ({ id: r.id, modelId: r.modelId, modelName: r.modelName, versionNumber: r.versionNumber, finishedAt: r.finishedAt, override: overrideNote(r) }));
 }
 
 /**
