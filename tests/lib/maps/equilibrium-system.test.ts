@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { compileTwoParameter, continueCurve, EquilibriumSystem, startTangent } from '../../../src/lib/maps/index';
+import { BorderedWorkspace, continueBranch, tangentAt } from '../../../src/lib/numerics/index';
 
 /**
  * The one pseudo-arclength driver (numerics/continue-curve.ts) on the equilibrium system of x' = a + b x - x^3 at
@@ -32,5 +33,25 @@ describe('continueCurve (the one driver, numerics/continue-curve.ts) on the maps
     expect(flips).toHaveLength(2);
     const fold = 2 / (3 * Math.sqrt(3));
     expect(flips.map((a) => Math.abs(Math.abs(a) - fold)).every((d) => d < 1e-3)).toBe(true);
+  });
+
+  it("gives the one-parameter engine's branch (continueBranch on the document compiled at b = 1) to 1e-12, with the engine's policies", () => {
+    // Independent route: today's one-parameter compiler (atSecond) and continueBranch; the maps' system
+    // uses the two-parameter compiler. Same driver, same start, same options and policies.
+    const one = sys.atSecond(1);
+    const ws = new BorderedWorkspace(1);
+    const tan = tangentAt(one, y0, t.t, ws);
+    const o = { lo: -1, hi: 1, initialStep: 4e-3, minStep: 1e-9, maxStep: 4e-2, maxParameterStep: 2 / 600, maxTurn: 0.15, maxPoints: 10_000, stateBound: 1e6, residualTolerance: 1e-10, stepTolerance: 1e-10, maxCorrectorIterations: 8 };
+    const engine = continueBranch(one, y0, tan.tangent, tan.determinant, o);
+    const maps = continueCurve(ext, Float64Array.from(y0), Float64Array.from(tan.tangent), {
+      ...o, lo: [-1], hi: [1], maxParameterStep: [o.maxParameterStep], reuseFactorization: true, unsolvedBound: 'keep-step', closeLoops: false,
+    });
+    expect(engine.end).toBe('sweep-bound');
+    expect(maps.end).toBe('parameter-bound');
+    expect(maps.points).toHaveLength(engine.points.length);
+    engine.points.forEach((q, i) => {
+      expect(Math.abs(q.y[0] - maps.points[i].y[0])).toBeLessThanOrEqual(1e-12);
+      expect(Math.abs(q.y[1] - maps.points[i].y[1])).toBeLessThanOrEqual(1e-12);
+    });
   });
 });
