@@ -12,10 +12,11 @@
  *
  * To add a section (e.g. coupling regimes), push a BenchSection onto `sections` below.
  */
-import { traceDiagram, type Diagram, type SpecialPoint } from '../src/lib/atlas/index.js';
+import { traceDiagram, traceDiagramWith, type Diagram, type SpecialPoint } from '../src/lib/atlas/index.js';
+import { TracePool } from '../src/worker/trace-pool.ts';
 import type { CompiledSystem } from '../src/lib/model/index.js';
 import { compileModelJson } from '../src/lib/model/index.js';
-import { cpus, loadavg } from 'node:os';
+import { availableParallelism, cpus, loadavg } from 'node:os';
 import { LuDecomposition, Matrix } from 'ml-matrix';
 import { findStartingEquilibria } from '../src/lib/atlas/starting-equilibria.js';
 import { defaultTraceSettings, type TraceSettings } from '../src/lib/atlas/trace-settings.js';
@@ -363,9 +364,10 @@ const allToAll = (k: number) => Array.from({ length: k }, (_, i) => Array.from({
  */
 const goalsSection: BenchSection = {
   title: 'Whole diagram with bands, issue 12 goals 1, 3 and 4: engine trace + labelling vs 4,000-value grid sweep (same process)',
-  run() {
+  async run() {
     const warm = compileModelJson(cubicDoc('warm-up', 3, chain(3, false)));
     labelRegimes(warm, traceDiagram(warm));
+    const threaded: { key: string; doc: unknown; settings: Partial<TraceSettings>; diagram: Diagram; ms: number }[] = [];
     const cases = [
       { key: '4-node all-to-all', doc: cubicDoc('4 nodes all-to-all (invented)', 4, allToAll(4)), goal: 0.3, grid: true },
       { key: '6-node one-way chain', doc: cubicDoc('6 nodes one-way chain (invented)', 6, chain(6, false)), goal: 0.3, grid: true },
@@ -400,6 +402,7 @@ const goalsSection: BenchSection = {
         if (t.ms < tTrace.ms) tTrace = t;
       }
       const diagram = tTrace.value;
+      if (!small && !c.restricted) threaded.push({ key: c.key, doc: c.doc, settings: c.settings ?? {}, diagram, ms: tTrace.ms });
       let tLabel = time(() => labelRegimes(system, diagram));
       for (let k = 1; k < reps; k++) {
         const t = time(() => labelRegimes(system, diagram));
@@ -447,6 +450,7 @@ const goalsSection: BenchSection = {
       }
     }
     for (const l of lines) console.log(l);
+    await threadsLines(threaded);
     console.log('  x = engine wall time / grid wall time (< 1: the engine is faster); the verdicts use wall time, as the issue measured. CPU time of');
     console.log('  each side is printed beside it: on this shared machine wall ratios of the same code moved by up to 2x between runs under load;');
     console.log('  CPU time also counts the engine\'s garbage-collector threads, which the grid hardly uses, so it reads higher on a quiet machine.');
@@ -454,6 +458,32 @@ const goalsSection: BenchSection = {
     console.log(`  starts = starting equilibria lying on a traced branch; grid = grid folds (Newton lost the branch) matched by a traced saddle-node. Load average ${loadavg()[0].toFixed(2)} on ${cpus().length} cores.`);
   },
 };
+
+/**
+ * Issue 12, threads (docs/numerics.md §11): the traces timed above (one thread: the blocks one after
+ * another in this thread) again on the trace pool's two threads, started once and warmed on a 4-node
+ * network split in two blocks; the speed-up is the one-thread wall time over the two-thread one, and
+ * "identical" compares the two diagrams as JSON text.
+ */
+async function threadsLines(cases: { key: string; doc: unknown; settings: Partial<TraceSettings>; diagram: Diagram; ms: number }[]): Promise<void> {
+  if (cases.length === 0) return;
+  const threads = Math.min(2, availableParallelism());
+  const pool = new TracePool(threads);
+  try {
+    const warmDoc = cubicDoc('warm-up', 4, chain(4, false));
+    await traceDiagramWith(compileModelJson(warmDoc), { traceBlocks: 2 }, {}, pool.runner(warmDoc));
+    for (const c of cases) {
+      const system = compileModelJson(c.doc);
+      const t0 = performance.now();
+      const d = await traceDiagramWith(system, c.settings, {}, pool.runner(c.doc));
+      const ms = performance.now() - t0;
+      const same = JSON.stringify(d) === JSON.stringify(c.diagram);
+      console.log(`  threads, ${c.key}: trace on 1 thread ${fmt(c.ms / 1000, 3)} s, on ${threads} threads ${fmt(ms / 1000, 3)} s: ${fmt(c.ms / ms, 3)}x; diagrams ${same ? 'identical' : 'DIFFERENT'} (${d.branches.length} branches, ${d.bifurcations.length} special points)`);
+    }
+  } finally {
+    await pool.close();
+  }
+}
 
 /**
  * Coupling regimes (docs/regimes.md): time to label every band of the 2-, 3- and 6-node diagrams with
