@@ -195,11 +195,11 @@ async function pooledTraceTask(task: ComputeTask): Promise<TaskResult> {
     if (isCancelled()) {
       return { diagramBlob: new Uint8Array(0), regimesJson: '', previewPoints: 0, branchCount: 0, pointCount: 0, specialPointCount: 0, computeMs: 0, phasesMs: { trace: 0, label: 0, onset: 0, encode: 0 }, cancelled: true };
     }
-    const pool = await tracePoolOf(task.threads!);
+    // The pool starts when a trace first has more than one block (a small network never needs it).
     return await computeTraceOn(task.documentText, task.settings, {
       onProgress: (f, phrase) => post(delayShare + (1 - delayShare) * f, phrase, f >= 1),
       isCancelled,
-    }, (document) => pool.runner(document, undefined, task.cancelFlag));
+    }, (document) => async (blocks, hooks) => (await tracePoolOf(task.threads!)).runner(document, undefined, task.cancelFlag)(blocks, hooks));
   } catch (e) {
     return taskFailure(e);
   } finally {
