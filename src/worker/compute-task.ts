@@ -68,8 +68,7 @@ const PROGRESS_INTERVAL_MS = 100;
 export default function computeTask(task: ComputeTask | EscapeComputeTask | MapComputeTask): TaskResult | MapTaskResult | Promise<EscapeTaskResult> | Promise<TaskResult> {
   if ('kind' in task && task.kind === 'escapes') return escapeTask(task);
   if ('kind' in task && task.kind === 'map') return mapTask(task);
-  const t = task as ComputeTask;
-  return (t.threads ?? 1) > 1 ? pooledTraceTask(t) : traceTask(t);
+  return traceTask(task as ComputeTask);
 }
 
 /**
@@ -162,44 +161,25 @@ async function escapeTask(task: EscapeComputeTask): Promise<EscapeTaskResult> {
   }
 }
 
-function traceTask(task: ComputeTask): TaskResult {
+/**
+ * One trace run: in this thread, or with threads > 1 the trace's blocks on the thread's trace pool
+ * (docs/numerics.md §11), which gives the same result.
+ */
+async function traceTask(task: ComputeTask): Promise<TaskResult> {
   const flag = new Int32Array(task.cancelFlag);
   const isCancelled = () => Atomics.load(flag, 0) === 1;
   const post = progressPoster(task.port);
   const delayShare = task.testDelayMs > 0 ? 0.5 : 0;
+  const hooks = { onProgress: (f: number, phrase: string) => post(delayShare + (1 - delayShare) * f, phrase, f >= 1), isCancelled };
   try {
     if (task.testDelayMs > 0) testDelay(task, flag, post, delayShare);
     if (isCancelled()) {
       return { diagramBlob: new Uint8Array(0), regimesJson: '', previewPoints: 0, branchCount: 0, pointCount: 0, specialPointCount: 0, computeMs: 0, phasesMs: { trace: 0, label: 0, onset: 0, encode: 0 }, cancelled: true };
     }
-    const out = computeTrace(task.documentText, task.settings, {
-      onProgress: (f, phrase) => post(delayShare + (1 - delayShare) * f, phrase, f >= 1),
-      isCancelled,
-    });
-    return out;
-  } catch (e) {
-    return taskFailure(e);
-  } finally {
-    task.port.close();
-  }
-}
-
-/** traceTask with the trace's blocks on the thread's trace pool (docs/numerics.md §11): the same result. */
-async function pooledTraceTask(task: ComputeTask): Promise<TaskResult> {
-  const flag = new Int32Array(task.cancelFlag);
-  const isCancelled = () => Atomics.load(flag, 0) === 1;
-  const post = progressPoster(task.port);
-  const delayShare = task.testDelayMs > 0 ? 0.5 : 0;
-  try {
-    if (task.testDelayMs > 0) testDelay(task, flag, post, delayShare);
-    if (isCancelled()) {
-      return { diagramBlob: new Uint8Array(0), regimesJson: '', previewPoints: 0, branchCount: 0, pointCount: 0, specialPointCount: 0, computeMs: 0, phasesMs: { trace: 0, label: 0, onset: 0, encode: 0 }, cancelled: true };
-    }
+    if ((task.threads ?? 1) <= 1) return computeTrace(task.documentText, task.settings, hooks);
     // The pool starts when a trace first has more than one block (a small network never needs it).
-    return await computeTraceOn(task.documentText, task.settings, {
-      onProgress: (f, phrase) => post(delayShare + (1 - delayShare) * f, phrase, f >= 1),
-      isCancelled,
-    }, (document) => async (blocks, hooks) => (await tracePoolOf(task.threads!)).runner(document, undefined, task.cancelFlag)(blocks, hooks));
+    return await computeTraceOn(task.documentText, task.settings, hooks,
+      (document) => async (blocks, h) => (await tracePoolOf(task.threads!)).runner(document, undefined, task.cancelFlag)(blocks, h));
   } catch (e) {
     return taskFailure(e);
   } finally {
