@@ -27,6 +27,7 @@ import { barriersSection } from './bench-barriers.js';
 import { noiseSection } from './bench-noise.js';
 import { mapsSection } from './bench-maps.js';
 import { storageSection } from './bench-storage.js';
+import { cubicDoc, chain } from './trace-blocks-common.js';
 
 export interface BenchSection {
   readonly title: string;
@@ -330,19 +331,6 @@ const engineSection: BenchSection = {
   },
 };
 
-/** Invented cubic-element networks of issue 12: x' = r_i + x - x^3, r_i spread over [0.05, 0.15], diffusive links. */
-function cubicDoc(name: string, nodes: number, links: { from: number; to: number; twoWay?: boolean }[]) {
-  return {
-    format: 'brinkmap/network-1',
-    name,
-    element: { variable: 'x', rate: 'r + x - x^3', parameters: { r: 0.1 } },
-    nodes: Array.from({ length: nodes }, (_, i) => ({ id: `n${i + 1}`, parameters: { r: 0.05 + (0.1 * i) / (nodes - 1) } })),
-    links: links.map((l) => ({ from: `n${l.from + 1}`, to: `n${l.to + 1}`, weight: 1, ...(l.twoWay ? { twoWay: true } : {}) })),
-    coupling: { parameter: 'beta', value: 0, term: 'source - target' },
-    sweep: { parameter: 'beta', from: 0, to: 1 },
-  };
-}
-const chain = (k: number, twoWay: boolean) => Array.from({ length: k - 1 }, (_, i) => ({ from: i, to: i + 1, twoWay }));
 /** Sparse ring with chords: node i links to i + 1 and i + 5 (mod k), one way; mean degree 4 counting both ends. */
 const ringWithChords = (k: number) => Array.from({ length: k }, (_, i) => [{ from: i, to: (i + 1) % k }, { from: i, to: (i + 5) % k }]).flat();
 /** Bands of a labelling in words: how many and which regimes, and how much of the sweep is labelled. */

@@ -1,4 +1,4 @@
-/** Invented cubic-element networks of issue 12 (as in scripts/bench.ts): x' = r_i + x - x^3, r_i spread over [0.05, 0.15], diffusive links. */
+/** Invented cubic-element networks of issue 12 (scripts/bench.ts and measure-trace-blocks.ts): x' = r_i + x - x^3, r_i spread over [0.05, 0.15], diffusive links. */
 export function cubicDoc(name: string, nodes: number, links: { from: number; to: number; twoWay?: boolean }[]) {
   return {
     format: 'brinkmap/network-1',
