@@ -1,6 +1,6 @@
 import { BranchIndex } from './branch-index.js';
 import type { TracedPoint } from '../numerics/branch-point-data.js';
-import type { Diagram } from './types.js';
+import type { Branch, Diagram } from './types.js';
 
 export interface DiagramAgreement {
   /** Special points of the reference with one of the same type in the other diagram within the tolerance (|dp| and every |dx_i|). */
@@ -27,25 +27,10 @@ export function diagramAgreement(reference: Diagram, other: Diagram, specialTol:
     const xTol = a.evidence.kind === 'branch-point' ? branchPointStateTol : specialTol;
     if (other.bifurcations.some((b) => b.type === a.type && Math.abs(b.p - a.p) <= specialTol && b.x.every((v, i) => Math.abs(v - a.x[i]) <= xTol))) specialFound++;
   }
-  const toY = (p: number, x: readonly number[]) => {
-    const y = new Float64Array(n + 1);
-    y.set(x);
-    y[n] = p;
-    return y;
-  };
-  let maxStep = 0;
-  const lines = other.branches.map((b) => b.points.map((q) => toY(q.p, q.x)));
-  for (const ys of lines) for (let j = 1; j < ys.length; j++) maxStep = Math.max(maxStep, dist(ys[j - 1], ys[j]));
-  const width = Math.abs(Number(reference.settings.to) - Number(reference.settings.from)) || 1;
-  const index = new BranchIndex(width / 600, n, Math.max(maxStep, 1e-9));
-  lines.forEach((ys, k) => {
-    const l = index.addList(k);
-    for (let j = 0; j < ys.length; j++) index.push(l, { y: ys[j], t: direction(ys, j) } as TracedPoint);
-  });
+  const { index } = polylineIndex(branchPolylines(other.branches, n), n, widthOf(reference) / 600);
   let pointsOn = 0;
   let pointsTotal = 0;
-  for (const b of reference.branches) {
-    const ys = b.points.map((q) => toY(q.p, q.x));
+  for (const ys of branchPolylines(reference.branches, n)) {
     for (let j = 0; j < ys.length; j++) {
       pointsTotal++;
       if (index.findParallel(ys[j], direction(ys, j), pointTol, () => false)) pointsOn++;
@@ -61,25 +46,45 @@ export function diagramAgreement(reference: Diagram, other: Diagram, specialTol:
  */
 export function overlapPoints(d: Diagram, pointTol: number): number {
   const n = d.variables.length;
-  const lines = d.branches.map((b) => b.points.map((q) => {
-    const y = new Float64Array(n + 1);
-    y.set(q.x);
-    y[n] = q.p;
-    return y;
-  }));
-  let maxStep = 0;
-  for (const ys of lines) for (let j = 1; j < ys.length; j++) maxStep = Math.max(maxStep, dist(ys[j - 1], ys[j]));
-  const width = Math.abs(Number(d.settings.to) - Number(d.settings.from)) || 1;
-  const index = new BranchIndex(width / 600, n, Math.max(maxStep, 1e-9));
-  lines.forEach((ys, k) => {
-    const l = index.addList(k);
-    for (let j = 0; j < ys.length; j++) index.push(l, { y: ys[j], t: direction(ys, j) } as TracedPoint);
-  });
+  const { lines, index } = polylineIndex(branchPolylines(d.branches, n), n, widthOf(d) / 600);
   let overlap = 0;
   lines.forEach((ys, k) => {
     for (let j = 2; j < ys.length - 2; j++) if (index.findParallel(ys[j], direction(ys, j), pointTol, (l) => l === k)) overlap++;
   });
   return overlap;
+}
+
+/** y = [x, p]. */
+export function pointY(p: number, x: readonly number[], n: number): Float64Array {
+  const y = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) y[i] = x[i];
+  y[n] = p;
+  return y;
+}
+
+/** The polylines of stored branches, y = [x, p] per point. */
+export function branchPolylines(branches: readonly Branch[], n: number): Float64Array[][] {
+  return branches.map((b) => b.points.map((q) => pointY(q.p, q.x, n)));
+}
+
+/**
+ * A BranchIndex over polylines (list k = polyline k), each point with the secant direction through
+ * its neighbours (`direction`) as its tangent, for findParallel on stored branches. `maxStep`
+ * defaults to the longest segment.
+ */
+export function polylineIndex(lines: Float64Array[][], n: number, cellWidth: number, maxStep?: number): { lines: Float64Array[][]; index: BranchIndex } {
+  let step = maxStep ?? 0;
+  if (maxStep === undefined) for (const ys of lines) for (let j = 1; j < ys.length; j++) step = Math.max(step, dist(ys[j - 1], ys[j]));
+  const index = new BranchIndex(cellWidth, n, Math.max(step, 1e-9));
+  lines.forEach((ys, k) => {
+    const l = index.addList(k);
+    for (let j = 0; j < ys.length; j++) index.push(l, { y: ys[j], t: direction(ys, j) } as TracedPoint);
+  });
+  return { lines, index };
+}
+
+function widthOf(d: Diagram): number {
+  return Math.abs(Number(d.settings.to) - Number(d.settings.from)) || 1;
 }
 
 function dist(a: Float64Array, b: Float64Array): number {

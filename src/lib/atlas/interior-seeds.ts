@@ -1,10 +1,8 @@
 import type { CompiledSystem } from '../model/compiled-system.js';
 import { BorderedWorkspace, nullSpace, tangentAt } from '../numerics/bordered.js';
-import type { TracedPoint } from '../numerics/branch-point-data.js';
 import { newton } from '../numerics/newton.js';
 import { distInf, normInf } from '../numerics/vector.js';
-import { BranchIndex } from './branch-index.js';
-import { direction as secant } from './diagram-agreement.js';
+import { branchPolylines, polylineIndex } from './diagram-agreement.js';
 import type { ResolvedTraceSettings } from './trace-settings.js';
 import type { Branch } from './types.js';
 
@@ -57,17 +55,7 @@ export function interiorSeeds(system: CompiledSystem, s: ResolvedTraceSettings):
 export function untracedSeeds(system: CompiledSystem, seeds: readonly Float64Array[], branches: readonly Branch[], o: { cellWidth: number; maxStep: number }): Float64Array[] {
   if (seeds.length === 0) return [];
   const n = system.dimension;
-  const index = new BranchIndex(o.cellWidth, n, o.maxStep);
-  branches.forEach((b, k) => {
-    const list = index.addList(k);
-    const ys = b.points.map((q) => {
-      const y = new Float64Array(n + 1);
-      for (let i = 0; i < n; i++) y[i] = q.x[i];
-      y[n] = q.p;
-      return y;
-    });
-    for (let j = 0; j < ys.length; j++) index.push(list, { y: ys[j], t: secant(ys, j) } as TracedPoint);
-  });
+  const { index } = polylineIndex(branchPolylines(branches, n), n, o.cellWidth, o.maxStep);
   const ws = new BorderedWorkspace(n);
   const out: Float64Array[] = [];
   for (const y of seeds) {

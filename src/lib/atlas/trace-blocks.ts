@@ -1,7 +1,7 @@
 import { normInf } from '../numerics/vector.js';
 import type { TracedPoint } from '../numerics/branch-point-data.js';
 import { BranchIndex } from './branch-index.js';
-import { direction as secant } from './diagram-agreement.js';
+import { direction as secant, pointY as toY } from './diagram-agreement.js';
 import { SpecialPointRegistry, type SpecialPointDraft } from './special-point-registry.js';
 import type { ResolvedTraceSettings } from './trace-settings.js';
 import type { Branch, BranchEnd, Diagnostic, StartCoverage } from './types.js';
@@ -302,11 +302,4 @@ function mergeTol(a: Float64Array, b: Float64Array): number {
   let d = 0;
   for (let i = 0; i < a.length; i++) d += (a[i] - b[i]) ** 2;
   return 1e-7 * (1 + normInf(b)) + 0.05 * Math.sqrt(d);
-}
-
-function toY(p: number, x: readonly number[], n: number): Float64Array {
-  const y = new Float64Array(n + 1);
-  for (let i = 0; i < n; i++) y[i] = x[i];
-  y[n] = p;
-  return y;
 }
