@@ -176,3 +176,15 @@ export function uncoupledDiagram(nodes: number, from: number, to: number): Diagr
   }
   return { parameter: 'r', variables: Array.from({ length: nodes }, (_, i) => `n${i}`), branches, bifurcations: [], diagnostics: [], settings: { from, to }, engineVersion: 'test-analytic' };
 }
+
+/** Invented cubic elements x' = r_i + x - x^3 (r_i spread over [0.05, 0.15]) with diffusive links, as in `npm run bench`. */
+export function benchCubicNetwork(nodes: number, links: { from: number; to: number; twoWay?: boolean }[]) {
+  return {
+    format: 'brinkmap/network-1', name: 'invented cubic network',
+    element: { variable: 'x', rate: 'r + x - x^3', parameters: { r: 0.1 } },
+    nodes: Array.from({ length: nodes }, (_, i) => ({ id: `n${i + 1}`, parameters: { r: 0.05 + (0.1 * i) / (nodes - 1) } })),
+    links: links.map((l) => ({ from: `n${l.from + 1}`, to: `n${l.to + 1}`, weight: 1, ...(l.twoWay ? { twoWay: true } : {}) })),
+    coupling: { parameter: 'beta', value: 0, term: 'source - target' },
+    sweep: { parameter: 'beta', from: 0, to: 1 },
+  };
+}

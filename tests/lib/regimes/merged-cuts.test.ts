@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { compileModelJson } from '../../../src/lib/model/index';
 import { traceDiagram } from '../../../src/lib/atlas/index';
-import { lakeNetwork } from './fixtures';
+import { lakeNetwork, benchCubicNetwork } from './fixtures';
 import { createLabeller, labelRegimes, type RegimeResult } from '../../../src/lib/regimes/index';
 
 /**
@@ -15,17 +15,7 @@ import { createLabeller, labelRegimes, type RegimeResult } from '../../../src/li
 
 const lakes = lakeNetwork;
 
-/** Invented cubic elements x' = r_i + x - x^3 (r_i spread over [0.05, 0.15]) with diffusive links, as in `npm run bench`. */
-function cubic(nodes: number, links: { from: number; to: number; twoWay?: boolean }[]) {
-  return {
-    format: 'brinkmap/network-1', name: 'invented cubic network',
-    element: { variable: 'x', rate: 'r + x - x^3', parameters: { r: 0.1 } },
-    nodes: Array.from({ length: nodes }, (_, i) => ({ id: `n${i + 1}`, parameters: { r: 0.05 + (0.1 * i) / (nodes - 1) } })),
-    links: links.map((l) => ({ from: `n${l.from + 1}`, to: `n${l.to + 1}`, weight: 1, ...(l.twoWay ? { twoWay: true } : {}) })),
-    coupling: { parameter: 'beta', value: 0, term: 'source - target' },
-    sweep: { parameter: 'beta', from: 0, to: 1 },
-  };
-}
+const cubic = benchCubicNetwork;
 const chain = (k: number, twoWay: boolean) => Array.from({ length: k - 1 }, (_, i) => ({ from: i, to: i + 1, twoWay }));
 
 const networks = [

@@ -5,7 +5,7 @@ import { traceDiagram } from '../../../src/lib/atlas/index';
 import { analyseEquilibrium, equilibriaAt, isIndexOneSaddle, labelRegimes, resolveOptions } from '../../../src/lib/regimes/index';
 import { updateSaddle, type SaddleUpdateOutcome } from '../../../src/lib/regimes/saddle-update';
 import { newtonAtFixedParameter, solveLinear } from '../../../src/lib/regimes/linear-algebra';
-import { lakeNetwork } from './fixtures';
+import { lakeNetwork, benchCubicNetwork } from './fixtures';
 
 /**
  * updateSaddle (src/lib/regimes/saddle-update.ts): the unstable eigenpair of a continued index-1
@@ -14,17 +14,7 @@ import { lakeNetwork } from './fixtures';
  * computation), and the fallbacks that must refuse an update.
  */
 
-/** Invented cubic elements x' = r_i + x - x^3 (r_i spread over [0.05, 0.15]) with diffusive links, as in `npm run bench`. */
-function cubic(nodes: number, links: { from: number; to: number; twoWay?: boolean }[]) {
-  return {
-    format: 'brinkmap/network-1', name: 'invented cubic network',
-    element: { variable: 'x', rate: 'r + x - x^3', parameters: { r: 0.1 } },
-    nodes: Array.from({ length: nodes }, (_, i) => ({ id: `n${i + 1}`, parameters: { r: 0.05 + (0.1 * i) / (nodes - 1) } })),
-    links: links.map((l) => ({ from: `n${l.from + 1}`, to: `n${l.to + 1}`, weight: 1, ...(l.twoWay ? { twoWay: true } : {}) })),
-    coupling: { parameter: 'beta', value: 0, term: 'source - target' },
-    sweep: { parameter: 'beta', from: 0, to: 1 },
-  };
-}
+const cubic = benchCubicNetwork;
 const allToAll = (k: number) => Array.from({ length: k }, (_, i) => Array.from({ length: k - i - 1 }, (_, j) => ({ from: i, to: i + j + 1, twoWay: true }))).flat();
 const ring = (k: number) => Array.from({ length: k }, (_, i) => [{ from: i, to: (i + 1) % k }, { from: i, to: (i + 3) % k }]).flat();
 
