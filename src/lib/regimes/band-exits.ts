@@ -10,9 +10,9 @@ export const EXIT_KIND_WORDS: Record<EdgeKind, string> = {
 
 /** One row of a band's exit table, in words a modeler reads (node ids, not indices). */
 export interface BandExitRow {
-  /** "over lake1 and lake2", or "saddle 3" when no node is engaged there. */
+  /** "over lake1 and lake2", or "saddle 3" when no node is engaged there; for a moving edge state (BandExit.via) words saying so. */
   readonly exit: string;
-  /** Engaged nodes, "none" when no node reaches the engagement threshold. */
+  /** Engaged nodes ("none" when no node reaches the engagement threshold); for a moving edge state, those of its snapshot with the most engaged at once. */
   readonly engaged: string;
   /** What happens beyond the engaged nodes: "lake2 and lake3 follow", "lake1 pulled back", or "—". */
   readonly then: string;
@@ -32,7 +32,7 @@ export function bandExitRows(band: Pick<RegimeBand, 'exits'>, names: readonly st
     const then = [follow.length > 0 ? `${listNames(follow)} follow${follow.length === 1 ? 's' : ''}` : '', back.length > 0 ? `${listNames(back)} pulled back` : '']
       .filter(Boolean).join('; ');
     return {
-      exit: engaged.length > 0 ? `over ${listNames(engaged)}` : `saddle ${k + 1}`,
+      exit: e.via ? 'a state moving along the basin boundary (no saddle; edge tracking)' : engaged.length > 0 ? `over ${listNames(engaged)}` : `saddle ${k + 1}`,
       engaged: engaged.length > 0 ? listNames(engaged) : 'none',
       then: then || '—',
       leadsTo: patternWords(e.destination, names),

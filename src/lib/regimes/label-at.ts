@@ -11,6 +11,7 @@ import { progressOf } from './pattern';
 import { unstableCountAt } from './intervals';
 import { listNames, patternWords } from './reason';
 import { updateSaddle, type SaddleUpdateOutcome } from './saddle-update';
+import { edgeExits } from './edge-exits';
 
 const updateOutcome: { reason: SaddleUpdateOutcome } = { reason: 'accepted' };
 /** Outcomes of the eigenpair updates of continued saddles in this process (for measurements). */
@@ -95,7 +96,7 @@ export interface Labeller {
   /** continued: points whose equilibria were continued from a neighbour in their span; continuationFallbacks: tries that failed (refined from the diagram instead). */
   /** decided: manifold branches whose end the order of the equilibria decided without integrating (orderedLimit). */
   /** acrossCuts: of the continued points, those continued from the other side of a saddle-node cut (continueAcrossCut). */
-  readonly counts: { integrations: number; skipped: number; decided: number; points: number; continued: number; acrossCuts: number; continuationFallbacks: number };
+  readonly counts: { integrations: number; skipped: number; decided: number; points: number; continued: number; acrossCuts: number; continuationFallbacks: number; edgeTracks: number };
 }
 
 /**
@@ -114,7 +115,7 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
   const fixedRoles = o.roles !== undefined || system.network?.sweepIsCoupling === true;
   let roles0: (NodeRoles | null)[] | null = null;
   const budget: IntegrationBudget = { left: o.maxIntegrations };
-  const counts = { integrations: 0, skipped: 0, decided: 0, points: 0, continued: 0, acrossCuts: 0, continuationFallbacks: 0 };
+  const counts = { integrations: 0, skipped: 0, decided: 0, points: 0, continued: 0, acrossCuts: 0, continuationFallbacks: 0, edgeTracks: 0 };
   let orderTrusted = o.orderedLimits;
   const state = { orderBroken: false };
   const eqCache = new Map<number, EquilibriumSet>();
@@ -277,18 +278,49 @@ export function createLabeller(system: CompiledSystem, diagram: Diagram, options
     if (found.unresolvedExits > 0) {
       return none(`the destination of ${found.unresolvedExits === 1 ? 'an exit' : `${found.unresolvedExits} exits`} could not be resolved`, 'unresolved');
     }
-    if (found.exits.length === 0) {
+    let exits: readonly Exit[] = found.exits;
+    let states = found.states;
+    let movingEdge = false;
+    if (exits.length === 0 && o.edgeTracking && found.states.length > 1) {
+      // No index-1 saddle leads out, yet the start's basin has a boundary: track its edge state.
+      const edgeNotes: Diagnostic[] = [];
+      const edge = edgeExits(system, p, equilibria, found, roles as NodeRoles[], start, o, budget, edgeNotes);
+      counts.edgeTracks++;
+      counts.integrations += edge.integrations;
+      if (edge.saddles.length > 0) {
+        const more = startExits(system, p, [...equilibria, ...edge.saddles], roles as NodeRoles[], start, monotone, o, budget, edgeNotes, 'off');
+        counts.integrations += more.integrations;
+        if (more.truncated) { edgeNotes.forEach(note); return none('integration budget used up', 'budget', { truncated: true }); }
+        if (more.exits.length > 0) {
+          edgeNotes.push({ level: 'info', code: 'edge-saddle', p,
+            message: `at ${system.parameter} = ${fmt(p)} edge tracking found ${more.exits.length === 1 ? 'an index-1 saddle' : `${more.exits.length} index-1 saddles`} out of the ${start} state that no branch of the diagram passes through; the label rests on ${more.exits.length === 1 ? 'it' : 'them'}` });
+          exits = more.exits;
+          states = more.states;
+        }
+      }
+      if (exits.length === 0 && edge.moving.length > 0) {
+        exits = edge.moving;
+        movingEdge = true;
+        edgeNotes.push({ level: 'info', code: 'moving-edge', p,
+          message: `no index-1 saddle leads out of the ${start} state at ${system.parameter} = ${fmt(p)}; the label rests on a moving state on the boundary of its basin, found by edge tracking (docs/regimes.md, "Exits through a moving edge state")` });
+      }
+      edgeNotes.forEach(note);
+      if (exits.length === 0 && edge.truncated) return none('integration budget used up', 'budget', { truncated: true });
+    }
+    if (exits.length === 0) {
       note({ level: 'warning', code: 'no-escape-route', p,
-        message: `no index-1 saddle leads out of the ${start} state at ${system.parameter} = ${fmt(p)}; no label there for ${start}` });
+        message: `no index-1 saddle leads out of the ${start} state at ${system.parameter} = ${fmt(p)}${o.edgeTracking && found.states.length > 1 ? ', and edge tracking found no way out either' : ''}; no label there for ${start}` });
       return none(`no way out of ${start} found`, 'no-exit');
     }
-    const regime = regimeOfExits(found.exits, n)!;
-    const exitKeys = found.exits.map((e) => `${e.engaged.join(',')}>${e.tipping.join(',')}`).sort();
+    const regime = regimeOfExits(exits, n)!;
+    // A moving edge state's snapshot (its engaged nodes) is one point of a moving set: the key holds
+    // only where it leads, so that samples differing in the snapshot alone are not bisected.
+    const exitKeys = exits.map((e) => (e.via ? `moving>${e.tipping.join(',')}` : `${e.engaged.join(',')}>${e.tipping.join(',')}`)).sort();
     // The reason is read only for the labels that end up standing for a piece: built on first use.
     let reason: string | null = null;
-    const exits = found.exits;
-    return { p, start, regime, get reason() { return (reason ??= reasonFor(regime, exits, names, start)); }, exits, key: `${regime}|${exitKeys.join(';')}`,
-      restsOn: restsOn(p, equilibria, found.states[found.start].x, found.exits, found.states) };
+    const shown = exits;
+    return { p, start, regime, get reason() { return (reason ??= reasonFor(regime, shown, names, start)); }, exits: shown, key: `${regime}|${exitKeys.join(';')}`,
+      restsOn: movingEdge ? null : restsOn(p, equilibria, found.states[found.start].x, shown, states) };
   };
 
   /**
@@ -564,11 +596,17 @@ function reasonFor(regime: Regime, exits: readonly Exit[], names: readonly strin
   const containedText = `stable ${partial} state${contained.length > 1 ? 's' : ''} reached from ${start}: ${contained.join('; ')}`;
   if (regime === 'weak') return containedText;
   if (regime === 'strong') {
-    return `one way out of ${start}: ${listNames(names.slice())} ${verbPlural} together (every node engaged at the one exit saddle)`;
+    return exits[0].via
+      ? `one way out of ${start}: ${listNames(names.slice())} ${verbPlural} together (no saddle leads out; every node is engaged at once on the state moving along the basin boundary)`
+      : `one way out of ${start}: ${listNames(names.slice())} ${verbPlural} together (every node engaged at the one exit saddle)`;
   }
   const others = exits.filter((e) => !isContained(e, n));
   const texts = uniq(others.map((e) => {
     const target = patternWords(e.destination as NodeState[], names);
+    if (e.via) {
+      const most = e.engaged.length === 0 ? 'no node' : `at most ${e.engaged.length} of ${n} nodes (${listNames(e.engaged.map((i) => names[i]))} in one snapshot)`;
+      return `no saddle leads out: a state moving along the basin boundary (edge tracking) has ${most} engaged at once, and leaving it ends in ${target}`;
+    }
     const committed = e.tipping.filter((i) => !e.engaged.includes(i));
     const pulledBack = e.engaged.filter((i) => !e.tipping.includes(i));
     if (committed.length > 0) {

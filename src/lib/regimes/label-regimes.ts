@@ -196,7 +196,7 @@ export function labelRegimes(system: CompiledSystem, diagram: Diagram, options?:
 
   const regimes = starts.flatMap((s) => mergeBands(pieces.get(s)!.map((q): IntervalLabel => ({
     from: q.from, to: q.to, fromBound: q.fromBound, toBound: q.toBound, regime: q.label.regime, reason: q.label.reason, start: s,
-    exits: q.label.exits.map((e) => ({ saddle: e.saddle.slice(), engaged: e.engaged.slice(), tipping: e.tipping.slice(), destination: e.destination.slice(), kind: exitKind(e, n) })),
+    exits: q.label.exits.map((e) => ({ saddle: e.saddle.slice(), engaged: e.engaged.slice(), tipping: e.tipping.slice(), destination: e.destination.slice(), kind: exitKind(e, n), ...(e.via ? { via: e.via } : {}) })),
     exitsAt: q.label.p,
   }))));
   const escapeGraphs = o.escapeGraphs ? graphsOfPieces(system, labeller, pieces.get(starts[0])!, starts, note) : [];
@@ -365,6 +365,8 @@ function locateInterval(labeller: Labeller, a: Cut, b: Cut, start: StartState, m
  */
 function movesFast(l: PointLabel, r: PointLabel, step: number, engaged: number, anchoredLeft?: number, anchoredRight?: number): boolean {
   if (l.exits.length !== r.exits.length) return false;
+  // A moving edge state's snapshot is not a smooth function of p (it is one point of a moving set).
+  if (l.exits.some((e) => e.via) || r.exits.some((e) => e.via)) return false;
   const el = sortedExits(l);
   const er = sortedExits(r);
   const h = r.p - l.p;
@@ -437,6 +439,7 @@ const keyOf = (e: PointLabel['exits'][number]) => `${e.engaged.join(',')}>${e.ti
  */
 function engagementRoot(labeller: Labeller, l: PointLabel, r: PointLabel, start: StartState): { p: number; node: number } | null {
   if (l.regime === null || r.regime === null || l.exits.length !== r.exits.length || l.exits.length === 0) return null;
+  if (l.exits.some((x) => x.via) || r.exits.some((x) => x.via)) return null;
   const e = labeller.options.engagedProgress;
   const used = new Set<number>();
   let pair: { a: PointLabel['exits'][number]; b: PointLabel['exits'][number]; node: number } | null = null;

@@ -87,6 +87,18 @@ export interface RegimeOptions {
    * (docs/regimes.md, "Speed"). false: the full spectrum at every continued saddle.
    */
   readonly saddleUpdate: boolean;
+  /**
+   * Where no index-1 saddle leads out of the start state, track the edge of its basin (edge-tracking.ts;
+   * docs/regimes.md, "Exits through a moving edge state"). false: such points stay unlabelled
+   * (no-escape-route), as before engine 1.9.
+   */
+  readonly edgeTracking: boolean;
+  /** Edge tracking: time the boundary trajectory is followed, the stretch between re-bisections, ... */
+  readonly edgeTrackTime: number;
+  readonly edgeTrackStep: number;
+  /** ... the pair's distance after each bisection (max norm, relative), and the fate integrations one track may use. */
+  readonly edgeBisectTolerance: number;
+  readonly edgeTrackIntegrations: number;
 }
 
 export const defaultRegimeOptions: RegimeOptions = {
@@ -123,6 +135,11 @@ export const defaultRegimeOptions: RegimeOptions = {
   mergeCuts: true,
   maxSampleSpacing: 1 / 32,
   saddleUpdate: true,
+  edgeTracking: true,
+  edgeTrackTime: 400,
+  edgeTrackStep: 5,
+  edgeBisectTolerance: 1e-7,
+  edgeTrackIntegrations: 4000,
 };
 
 export function resolveOptions(options: Partial<RegimeOptions> | undefined): RegimeOptions {

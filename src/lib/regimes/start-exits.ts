@@ -60,6 +60,12 @@ export interface Exit {
    * function theorem; roles held fixed); null when J_x is singular.
    */
   readonly slope: readonly number[] | null;
+  /**
+   * 'moving-edge': no saddle but a moving state on the start's basin boundary, found by edge tracking
+   * (edge-exits.ts); `saddle` is then the snapshot of it with the most nodes engaged at once, and
+   * travel times and slopes are not defined. Absent for index-1 saddles.
+   */
+  readonly via?: 'moving-edge';
 }
 
 export interface StartExits {

@@ -67,6 +67,8 @@ export interface BandExit {
   readonly destination: NodeState[];
   /** contained (only the engaged nodes change), synchronous (one unit, every node) or cascading. */
   readonly kind: EdgeKind;
+  /** 'moving-edge': a moving state on the basin boundary, not a saddle (`saddle` is its snapshot with the most nodes engaged; Exit.via). */
+  readonly via?: 'moving-edge';
 }
 
 /** What kind of event a located band edge is. Special points and sweep ends are named by their types in `bounds`. */
